@@ -17,3 +17,16 @@ export { summariseVolume } from './core/summary.js';
 
 // io
 export type { Run, Sidecar, BoldEvent, NiftiReadInfo, TransformSource } from './io/run-types.js';
+export { labelComponents, type Connectivity, type Components } from './core/components.js';
+
+// each module's public API (each module's index.ts lists its exports)
+export * from './io/index.js';
+export * from './look/index.js';
+export * from './resample/index.js';
+export * from './register/index.js';
+export * from './steps/index.js';
+export * from './model/index.js';
+export * from './simulate/index.js';
+export * from './sweep/index.js';
+export * from './report/index.js';
+export * from './notebook/index.js';

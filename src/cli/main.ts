@@ -1,0 +1,23 @@
+#!/usr/bin/env node
+/**
+ * boldsweep command line: each command lives in its own file under src/cli/ and registers itself
+ * here. Exit codes: 0 success, 1 unexpected failure, 2 bad input (a BoldsweepError; its code is printed).
+ */
+import { Command } from 'commander';
+import { isBoldsweepError } from '../core/errors.js';
+
+const program = new Command();
+program
+  .name('boldsweep')
+  .description('Choose fMRI preprocessing parameters from evidence in your own run.')
+  .showHelpAfterError();
+
+
+program.parseAsync(process.argv).catch((e: unknown) => {
+  if (isBoldsweepError(e)) {
+    console.error(`boldsweep: ${e.code}: ${e.message}`);
+    process.exit(2);
+  }
+  console.error(e);
+  process.exit(1);
+});
