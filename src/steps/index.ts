@@ -1,2 +1,2 @@
 // steps: public exports of this module (re-exports only; src/index.ts re-exports this file).
-export {};
+export type { StepNote, StepContext, StepResult, StepFunction } from './step-types.js';
