@@ -1,2 +1,2 @@
 // model: public exports of this module (re-exports only; src/index.ts re-exports this file).
-export {};
+export { hrfValues, hrfKernel, GLOVER_DEFAULTS, type HrfShape, type HrfOptions, type HrfKernelOptions, type GloverParams } from './hrf.js';
