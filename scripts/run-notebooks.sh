@@ -6,9 +6,7 @@ cd "$(dirname "$0")/.."
 root=$(pwd)
 prefix="$root/.jupyter-local"
 mkdir -p out/notebooks
-# Debian's Jupyter lives with /usr/bin/python3; the first python3 on PATH may be another one.
-node_modules/.bin/tslab install --python=/usr/bin/python3 --prefix "$prefix" --binary "$root/node_modules/.bin/tslab" >/dev/null 2>&1 \
-  || { echo "tslab kernel registration failed"; echo '[]' > out/notebooks/results.json; exit 1; }
+bash scripts/register-kernel.sh >/dev/null || { echo "notebook kernel registration failed"; echo '[]' > out/notebooks/results.json; exit 1; }
 export JUPYTER_PATH="$prefix/share/jupyter"
 export JUPYTER_DATA_DIR="$root/.jupyter-local/data" JUPYTER_RUNTIME_DIR="$root/.jupyter-local/runtime" JUPYTER_CONFIG_DIR="$root/.jupyter-local/config"
 results="["
