@@ -1,2 +1,12 @@
 // sweep: public exports of this module (re-exports only; src/index.ts re-exports this file).
-export {};
+export { scoreDetection } from './score.js';
+export type { ScoreInput, ScoreRow } from './score.js';
+export { rocCurve } from './roc-curve.js';
+export type { RocCurve } from './roc-curve.js';
+export { rocArea } from './roc-area.js';
+export { diceCoefficient } from './dice.js';
+export { clusterCounts } from './cluster-counts.js';
+export type { ClusterCounts } from './cluster-counts.js';
+export { peakErrorsMm } from './peak-errors.js';
+export { effectBias } from './effect-bias.js';
+export type { EffectBias } from './effect-bias.js';

@@ -1,0 +1,138 @@
+import { childSeed } from '../core/random.js';
+import { settingsGrid, type Setting } from './settings-grid.js';
+import type { RecipeStep, SweepSpec } from './spec.js';
+import { stableHash } from './stable-hash.js';
+
+/** Bump when what a cached stage or cell holds changes, so old caches are never reused. */
+export const CACHE_FORMAT = 'boldsweep-sweep-cache-1';
+
+/** One planted condition: a blob size and amplitude (count 0 = nothing planted). */
+export interface PlantCondition {
+  shape: 'gaussian' | 'sphere';
+  sizeMm: number;
+  amplitudePct: number;
+  count: number;
+}
+
+/**
+ * One group of cells that share their first stages: the same planting (condition x repeat) and the
+ * recipe steps before the first varied step. Its output is computed once and cached.
+ */
+export interface CellGroup {
+  /** Position of the group in the full plan: plantIndex * repeats + repeat. */
+  index: number;
+  plantIndex: number;
+  plant: PlantCondition;
+  repeat: number;
+  /** Seed of this planting's random blob positions (shared by every setting of the repeat). */
+  plantSeed: number;
+  /** Recipe steps run before the varied step (identical for every setting). */
+  prefix: RecipeStep[];
+  /** Cache key of the group's output (hash of run, mask, planting and prefix steps). */
+  key: string;
+}
+
+/** One cell: a setting applied to one group's output, then modelled and scored. */
+export interface CellPlan {
+  /** Position in the full plan: group.index * settings + settingIndex (stable across shards). */
+  index: number;
+  group: number;
+  settingIndex: number;
+  setting: Setting;
+  /** Recipe steps from the first varied step on, with this setting's values filled in. */
+  suffix: RecipeStep[];
+  /** Model options with any varied "model.*" values filled in. */
+  model: SweepSpec['model'];
+  /** Cache key of the cell's scores. */
+  key: string;
+}
+
+/** The whole plan of a sweep. */
+export interface SweepPlan {
+  settings: Setting[];
+  plants: PlantCondition[];
+  groups: CellGroup[];
+  cells: CellPlan[];
+  /** Index in the recipe of the first varied step (recipe length when only model options vary). */
+  splitAt: number;
+  /** Hash of everything that determines the scorecard (spec without workers, inputs). */
+  sweepKey: string;
+}
+
+/** The inputs a plan depends on besides the spec (hashes, so the plan stays small). */
+export interface PlanInputs {
+  /** Hash of the run's voxel data and geometry, or of its file. */
+  runHash: string;
+  /** Hash of the masks (brain mask and placement mask) and the events used. */
+  contextHash: string;
+}
+
+/**
+ * Plan a sweep: plant conditions x repeats form groups (each planted once), and every setting of a
+ * group forms a cell. Steps before the first varied one belong to the group, so a smoothing sweep
+ * plants and runs the earlier steps once per repeat, not once per setting.
+ * @param spec - a validated spec
+ * @param inputs - hashes of the run and its context
+ * @returns the plan, cells ordered group by group
+ * @example const plan = planSweep(spec, { runHash, contextHash }); plan.cells.length // settings x plants x repeats
+ */
+export function planSweep(spec: SweepSpec, inputs: PlanInputs): SweepPlan {
+  const settings = settingsGrid(spec.vary);
+  const plants: PlantCondition[] = spec.plant.count === 0
+    ? [{ shape: spec.plant.shape, sizeMm: 0, amplitudePct: 0, count: 0 }]
+    : spec.plant.sizesFwhmMm.flatMap((sizeMm) => spec.plant.amplitudesPct.map((amplitudePct) => ({ shape: spec.plant.shape, sizeMm, amplitudePct, count: spec.plant.count })));
+  const splitAt = firstVariedStep(spec);
+  const prefix = spec.recipe.slice(0, splitAt);
+  const { workers: _workers, ...determining } = spec;
+  const sweepKey = stableHash({ format: CACHE_FORMAT, spec: determining, inputs });
+  const groups: CellGroup[] = [];
+  const cells: CellPlan[] = [];
+  for (let p = 0; p < plants.length; p++) {
+    for (let r = 0; r < spec.repeats; r++) {
+      const plantSeed = childSeed(spec.seed, 'plant', r);
+      const g: CellGroup = {
+        index: groups.length, plantIndex: p, plant: plants[p], repeat: r, plantSeed, prefix,
+        key: stableHash({ format: CACHE_FORMAT, stage: 'group', inputs, plant: plants[p], plantSeed, prefix, model: { trialType: spec.model.trialType } }),
+      };
+      groups.push(g);
+      settings.forEach((setting, s) => {
+        const suffix = applySetting(spec.recipe.slice(splitAt), setting);
+        const model = { ...spec.model };
+        for (const [k, v] of Object.entries(setting)) if (k.startsWith('model.')) (model as Record<string, unknown>)[k.slice(6)] = v;
+        cells.push({
+          index: cells.length, group: g.index, settingIndex: s, setting, suffix, model,
+          key: stableHash({ format: CACHE_FORMAT, stage: 'cell', group: g.key, suffix, model, threshold: spec.threshold }),
+        });
+      });
+    }
+  }
+  return { settings, plants, groups, cells, splitAt, sweepKey };
+}
+
+/**
+ * Index of the first recipe step a varied key names ("<step>.<param>"); recipe length when only
+ * model options vary.
+ * @param spec - the spec
+ * @returns the split point between shared and per-setting steps
+ * @example firstVariedStep(spec) // 1 for recipe [drop-initial-volumes, smooth] varying smooth.fwhmMm
+ */
+export function firstVariedStep(spec: Pick<SweepSpec, 'recipe' | 'vary'>): number {
+  let at = spec.recipe.length;
+  for (const key of Object.keys(spec.vary)) {
+    const step = key.slice(0, key.indexOf('.'));
+    const i = spec.recipe.findIndex((r) => r.step === step);
+    if (i >= 0 && i < at) at = i;
+  }
+  return at;
+}
+
+function applySetting(steps: RecipeStep[], setting: Setting): RecipeStep[] {
+  return steps.map((s) => {
+    const params = { ...s.params };
+    for (const [k, v] of Object.entries(setting)) {
+      const dot = k.indexOf('.');
+      if (k.slice(0, dot) === s.step) params[k.slice(dot + 1)] = v;
+    }
+    return { step: s.step, params };
+  });
+}

@@ -1,0 +1,128 @@
+import { z } from 'zod';
+import { fail } from '../core/fail.js';
+
+/**
+ * A sweep spec: what to run, what to vary, what to plant and how to judge it. The same object is
+ * accepted from TypeScript, JSON or YAML (see `readSweepSpec`), and validated by `sweepSpecSchema`.
+ *
+ *   recipe (ordered steps)  x  vary (grid of step parameters)  x  plant (sizes x amplitudes)  x  repeats
+ */
+
+/** One step of a recipe: a registered step name and its parameters. */
+export interface RecipeStep {
+  /** Registered step name, e.g. "smooth" (see the steps module's registry). */
+  step: string;
+  /** Parameters given to the step; missing ones take the step's defaults. */
+  params: Record<string, unknown>;
+}
+
+/** What to plant in each repeat: every size x amplitude pair is its own plant condition. */
+export interface PlantSpec {
+  /** Blob profile. __Default value:__ 'gaussian' */
+  shape: 'gaussian' | 'sphere';
+  /** Blob sizes in mm: FWHM of a Gaussian blob; for a sphere, its diameter (where its weight is one half). */
+  sizesFwhmMm: number[];
+  /** Peak amplitudes in percent of the local baseline. */
+  amplitudesPct: number[];
+  /** Blobs per planting; 0 plants nothing (a null sweep that measures false alarms only). */
+  count: number;
+}
+
+/** How a statistic map is thresholded before scoring. */
+export interface ThresholdRule {
+  /** 'fwe-rft' random-field family-wise, 'fdr' Benjamini-Hochberg, 'uncorrected', 'bonferroni', 'cluster' extent. */
+  kind: 'fwe-rft' | 'fdr' | 'uncorrected' | 'bonferroni' | 'cluster';
+  /** Family-wise or voxelwise error rate (all kinds but 'fdr'). __Default value:__ 0.05 */
+  alpha: number;
+  /** False discovery rate for 'fdr'. __Default value:__ 0.05 */
+  q: number;
+  /** Voxelwise p that forms clusters for 'cluster'. __Default value:__ 0.001 */
+  clusterFormingP: number;
+}
+
+/** Options of the statistical model fitted in every cell. */
+export interface ModelOptions {
+  /** Prewhiten with an AR(1) noise model. __Default value:__ true */
+  ar1: boolean;
+  /** Discrete cosine high-pass cutoff in seconds as nuisance regressors; null for none. __Default value:__ 128 */
+  highpassCutoffSec: number | null;
+  /** Trial type whose events form the tested regressor; null uses every event. __Default value:__ null */
+  trialType: string | null;
+}
+
+/** A whole sweep. */
+export interface SweepSpec {
+  /** Format version of this object. */
+  version: 1;
+  /** Ordered preprocessing steps with their fixed parameters. */
+  recipe: RecipeStep[];
+  /** Grid: "<step>.<param>" (or "model.<option>") -> candidate values; the sweep runs every combination. */
+  vary: Record<string, Array<number | string | boolean | null>>;
+  /** What to plant. */
+  plant: PlantSpec;
+  /** Repeated plantings (new positions, same sizes) per setting. */
+  repeats: number;
+  /** The false-alarm control used to call detections. */
+  threshold: ThresholdRule;
+  /** Model fitted in every cell. */
+  model: ModelOptions;
+  /** Seed of every random choice (blob positions); the same seed gives the same scorecard. */
+  seed: number;
+  /** Worker threads. __Default value:__ 2 */
+  workers: number;
+}
+
+const value = z.union([z.number().finite(), z.string(), z.boolean(), z.null()]);
+
+/** zod schema of a sweep spec (fields with defaults may be omitted). */
+export const sweepSpecSchema = z.object({
+  version: z.literal(1).default(1),
+  recipe: z.array(z.object({ step: z.string().min(1), params: z.record(z.unknown()).default({}) }).strict()).min(1),
+  vary: z.record(z.array(value).min(1)).default({}),
+  plant: z.object({
+    shape: z.enum(['gaussian', 'sphere']).default('gaussian'),
+    sizesFwhmMm: z.array(z.number().positive().max(100)).min(1),
+    amplitudesPct: z.array(z.number().nonnegative().max(100)).min(1),
+    count: z.number().int().nonnegative().max(1000),
+  }).strict(),
+  repeats: z.number().int().min(1).max(100000),
+  threshold: z.object({
+    kind: z.enum(['fwe-rft', 'fdr', 'uncorrected', 'bonferroni', 'cluster']),
+    alpha: z.number().gt(0).lt(1).default(0.05),
+    q: z.number().gt(0).lt(1).default(0.05),
+    clusterFormingP: z.number().gt(0).lt(1).default(0.001),
+  }).strict(),
+  model: z.object({
+    ar1: z.boolean().default(true),
+    highpassCutoffSec: z.number().positive().nullable().default(128),
+    trialType: z.string().nullable().default(null),
+  }).strict().default({}),
+  seed: z.number().int().nonnegative().lt(2 ** 32),
+  workers: z.number().int().min(1).max(256).default(2),
+}).strict();
+
+/** The spec as written by a user: fields with defaults may be left out. */
+export type SweepSpecInput = z.input<typeof sweepSpecSchema>;
+
+/**
+ * Validate a spec's shape and fill in defaults (step names and parameters are checked separately
+ * by `checkSpecSteps`, which needs the step registry).
+ * @param input - an object, e.g. parsed JSON or YAML
+ * @returns the complete spec
+ * @throws BoldsweepError SPEC_INVALID listing every offending field
+ * @example const spec = parseSweepSpecShape(JSON.parse(text))
+ */
+export function parseSweepSpecShape(input: unknown): SweepSpec {
+  const r = sweepSpecSchema.safeParse(input);
+  if (!r.success) {
+    const fields = r.error.issues.map((i) => `${i.path.join('.') || '(top level)'}: ${i.message}`);
+    fail('SPEC_INVALID', `the sweep spec has ${fields.length} problem(s): ${fields.join('; ')}`, { details: { fields } });
+  }
+  const spec = r.data as SweepSpec;
+  for (const [key, values] of Object.entries(spec.vary)) {
+    if (!/^[A-Za-z][\w-]*\.[A-Za-z]\w*$/.test(key)) fail('SPEC_INVALID', `vary key "${key}" must look like "<step>.<parameter>", e.g. "smooth.fwhmMm"`, { details: { fields: [`vary.${key}`] } });
+    const seen = new Set(values.map((v) => JSON.stringify(v)));
+    if (seen.size !== values.length) fail('SPEC_INVALID', `vary.${key} lists a value twice`, { details: { fields: [`vary.${key}`] } });
+  }
+  return spec;
+}
