@@ -3,3 +3,10 @@ export { writeFileAtomic, writeFileAtomicSync, type AtomicWriteData } from './at
 export { writeNifti, niftiHeaderBytes, niftiVoxelBytes, type WriteNiftiOptions } from './nifti-write.js';
 export { int16Scaling, type Int16Scaling } from './int16-scaling.js';
 export type { Run, Sidecar, BoldEvent, NiftiReadInfo, TransformSource } from './run-types.js';
+export { readNifti, type ReadNiftiOptions } from './nifti-read.js';
+export { parseNiftiHeader, MAX_DIM, MAX_VOXELS, type NiftiHeaderFacts } from './nifti-header.js';
+export { NIFTI_DATATYPES, niftiDatatypeName, type NiftiDatatype } from './nifti-datatypes.js';
+export { convertVoxels } from './convert-voxels.js';
+export { niftiTransform, usableAffine } from './nifti-transform.js';
+export { niftiUnits, type NiftiUnits, type NiftiSpaceUnit, type NiftiTimeUnit } from './nifti-units.js';
+export { scanNonFinite, type NonFiniteScan } from './non-finite.js';

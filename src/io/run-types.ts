@@ -43,6 +43,16 @@ export interface NiftiReadInfo {
   nonFiniteCount: number;
   /** Header description field. */
   description: string;
+  /** Header intent_name field (set by readNifti). */
+  intentName?: string;
+  /** Whether the file was gzip-compressed (set by readNifti). */
+  compressed?: boolean;
+  /** Length unit named in xyzt_units; lengths were converted to mm ('unknown' is read as mm). */
+  spaceUnit?: 'mm' | 'um' | 'm' | 'unknown';
+  /** Time unit named in xyzt_units; pixdim[4] was converted to s ('unknown' is read as s; 'other' = Hz, ppm or rad/s, not a time). */
+  timeUnit?: 's' | 'ms' | 'us' | 'unknown' | 'other';
+  /** pixdim[4] in seconds when it is a positive time, else 0 (set by readNifti). */
+  headerTrSec?: number;
 }
 
 /** A run: the 4D image with its sidecar and events, as opened from disk. */

@@ -1,0 +1,214 @@
+import { open, type FileHandle } from 'node:fs/promises';
+import { constants as zlibConstants, gunzipSync } from 'node:zlib';
+import { affineSpacing } from '../core/affine.js';
+import { fail } from '../core/fail.js';
+import { makeVolume, type Volume } from '../core/volume.js';
+import { convertVoxels } from './convert-voxels.js';
+import { HEADER_PROBE_BYTES, parseNiftiHeader, type NiftiHeaderFacts } from './nifti-header.js';
+import { niftiTransform, usableAffine } from './nifti-transform.js';
+import { niftiUnits } from './nifti-units.js';
+import { scanNonFinite } from './non-finite.js';
+import type { NiftiReadInfo } from './run-types.js';
+
+/** Options of {@link readNifti}. */
+export interface ReadNiftiOptions {
+  /**
+   * What to do with NaN/Inf voxels. `'error'` throws NON_FINITE_VOXELS with their count and the first
+   * one's index; `'zero'` sets them to 0 and reports the count in `info.nonFiniteCount`.
+   * __Default value:__ `'error'`.
+   */
+  nonFinite?: 'error' | 'zero';
+}
+
+/** Compressed bytes inflated to find the header of a .gz file: 4 KiB inflate to at most ~4 MB (deflate's ratio is below 1032:1). */
+const GZIP_PROBE_BYTES = 4096;
+/** Plain files are read in slices of this size when they need conversion (a multiple of every voxel size). */
+const READ_SLICE_BYTES = 8 << 20;
+/** Largest single read the file system call accepts comfortably (below 2^31). */
+const MAX_READ_BYTES = 1 << 30;
+const LITTLE_ENDIAN_HOST = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1;
+
+/**
+ * Read a NIfTI-1 or NIfTI-2 single-file image (`.nii` or gzip-compressed `.nii.gz`, recognised by its
+ * bytes) into one Float32Array, applying scl_slope/scl_inter (slope 0 or non-finite means none).
+ * Voxel->world follows nifti1.h: sform if sform_code > 0, else qform if qform_code > 0, else voxel
+ * sizes only (`info.transformSource` says which); lengths are converted to mm (m, mm, um) and
+ * pixdim[4] to seconds (s, ms, us). Memory: the .gz bytes, their decompressed copy and the output;
+ * a plain file is converted slice by slice (float32 in host order is read straight into the output).
+ * Headers claiming any dimension above 2^15 or more than 2^31 voxels are refused before allocating.
+ * @param path - the image file
+ * @param options - what to do with NaN/Inf voxels
+ * @returns the volume (3D images have nt = 1 and trSec 0) and facts about the file
+ * @throws BoldsweepError FILE_NOT_FOUND, READ_FAILED, NIFTI_TRUNCATED, NIFTI_BAD_MAGIC, NIFTI_SIZE_MISMATCH, NIFTI_UNSUPPORTED_DATATYPE, NIFTI_BAD_DIMS, NIFTI_ABSURD_SIZE, NIFTI_TOO_MANY_DIMS, NIFTI_BAD_TRANSFORM, GZIP_CORRUPT, NON_FINITE_VOXELS
+ * @example const { volume, info } = await readNifti('sub-01_task-rest_bold.nii.gz')
+ */
+export async function readNifti(path: string, options: ReadNiftiOptions = {}): Promise<{ volume: Volume; info: NiftiReadInfo }> {
+  const nonFinite = options.nonFinite ?? 'error';
+  if (nonFinite !== 'error' && nonFinite !== 'zero') fail('INVALID_ARGUMENT', `nonFinite must be 'error' or 'zero', got ${String(nonFinite)}`);
+  const fh = await openForReading(path);
+  let header: NiftiHeaderFacts;
+  let data: Float32Array;
+  let compressed: boolean;
+  try {
+    const size = (await fh.stat()).size;
+    const probe = new Uint8Array(Math.min(size, HEADER_PROBE_BYTES));
+    await readFully(fh, probe, 0, path);
+    compressed = probe.byteLength >= 2 && probe[0] === 0x1f && probe[1] === 0x8b;
+    ({ header, data } = compressed ? await readCompressed(fh, path) : await readPlain(fh, probe, size, path));
+  } finally {
+    await fh.close();
+  }
+
+  const at = { file: path };
+  const [nx, ny, nz, nt] = header.dims4;
+  const scan = scanNonFinite(data, nonFinite === 'zero');
+  if (scan.count > 0 && nonFinite === 'error') {
+    const i = scan.firstIndex;
+    const ijkt = [i % nx, Math.floor(i / nx) % ny, Math.floor(i / (nx * ny)) % nz, Math.floor(i / (nx * ny * nz))];
+    fail('NON_FINITE_VOXELS', `${scan.count} of ${data.length} voxels are NaN or infinite; the first is index ${i} (i, j, k, t = ${ijkt.join(', ')}); pass nonFinite: 'zero' to set them to 0`, {
+      ...at, details: { count: scan.count, firstIndex: i, firstVoxel: ijkt },
+    });
+  }
+
+  const units = niftiUnits(header.xyztUnits);
+  const { affine, source } = niftiTransform(header, units.toMm);
+  if (!usableAffine(affine)) fail('NIFTI_BAD_TRANSFORM', `the ${source} mapping is degenerate (zero determinant or non-finite entries)`, at);
+  const headerTr = header.pixdim[4] * units.toSec;
+  const headerTrSec = Number.isFinite(headerTr) && headerTr > 0 ? headerTr : 0;
+  const volume = makeVolume({
+    dims: [nx, ny, nz, nt],
+    spacingMm: affineSpacing(affine),
+    trSec: nt > 1 ? headerTrSec : 0,
+    affine,
+    data,
+  });
+  const info: NiftiReadInfo = {
+    path,
+    niftiVersion: header.version,
+    datatype: header.datatype.name,
+    littleEndian: header.littleEndian,
+    transformSource: source,
+    sformCode: header.sformCode,
+    qformCode: header.qformCode,
+    sclSlope: header.sclSlope,
+    sclInter: header.sclInter,
+    nonFiniteCount: scan.count,
+    description: header.description,
+    intentName: header.intentName,
+    compressed,
+    spaceUnit: units.space,
+    timeUnit: units.time,
+    headerTrSec,
+  };
+  return { volume, info };
+}
+
+async function openForReading(path: string): Promise<FileHandle> {
+  try {
+    const fh = await open(path, 'r');
+    const st = await fh.stat().catch(async (e) => { await fh.close(); throw e; });
+    if (!st.isFile()) {
+      await fh.close();
+      fail('READ_FAILED', `${path} is not a regular file`, { file: path });
+    }
+    return fh;
+  } catch (e) {
+    if ((e as { name?: string }).name === 'BoldsweepError') throw e;
+    const code = (e as NodeJS.ErrnoException).code;
+    if (code === 'ENOENT') fail('FILE_NOT_FOUND', `no file at ${path}`, { file: path, cause: e });
+    fail('READ_FAILED', `cannot open ${path} (${(e as Error).message})`, { file: path, cause: e });
+  }
+}
+
+/** Fill `into` from `position` on; a short file is the caller's business (it checked the size). */
+async function readFully(fh: FileHandle, into: Uint8Array, position: number, path: string): Promise<void> {
+  let done = 0;
+  while (done < into.byteLength) {
+    const want = Math.min(into.byteLength - done, MAX_READ_BYTES);
+    const { bytesRead } = await fh.read(into, done, want, position + done);
+    if (bytesRead === 0) fail('NIFTI_TRUNCATED', `file ended at byte ${position + done} while reading`, { file: path });
+    done += bytesRead;
+  }
+}
+
+/** scl_slope/scl_inter as the converter wants them: slope 0 for "no scaling" (also for slope 1, inter 0). */
+function effectiveScaling(h: NiftiHeaderFacts): { slope: number; inter: number } {
+  const slope = h.sclSlope;
+  if (slope === 0 || !Number.isFinite(slope)) return { slope: 0, inter: 0 };
+  const inter = Number.isFinite(h.sclInter) ? h.sclInter : 0;
+  if (slope === 1 && inter === 0) return { slope: 0, inter: 0 };
+  return { slope, inter };
+}
+
+function dataBytesOf(h: NiftiHeaderFacts): number {
+  const [nx, ny, nz, nt] = h.dims4;
+  return nx * ny * nz * nt * h.datatype.bytes;
+}
+
+async function readPlain(fh: FileHandle, probe: Uint8Array, size: number, path: string): Promise<{ header: NiftiHeaderFacts; data: Float32Array }> {
+  const header = parseNiftiHeader(probe, path);
+  const need = dataBytesOf(header);
+  const have = size - header.voxOffset;
+  checkDataLength(header, have, need, path);
+  const voxels = need / header.datatype.bytes;
+  const out = new Float32Array(voxels);
+  const { slope, inter } = effectiveScaling(header);
+  if (header.datatype.name === 'float32' && header.littleEndian === LITTLE_ENDIAN_HOST) {
+    // already the output format: read straight into it
+    await readFully(fh, new Uint8Array(out.buffer), header.voxOffset, path);
+    if (slope !== 0) for (let i = 0; i < voxels; i++) out[i] = out[i] * slope + inter;
+    return { header, data: out };
+  }
+  const slice = new Uint8Array(Math.min(READ_SLICE_BYTES, need));
+  for (let done = 0; done < need; done += slice.byteLength) {
+    const part = slice.subarray(0, Math.min(slice.byteLength, need - done));
+    await readFully(fh, part, header.voxOffset + done, path);
+    convertVoxels(part, header.datatype, header.littleEndian, slope, inter, out, done / header.datatype.bytes);
+  }
+  return { header, data: out };
+}
+
+async function readCompressed(fh: FileHandle, path: string): Promise<{ header: NiftiHeaderFacts; data: Float32Array }> {
+  let packed: Buffer;
+  try {
+    packed = await fh.readFile();
+  } catch (e) {
+    fail('READ_FAILED', `cannot read ${path} (${(e as Error).message})`, { file: path, cause: e });
+  }
+  let head: Buffer;
+  try {
+    head = gunzipSync(packed.subarray(0, GZIP_PROBE_BYTES), { finishFlush: zlibConstants.Z_SYNC_FLUSH });
+  } catch (e) {
+    gzipFailure(e, path, 'header');
+  }
+  const header = parseNiftiHeader(head, path);
+  const need = dataBytesOf(header);
+  const total = header.voxOffset + need;
+  let whole: Buffer;
+  try {
+    // one output buffer of exactly the expected size (+1 byte to tell "ends there" from "goes on")
+    whole = gunzipSync(packed, { chunkSize: Math.max(64 * 1024, total + 1), maxOutputLength: total + 1 });
+  } catch (e) {
+    if ((e as NodeJS.ErrnoException).code === 'ERR_BUFFER_TOO_LARGE') {
+      fail('NIFTI_SIZE_MISMATCH', `decompressed data are longer than the ${total} bytes the header describes (vox_offset ${header.voxOffset} + ${header.dims4.join('x')} ${header.datatype.name} voxels)`, { file: path, cause: e });
+    }
+    gzipFailure(e, path, 'data');
+  }
+  checkDataLength(header, whole.byteLength - header.voxOffset, need, path);
+  const out = new Float32Array(need / header.datatype.bytes);
+  const { slope, inter } = effectiveScaling(header);
+  convertVoxels(whole.subarray(header.voxOffset, total), header.datatype, header.littleEndian, slope, inter, out, 0);
+  return { header, data: out };
+}
+
+function checkDataLength(h: NiftiHeaderFacts, have: number, need: number, path: string): void {
+  const what = `header dims ${h.dims4.join('x')} of ${h.datatype.name} need ${need} bytes after vox_offset ${h.voxOffset}`;
+  if (have < need) fail('NIFTI_TRUNCATED', `${what}, but the file holds ${Math.max(0, have)}`, { file: path, details: { needBytes: need, haveBytes: have } });
+  if (have > need) fail('NIFTI_SIZE_MISMATCH', `${what}, but the file holds ${have} (${have - need} extra)`, { file: path, details: { needBytes: need, haveBytes: have } });
+}
+
+function gzipFailure(e: unknown, path: string, where: 'header' | 'data'): never {
+  const err = e as NodeJS.ErrnoException;
+  if (err.code === 'Z_BUF_ERROR') fail('NIFTI_TRUNCATED', `the gzip stream ends early (in the ${where}): ${err.message}`, { file: path, cause: e });
+  fail('GZIP_CORRUPT', `gzip decompression failed in the ${where}: ${err.message}`, { file: path, cause: e });
+}
