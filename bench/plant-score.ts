@@ -1,0 +1,51 @@
+/**
+ * Planting and scoring on generated data (a 64 x 64 x 36 run of 150 volumes, 3 mm voxels).
+ * plant: plantActivations (6 Gaussian blobs, FWHM 6 mm) vs copying the run once (the floor: planting
+ * must return a new run). score: scoreDetection (exact ROC over ~50k brain voxels, clusters, peaks)
+ * vs sorting the brain's statistics once (what the exact ROC needs at least).
+ * Prints `bench NAME VALUE UNIT` and `ratio NAME VALUE` lines; medians of 5 repeats.
+ */
+import { diagonalAffine } from '../src/core/affine.js';
+import { createRng } from '../src/core/random.js';
+import { makeVolume } from '../src/core/volume.js';
+import { plantActivations } from '../src/simulate/plant.js';
+import { scoreDetection } from '../src/sweep/score.js';
+
+function medianMs(f: () => unknown, repeats = 5): number {
+  const times: number[] = [];
+  for (let r = 0; r < repeats; r++) {
+    const t0 = process.hrtime.bigint();
+    f();
+    times.push(Number(process.hrtime.bigint() - t0) / 1e6);
+  }
+  return times.sort((a, b) => a - b)[Math.floor(repeats / 2)];
+}
+
+export async function main(): Promise<void> {
+  const [nx, ny, nz, nt] = [64, 64, 36, 150];
+  const n = nx * ny * nz;
+  const rng = createRng(1);
+  const data = new Float32Array(n * nt);
+  rng.fillNormal(data, 500, 10);
+  const run = makeVolume({ dims: [nx, ny, nz, nt], spacingMm: [3, 3, 3], trSec: 2, affine: diagonalAffine([3, 3, 3]), data });
+  const brain = new Uint8Array(n);
+  for (let k = 4; k < nz - 4; k++) for (let j = 8; j < ny - 8; j++) for (let i = 8; i < nx - 8; i++) brain[i + nx * (j + ny * k)] = 1;
+  const timeCourse = Array.from({ length: nt }, (_, t) => (t % 20 < 10 ? 1 : 0));
+  const options = { count: 6, fwhmMm: 6, amplitudePct: 1, timeCourse, placementMask: brain, seed: 3 };
+
+  const plantMs = medianMs(() => plantActivations(run, options));
+  const copyMs = medianMs(() => new Float32Array(run.data));
+  console.log(`bench plant-6-blobs-64x64x36x150 ${plantMs.toFixed(1)} ms`);
+  console.log(`ratio plant-vs-copy-run ${(plantMs / copyMs).toFixed(2)}`);
+
+  const { truth } = plantActivations(run, options);
+  const stat = new Float32Array(n);
+  rng.fillNormal(stat);
+  for (let v = 0; v < n; v++) stat[v] += 4 * truth.profile[v];
+  const survivors = Uint8Array.from(stat, (s) => (s > 3.1 ? 1 : 0));
+  const scoreMs = medianMs(() => scoreDetection({ statistic: stat, survivors, truth, brainMask: brain }));
+  const brainStats = Float64Array.from(stat.filter((_, v) => brain[v] === 1));
+  const sortMs = medianMs(() => new Float64Array(brainStats).sort());
+  console.log(`bench score-64x64x36 ${scoreMs.toFixed(1)} ms`);
+  console.log(`ratio score-vs-sort-brain ${(scoreMs / sortMs).toFixed(2)}`);
+}
