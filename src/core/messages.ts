@@ -35,6 +35,9 @@ export const ERROR_ADVICE = {
   CONSTANT_DATA: 'The data do not vary; the requested measure is undefined for them.',
   TOO_FEW_VOLUMES: 'The run is shorter than the measure needs; use a longer run.',
   RECORD_INVALID: 'The decision record is damaged or from an incompatible version.',
+  // parallel work
+  WORKER_SCRIPT_MISSING: 'Worker threads run compiled JavaScript: build the package first (npm run build) so the worker file exists under dist/.',
+  WORKER_FAILED: 'A worker thread stopped unexpectedly (often out of memory). Retry with fewer workers, or workers: 1 to run in the main thread.',
 } as const;
 
 /** Stable error codes; see {@link ERROR_ADVICE} for what each means. */
