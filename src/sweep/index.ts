@@ -7,6 +7,7 @@ export { rocArea } from './roc-area.js';
 export { diceCoefficient } from './dice.js';
 export { clusterCounts } from './cluster-counts.js';
 export type { ClusterCounts } from './cluster-counts.js';
-export { peakErrorsMm } from './peak-errors.js';
+export { blobPeaks } from './blob-peaks.js';
+export type { BlobPeaks } from './blob-peaks.js';
 export { effectBias } from './effect-bias.js';
 export type { EffectBias } from './effect-bias.js';

@@ -5,7 +5,7 @@ import type { PlantTruth } from '../simulate/plant.js';
 import { clusterCounts } from './cluster-counts.js';
 import { diceCoefficient } from './dice.js';
 import { effectBias } from './effect-bias.js';
-import { peakErrorsMm } from './peak-errors.js';
+import { blobPeaks } from './blob-peaks.js';
 import { rocArea } from './roc-area.js';
 import { rocCurve } from './roc-curve.js';
 
@@ -62,6 +62,10 @@ export type ScoreRow = {
   peakErrorMeanMm: number;
   /** Largest such distance over blobs (mm). */
   peakErrorMaxMm: number;
+  /** Mean over blobs of the largest statistic within the search radius (statistic units). */
+  peakStatisticMean: number;
+  /** Mean over blobs of the statistic at the true centre voxel (statistic units): the matched-filter gain shows here. */
+  centreStatisticMean: number;
   /** Mean estimated effect over truth voxels (%), NaN without an effect map. */
   effectEstimatedPct: number;
   /** Mean planted effect over the same voxels (%). */
@@ -141,7 +145,7 @@ export function scoreDetection(input: ScoreInput): ScoreRow {
 
   // 3. threshold-free measures: ROC area, peak location, effect size
   const rocAuc = truthVoxels > 0 && brainVoxels > truthVoxels ? rocArea(rocCurve(stat, truth.mask, brain, input.rocThresholds)) : NaN;
-  const peaks = peakErrorsMm(stat, truth.dims, truth.affine, truth.centresVoxel, radius, brain);
+  const peaks = blobPeaks(stat, truth.dims, truth.affine, truth.centresVoxel, radius, brain);
   const bias = effect && truthVoxels > 0 ? effectBias(effect, truth, brain) : undefined;
 
   return {
@@ -166,8 +170,10 @@ export function scoreDetection(input: ScoreInput): ScoreRow {
     dice: diceCoefficient(inBrainSurvivors, truth.mask, brain),
     rocAuc,
     peakSearchRadiusMm: radius,
-    peakErrorMeanMm: mean(peaks),
-    peakErrorMaxMm: peaks.reduce((m, d) => (d > m || Number.isNaN(d) ? d : m), -Infinity),
+    peakErrorMeanMm: mean(peaks.errorMm),
+    peakErrorMaxMm: peaks.errorMm.reduce((m, d) => (d > m || Number.isNaN(d) ? d : m), -Infinity),
+    peakStatisticMean: mean(peaks.peakValue),
+    centreStatisticMean: mean(peaks.centreValue),
     effectEstimatedPct: bias?.estimatedPct ?? NaN,
     effectPlantedPct: bias?.plantedPct ?? NaN,
     effectBiasPct: bias?.biasPct ?? NaN,

@@ -6,7 +6,7 @@ import type { PlantTruth } from '../../src/simulate/plant.js';
 import { clusterCounts } from '../../src/sweep/cluster-counts.js';
 import { diceCoefficient } from '../../src/sweep/dice.js';
 import { effectBias } from '../../src/sweep/effect-bias.js';
-import { peakErrorsMm } from '../../src/sweep/peak-errors.js';
+import { blobPeaks } from '../../src/sweep/blob-peaks.js';
 import { scoreDetection } from '../../src/sweep/score.js';
 
 // A 10 x 10 x 1 grid of 2 mm voxels; voxel (i, j) is index i + 10 j.
@@ -61,7 +61,7 @@ describe('clusterCounts', () => {
   });
 });
 
-describe('peakErrorsMm', () => {
+describe('blobPeaks', () => {
   it('is the world distance from each centre to the largest statistic within the radius', () => {
     const truth = handTruth();
     const stat = new Float32Array(100);
@@ -69,13 +69,15 @@ describe('peakErrorsMm', () => {
     stat[at(1, 1)] = 4;
     stat[at(7, 6)] = 9; // blob B's peak on its centre
     stat[at(9, 9)] = 50; // far away: outside both search radii of 4 mm
-    const e = peakErrorsMm(stat, dims, affine, truth.centresVoxel, 4);
-    expect(e[0]).toBeCloseTo(2 * Math.SQRT2, 12);
-    expect(e[1]).toBe(0);
+    const p = blobPeaks(stat, dims, affine, truth.centresVoxel, 4);
+    expect(p.errorMm[0]).toBeCloseTo(2 * Math.SQRT2, 12);
+    expect(p.errorMm[1]).toBe(0);
+    expect(Array.from(p.peakValue)).toEqual([5, 9]);
+    expect(Array.from(p.centreValue)).toEqual([4, 9]);
     // a brain mask hiding (2,2) moves blob A's peak back onto its centre
     const brain = new Uint8Array(100).fill(1);
     brain[at(2, 2)] = 0;
-    expect(peakErrorsMm(stat, dims, affine, truth.centresVoxel, 4, brain)[0]).toBe(0);
+    expect(blobPeaks(stat, dims, affine, truth.centresVoxel, 4, brain).errorMm[0]).toBe(0);
   });
 });
 
@@ -124,6 +126,7 @@ describe('scoreDetection', () => {
     expect([row.clusters, row.falseClusters]).toEqual([2, 1]);
     // peaks searched within the blob size (4 mm): errors 0 and 2 mm
     expect([row.peakSearchRadiusMm, row.peakErrorMeanMm, row.peakErrorMaxMm]).toEqual([4, 1, 2]);
+    expect([row.peakStatisticMean, row.centreStatisticMean]).toEqual([3.5, 3]); // (6 + 1)/2 and (6 + 0)/2
     expect([row.threshold, row.thresholdMethod, row.shape, row.sizeMm, row.amplitudePct, row.plantSeed]).toEqual([3.5, 'hand', 'gaussian', 4, 2, 3]);
     expect(row.effectBiasPct).toBeNaN();
     // every field is a number or a string (a flat table row)

@@ -2,28 +2,39 @@ import type { Affine, Vec3 } from '../core/affine.js';
 import { fail } from '../core/fail.js';
 import { indexExtent } from '../simulate/plant-profile.js';
 
+/** Result of {@link blobPeaks}: one entry per blob. */
+export interface BlobPeaks {
+  /** Distance in mm from the true centre to the statistic peak (NaN when nothing was searchable). */
+  errorMm: Float64Array;
+  /** The largest statistic within the search radius (-Infinity when nothing was searchable). */
+  peakValue: Float64Array;
+  /** The statistic at the true centre voxel. */
+  centreValue: Float64Array;
+}
+
 /**
- * Peak-location error per planted blob: the world distance (mm) from the true centre to the voxel
- * with the largest statistic among voxels within `searchRadiusMm` of that centre (ties: first in
- * NIfTI order). 0 when the peak sits on the centre voxel.
+ * The statistic peak near each planted blob: the voxel with the largest statistic among voxels
+ * within `searchRadiusMm` of the true centre (ties: first in NIfTI order), its value, and its world
+ * distance (mm) from the centre, the peak-location error (0 when the peak sits on the centre voxel).
  * @param statistic - per-voxel statistic, length nx*ny*nz
  * @param dims - [nx, ny, nz]
  * @param affine - voxel -> world (mm)
  * @param centresVoxel - true centres in voxel indices
  * @param searchRadiusMm - how far from each centre to look for the peak
  * @param within - optional region (e.g. brain mask); voxels outside are not searched
- * @returns one distance in mm per centre (NaN when no searchable voxel has a finite statistic)
+ * @returns per blob: location error (mm), peak value and the value at the centre
  * @throws BoldsweepError INVALID_ARGUMENT on bad radius or lengths
- * @example peakErrorsMm(z.data, truth.dims, truth.affine, truth.centresVoxel, 6)
+ * @example blobPeaks(z.data, truth.dims, truth.affine, truth.centresVoxel, 6).errorMm
  */
-export function peakErrorsMm(statistic: ArrayLike<number>, dims: readonly number[], affine: Affine, centresVoxel: readonly Vec3[], searchRadiusMm: number, within?: ArrayLike<number>): Float64Array {
+export function blobPeaks(statistic: ArrayLike<number>, dims: readonly number[], affine: Affine, centresVoxel: readonly Vec3[], searchRadiusMm: number, within?: ArrayLike<number>): BlobPeaks {
   const [nx, ny, nz] = dims;
   if (statistic.length !== nx * ny * nz || (within && within.length !== statistic.length)) fail('INVALID_ARGUMENT', `statistic length ${statistic.length} does not match ${nx}x${ny}x${nz}`);
   if (!(searchRadiusMm >= 0) || !Number.isFinite(searchRadiusMm)) fail('INVALID_ARGUMENT', `searchRadiusMm must be >= 0, got ${searchRadiusMm}`);
   const ext = indexExtent(affine, searchRadiusMm);
   const a = affine;
   const r2 = searchRadiusMm * searchRadiusMm * (1 + 1e-12);
-  const out = new Float64Array(centresVoxel.length);
+  const m = centresVoxel.length;
+  const out: BlobPeaks = { errorMm: new Float64Array(m), peakValue: new Float64Array(m), centreValue: new Float64Array(m) };
   centresVoxel.forEach(([ci, cj, ck], b) => {
     let best = -Infinity, bestD2 = NaN;
     for (let k = Math.max(0, Math.ceil(ck - ext[2])); k <= Math.min(nz - 1, Math.floor(ck + ext[2])); k++) {
@@ -40,7 +51,9 @@ export function peakErrorsMm(statistic: ArrayLike<number>, dims: readonly number
         }
       }
     }
-    out[b] = Math.sqrt(bestD2);
+    out.errorMm[b] = Math.sqrt(bestD2);
+    out.peakValue[b] = best;
+    out.centreValue[b] = statistic[ci + nx * (cj + ny * ck)];
   });
   return out;
 }
