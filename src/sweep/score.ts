@@ -94,7 +94,7 @@ export interface ScoreInput {
   effectPct?: Volume | ArrayLike<number>;
   /** Threshold that made the survivors, recorded in the row. */
   threshold?: number;
-  /** Name of the threshold rule, recorded in the row (e.g. 'fwe-rft', 'uncorrected-0.001'). */
+  /** Name of the threshold rule, recorded in the row (e.g. a threshold result's `rule`: 'rft-fwe', 'uncorrected'). */
   thresholdMethod?: string;
   /** Search radius for the peak (mm). __Default value:__ the blob size (truth.sizeMm). */
   peakSearchRadiusMm?: number;
@@ -111,8 +111,8 @@ export interface ScoreInput {
  * @returns the row (fields documented on {@link ScoreRow})
  * @throws BoldsweepError GRID_MISMATCH when a map is not on the truth's grid, INVALID_ARGUMENT for bad options
  * @example
- * const fwe = fweThreshold(...);
- * const row = scoreDetection({ statistic: z, survivors: fwe.survivors, truth, brainMask, threshold: fwe.threshold, thresholdMethod: 'fwe-rft' })
+ * const fwe = thresholdRft(z, brainMask, truth.dims, rftOptions); // any rule returning { rule, threshold, survivors }
+ * const row = scoreDetection({ statistic: z, survivors: fwe.survivors, truth, brainMask, threshold: fwe.threshold, thresholdMethod: fwe.rule })
  */
 export function scoreDetection(input: ScoreInput): ScoreRow {
   const { truth } = input;
