@@ -1,2 +1,25 @@
 // look: public exports of this module (re-exports only; src/index.ts re-exports this file).
-export {};
+export { lookAtRun, LOOK_MIN_VOLUMES, SPIKE_VOXELS_FOR_CENSOR, type LookOptions, type LookResult } from './look-at-run.js';
+export { findingsTable } from './findings-table.js';
+export type { Finding, FindingKind } from './finding-types.js';
+export { FINDING_ADVICE } from './finding-text.js';
+export { brainMaskFromMean, checkUserMask, type BrainMask } from './brain-mask.js';
+export { otsuThreshold, otsuFromHistogram, histogramOf, type OtsuResult } from './otsu-threshold.js';
+export { erodeMask, dilateMask, openMask, closeMask } from './binary-morphology.js';
+export { fillHoles } from './fill-holes.js';
+export { largestComponent } from './largest-component.js';
+export { maskRings } from './mask-rings.js';
+export { meanImage } from './mean-image.js';
+export { voxelTimeStats, type VoxelTimeStats } from './voxel-time-stats.js';
+export { maskSeries, type MaskSeries } from './mask-series.js';
+export { dvarsNullExpectation, standardisedDvars } from './standardised-dvars.js';
+export { steadyStateExcess, steadyStateModelCount, GREY_MATTER_T1_SEC_3T, type SteadyStateParams } from './steady-state-model.js';
+export { steadyStateOnset, type SteadyStateOnset } from './steady-state-onset.js';
+export { volumeOutliers, type VolumeOutliers, type VolumeOutlier } from './volume-outliers.js';
+export { sliceOutliers, type SliceOutliers, type SliceOutlier } from './slice-outliers.js';
+export { voxelSpikes, type VoxelSpike } from './voxel-spikes.js';
+export { robustZ, MAD_TO_SD, type RobustZ } from './robust-z.js';
+export { medianOf } from './median-of.js';
+export { summariseInMask, type MapSummary } from './map-summary.js';
+export { orthonormalDrift, detrendSeries } from './orthonormal-drift.js';
+export { voxelRasterRows, type VoxelRasterRows } from './voxel-raster-rows.js';

@@ -1,0 +1,345 @@
+import { fail } from '../core/fail.js';
+import { volumeLike, voxelsPerVolume, type Volume } from '../core/volume.js';
+import type { Run } from '../io/run-types.js';
+import { brainMaskFromMean, checkUserMask, type BrainMask } from './brain-mask.js';
+import type { Finding } from './finding-types.js';
+import { FINDING_ADVICE, describeVolumes, signed } from './finding-text.js';
+import { summariseInMask, type MapSummary } from './map-summary.js';
+import { maskSeries } from './mask-series.js';
+import { meanImage } from './mean-image.js';
+import { sliceOutliers, type SliceOutliers } from './slice-outliers.js';
+import { dvarsNullExpectation, standardisedDvars } from './standardised-dvars.js';
+import { GREY_MATTER_T1_SEC_3T, steadyStateExcess, steadyStateModelCount } from './steady-state-model.js';
+import { steadyStateOnset, type SteadyStateOnset } from './steady-state-onset.js';
+import { volumeOutliers, type VolumeOutliers } from './volume-outliers.js';
+import { voxelSpikes, type VoxelSpike } from './voxel-spikes.js';
+import { voxelTimeStats } from './voxel-time-stats.js';
+
+/** Fewest volumes a look accepts: robust z-scores and the steady-state reference window need them. */
+export const LOOK_MIN_VOLUMES = 12;
+
+/** Spikes in this many voxels of one volume (not otherwise flagged) make the volume one to censor. */
+export const SPIKE_VOXELS_FOR_CENSOR = 10;
+
+/** Options of {@link lookAtRun}; every cutoff is a robust z (median / 1.4826 MAD units). */
+export interface LookOptions {
+  /** A brain mask to use instead of the one made from the mean image (same grid, 3D). */
+  mask?: Volume;
+  /** Polynomial drift order removed before SDs and outlier scores (default 2). */
+  detrendOrder?: number;
+  /** Initial volumes to drop: a number, or 'auto' (default) for the steady-state recommendation. */
+  dropInitialVolumes?: number | 'auto';
+  /** Volume outliers: DVARS (one-sided) and global mean (two-sided) cutoff (default 5). */
+  volumeCutoffZ?: number;
+  /** Slice outliers cutoff (default 5). */
+  sliceCutoffZ?: number;
+  /** Single-voxel spike cutoff (default 6: at 20 000 voxels x 200 volumes, about 0.01 false spikes per run for Gaussian noise). */
+  spikeCutoffZ?: number;
+  /** Steady state: cutoff above the extrapolated steady level (default 5). */
+  steadyCutoffZ?: number;
+  /** T1 for the steady-state model, seconds (default grey matter at 3 T, {@link GREY_MATTER_T1_SEC_3T}). */
+  t1Sec?: number;
+  /** Flip angle in degrees when the sidecar has none. */
+  flipAngleDeg?: number;
+  /** Most spike findings listed (volumes with the strongest spikes first; default 20). */
+  maxSpikeFindings?: number;
+}
+
+/** Everything a look found: maps, traces, findings and the recommendation. */
+export interface LookResult {
+  /** Maps over the volumes kept (from dropInitialVolumes): mean, SD and tSNR (signal units; tSNR dimensionless), and the mask (0/1). */
+  maps: { mean: Volume; sd: Volume; tsnr: Volume; mask: Volume };
+  /** Map summaries inside the mask. */
+  summaries: { mean: MapSummary; sd: MapSummary; tsnr: MapSummary };
+  mask: BrainMask;
+  /** Per-volume traces, one value per volume (NaN where not defined). */
+  series: {
+    /** Mean signal in the mask (signal units). */
+    globalMean: Float64Array;
+    /** DVARS (signal units) and as % of the median global mean. */
+    dvars: Float64Array;
+    dvarsPercent: Float64Array;
+    /** DVARS / sqrt(E[DVARS^2]) (Afyouni & Nichols 2018): about 1 without artefacts. */
+    dvarsStandardised: Float64Array;
+    /** E[DVARS^2] under the null, squared signal units. */
+    dvarsNullExpectation: number;
+    /** Per-slice mask means [slice * nt + volume] and their robust z. */
+    sliceMean: Float64Array;
+    sliceZ: Float64Array;
+    dvarsZ: Float64Array;
+    globalZ: Float64Array;
+  };
+  steadyState: {
+    /** Leading volumes above the steady level in the data. */
+    dataCount: number;
+    onset: SteadyStateOnset;
+    /** Closed-form count at the same relative threshold, when TR and flip angle are known. */
+    modelCount: number | null;
+    model: { trSec: number; flipAngleDeg: number; t1Sec: number; t1Source: string; relativeThreshold: number; excessFirstVolume: number } | null;
+  };
+  volumeOutliers: VolumeOutliers;
+  sliceOutliers: SliceOutliers;
+  /** Every spike found, including those explained by a flagged volume or slice. */
+  spikes: VoxelSpike[];
+  findings: Finding[];
+  /** One line per finding, same order. */
+  verdicts: string[];
+  recommendation: { dropInitialVolumes: number; censorVolumes: number[]; why: string[] };
+  settings: Required<Omit<LookOptions, 'mask' | 'flipAngleDeg' | 'dropInitialVolumes'>> & { dropInitialVolumes: number | 'auto'; ddof: number; maskSource: 'otsu' | 'user' };
+  dims: [number, number, number, number];
+  trSec: number;
+}
+
+/**
+ * Look at a run before choosing anything: brain mask, mean/SD/tSNR maps, global mean, DVARS
+ * (plain and standardised), per-slice means, steady-state onset, volume/slice outliers and
+ * single-voxel spikes, turned into findings with verdicts and a recommendation (volumes to drop,
+ * volumes to censor).
+ *
+ * Phases (reads of the run in brackets):
+ *   1. mean image over all volumes [1 pass]        -> brain mask (Otsu + morphology) or user mask
+ *   2. global mean, DVARS, slice means in the mask [mask voxels only]
+ *   3. steady-state onset from the global mean     -> volumes to drop
+ *   4. mean, detrended SD, tSNR, lag-1 per voxel over kept volumes [1 pass, cache-blocked]
+ *   5. standardised DVARS, volume and slice outliers (series only); spikes on screened voxels [few]
+ *   6. findings, verdicts, recommendation
+ * @param input - a Run (sidecar gives FlipAngle) or a 4D Volume
+ * @param options - see {@link LookOptions}
+ * @returns the look
+ * @throws BoldsweepError NOT_4D (3D image), TOO_FEW_VOLUMES (fewer than {@link LOOK_MIN_VOLUMES}),
+ *   CONSTANT_DATA (no contrast for a mask, or no voxel varies over time), GRID_MISMATCH (user mask)
+ * @example const look = lookAtRun(await openRun('sub-01_task-x_bold.nii.gz')); console.log(look.verdicts.join('\n'))
+ */
+export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookResult {
+  const run: Volume = 'volume' in input ? input.volume : input;
+  const sidecar = 'volume' in input ? input.sidecar : null;
+  const [nx, ny, nz, nt] = run.dims;
+  if (nt < 2) fail('NOT_4D', `the image has ${nt} volume (${nx}x${ny}x${nz}); a look needs the 4D run`);
+  if (nt < LOOK_MIN_VOLUMES) fail('TOO_FEW_VOLUMES', `a look needs at least ${LOOK_MIN_VOLUMES} volumes (robust outlier scores and the steady-state reference window), the run has ${nt}`);
+  const detrendOrder = options.detrendOrder ?? 2;
+  const volumeCutoffZ = options.volumeCutoffZ ?? 5;
+  const sliceCutoffZ = options.sliceCutoffZ ?? 5;
+  const spikeCutoffZ = options.spikeCutoffZ ?? 6;
+  const steadyCutoffZ = options.steadyCutoffZ ?? 5;
+  const maxSpikeFindings = options.maxSpikeFindings ?? 20;
+  const n = voxelsPerVolume(run);
+
+  // 1. mask
+  const meanAll = meanImage(run);
+  const nonFinite = new Uint8Array(n);
+  let nonFiniteCount = 0;
+  for (let v = 0; v < n; v++) if (!Number.isFinite(meanAll[v])) { nonFinite[v] = 1; nonFiniteCount++; }
+  if (nonFiniteCount === n) fail('CONSTANT_DATA', 'every voxel holds a NaN or infinite value in some volume; nothing can be measured');
+  let mask: BrainMask;
+  if (options.mask) {
+    mask = checkUserMask(options.mask, run);
+    let dropped = 0;
+    for (let v = 0; v < n; v++) if (mask.mask[v] && nonFinite[v]) { mask.mask[v] = 0; dropped++; }
+    mask.voxels -= dropped;
+    if (mask.voxels === 0) fail('INVALID_ARGUMENT', 'every voxel of the user mask holds NaN or infinite values');
+  } else {
+    mask = brainMaskFromMean(meanAll, [nx, ny, nz]);
+  }
+
+  // 2. traces in the mask
+  const traces = maskSeries(run, mask.mask);
+
+  // 3. steady state
+  const onset = steadyStateOnset(traces.globalMean, { cutoffZ: steadyCutoffZ });
+  const trSec = run.trSec > 0 ? run.trSec : typeof sidecar?.RepetitionTime === 'number' ? sidecar.RepetitionTime : 0;
+  const flip = typeof sidecar?.FlipAngle === 'number' ? sidecar.FlipAngle : options.flipAngleDeg;
+  const steadyLevel = onset.level[Math.min(nt - 1, onset.reference[0])];
+  let model: LookResult['steadyState']['model'] = null;
+  let modelCount: number | null = null;
+  if (trSec > 0 && flip !== undefined && flip > 0 && steadyLevel > 0) {
+    const t1Sec = options.t1Sec ?? GREY_MATTER_T1_SEC_3T;
+    const relativeThreshold = (steadyCutoffZ * onset.scale) / steadyLevel;
+    const params = { trSec, flipAngleDeg: flip, t1Sec };
+    modelCount = steadyStateModelCount(params, relativeThreshold);
+    model = {
+      trSec, flipAngleDeg: flip, t1Sec,
+      t1Source: options.t1Sec !== undefined ? 'given' : 'grey matter at 3 T, Wansapura et al. 1999 J Magn Reson Imaging 9:531 (1.331 s)',
+      relativeThreshold, excessFirstVolume: steadyStateExcess(1, params),
+    };
+  }
+  const auto = options.dropInitialVolumes === undefined || options.dropInitialVolumes === 'auto';
+  const drop = auto ? Math.max(onset.count, modelCount ?? 0) : (options.dropInitialVolumes as number);
+  if (!Number.isInteger(drop) || drop < 0 || nt - drop < LOOK_MIN_VOLUMES) {
+    fail(auto ? 'TOO_FEW_VOLUMES' : 'INVALID_ARGUMENT', `dropping ${drop} initial volumes leaves ${nt - drop}; a look needs ${LOOK_MIN_VOLUMES}`);
+  }
+
+  // 4. maps over kept volumes
+  const stats = voxelTimeStats(run, { firstVolume: drop, detrendOrder });
+  for (let v = 0; v < n; v++) if (nonFinite[v]) stats.mean[v] = stats.sd[v] = stats.tsnr[v] = stats.lag1[v] = NaN;
+  let varying = 0;
+  for (let v = 0; v < n; v++) if (mask.mask[v] && stats.sd[v] > 0) varying++;
+  if (varying === 0) fail('CONSTANT_DATA', `none of the ${mask.voxels} mask voxels varies over time`);
+  const maskF32 = new Float32Array(n);
+  for (let v = 0; v < n; v++) maskF32[v] = mask.mask[v];
+  const maps = {
+    mean: volumeLike(run, 1, stats.mean),
+    sd: volumeLike(run, 1, stats.sd),
+    tsnr: volumeLike(run, 1, stats.tsnr),
+    mask: volumeLike(run, 1, maskF32),
+  };
+  const summaries = {
+    mean: summariseInMask(stats.mean, mask.mask),
+    sd: summariseInMask(stats.sd, mask.mask),
+    tsnr: summariseInMask(stats.tsnr, mask.mask),
+  };
+
+  // 5. outliers
+  const nullE = dvarsNullExpectation(stats.sd, stats.lag1, mask.mask);
+  const dvarsStd = standardisedDvars(traces.dvars, nullE);
+  const globalMedian = summariseInMask(traces.globalMean.subarray(drop)).median;
+  const dvarsPercent = traces.dvars.map((d) => (100 * d) / globalMedian);
+  const vol = volumeOutliers(traces.dvars, traces.globalMean, { firstVolume: drop, cutoffZ: volumeCutoffZ, detrendOrder });
+  const sl = sliceOutliers(traces.sliceMean, nz, nt, { firstVolume: drop, cutoffZ: sliceCutoffZ, detrendOrder });
+  const T = nt - drop;
+  // screen: a voxel with up to 4 spikes of robust z >= c still has max|r|/SD >= c / sqrt(1 + 4 c^2 / T)
+  // (each spike inflates the SD); 0.9 leaves room for the drift fit and the MAD/SD difference
+  const screen = (0.9 * spikeCutoffZ) / Math.sqrt(1 + (4 * spikeCutoffZ * spikeCutoffZ) / T);
+  const candidates: number[] = [];
+  for (let v = 0; v < n; v++) if (mask.mask[v] && stats.maxAbsResidual[v] > screen * stats.sd[v]) candidates.push(v);
+  const spikes = voxelSpikes(run, candidates, { firstVolume: drop, detrendOrder, cutoffZ: spikeCutoffZ });
+
+  // 6. findings
+  const findings: Finding[] = [];
+  if (nonFiniteCount > 0) findings.push(nonFiniteFinding(nonFinite, [nx, ny, nz]));
+  if (drop > 0) findings.push(steadyFinding(drop, auto, onset, modelCount, model, traces.globalMean));
+  findings.push(...volumeFindings(vol, traces.dvars, dvarsStd, traces.globalMean));
+  findings.push(...sliceFindings(sl));
+  const explainedVolume = new Set(vol.flagged.map((f) => f.volume).concat(sl.wholeVolumeEvents));
+  const explainedSlice = new Set(sl.flagged.map((f) => `${f.slice}:${f.volume}`));
+  const unexplained = spikes.filter((s) => !explainedVolume.has(s.volume) && !explainedSlice.has(`${s.ijk[2]}:${s.volume}`));
+  findings.push(...spikeFindings(unexplained, maxSpikeFindings, spikeCutoffZ));
+
+  const censor = new Set<number>();
+  for (const f of vol.flagged) censor.add(f.volume);
+  for (const f of sl.flagged) censor.add(f.volume);
+  const spikesPerVolume = new Map<number, number>();
+  for (const s of unexplained) spikesPerVolume.set(s.volume, (spikesPerVolume.get(s.volume) ?? 0) + 1);
+  for (const [t, k] of spikesPerVolume) if (k >= SPIKE_VOXELS_FOR_CENSOR) censor.add(t);
+  const censorVolumes = [...censor].sort((a, b) => a - b);
+  const why: string[] = [];
+  if (drop > 0) why.push(`drop ${drop}: ${auto ? `steady state reached at volume ${drop} (data: ${onset.count}${modelCount !== null ? `, model: ${modelCount}` : ''})` : 'as requested'}`);
+  if (censorVolumes.length) why.push(`censor ${describeVolumes(censorVolumes)}: flagged by DVARS, global mean, slice means or many simultaneous spikes`);
+
+  return {
+    maps, summaries, mask,
+    series: {
+      globalMean: traces.globalMean, dvars: traces.dvars, dvarsPercent, dvarsStandardised: dvarsStd, dvarsNullExpectation: nullE,
+      sliceMean: traces.sliceMean, sliceZ: sl.z, dvarsZ: vol.dvarsZ, globalZ: vol.globalZ,
+    },
+    steadyState: { dataCount: onset.count, onset, modelCount, model },
+    volumeOutliers: vol, sliceOutliers: sl, spikes,
+    findings, verdicts: findings.map((f) => f.verdict),
+    recommendation: { dropInitialVolumes: drop, censorVolumes, why },
+    settings: { detrendOrder, volumeCutoffZ, sliceCutoffZ, spikeCutoffZ, steadyCutoffZ, t1Sec: model?.t1Sec ?? options.t1Sec ?? GREY_MATTER_T1_SEC_3T, maxSpikeFindings, dropInitialVolumes: options.dropInitialVolumes ?? 'auto', ddof: stats.ddof, maskSource: mask.source },
+    dims: [nx, ny, nz, nt], trSec,
+  };
+}
+
+function nonFiniteFinding(nonFinite: Uint8Array, dims: [number, number, number]): Finding {
+  const [nx, ny, nz] = dims;
+  const perSlice = new Array<number>(nz).fill(0);
+  for (let v = 0; v < nonFinite.length; v++) if (nonFinite[v]) perSlice[Math.floor(v / (nx * ny))]++;
+  const slices = perSlice.map((c, z) => (c > 0 ? z : -1)).filter((z) => z >= 0);
+  const whole = slices.filter((z) => perSlice[z] === nx * ny);
+  const total = perSlice.reduce((a, b) => a + b, 0);
+  return {
+    kind: 'non-finite', volumes: [], slices, voxels: [],
+    evidence: { voxels: total, slicesAffected: slices.length, wholeSlices: whole, voxelsPerSlice: slices.map((z) => perSlice[z]) },
+    reason: `${total} voxels hold NaN or infinite values in at least one volume${whole.length ? `; ${describeVolumes(whole, 'slice')} entirely` : ''}`,
+    advice: FINDING_ADVICE['non-finite'],
+    verdict: `${total} voxels with NaN/infinite values (${describeVolumes(slices, 'slice')}): excluded; repair or mask them`,
+  };
+}
+
+function steadyFinding(drop: number, auto: boolean, onset: SteadyStateOnset, modelCount: number | null, model: LookResult['steadyState']['model'], g: Float64Array): Finding {
+  const volumes = Array.from({ length: drop }, (_, i) => i);
+  const excessPercent = volumes.map((t) => (100 * (g[t] - onset.level[t])) / onset.level[t]);
+  const evidence: Finding['evidence'] = {
+    dataCount: onset.count, cutoffZ: onset.cutoffZ, robustSdSignal: onset.scale,
+    zOfDropped: volumes.map((t) => round(onset.z[t], 2)), excessPercent: excessPercent.map((e) => round(e, 3)),
+    referenceVolumes: `${onset.reference[0]}-${onset.reference[1] - 1}`,
+  };
+  if (model) Object.assign(evidence, { modelCount: modelCount ?? 0, trSec: model.trSec, flipAngleDeg: model.flipAngleDeg, t1Sec: model.t1Sec, t1Source: model.t1Source, relativeThreshold: model.relativeThreshold });
+  const modelText = model ? `; the spoiled-gradient-echo model (TR ${model.trSec} s, flip ${model.flipAngleDeg} deg, T1 ${model.t1Sec} s) predicts ${modelCount} above the same threshold` : '; no flip angle known, so no model check';
+  return {
+    kind: 'non-steady-start', volumes, slices: [], voxels: [], evidence,
+    reason: `${auto ? `the first ${onset.count} volumes' global mean lies more than ${onset.cutoffZ} robust SDs above the steady level (${excessPercent.map((e) => signed(e, 2) + ' %').join(', ')})${modelText}` : `${drop} volumes dropped as requested (data count ${onset.count})`}`,
+    advice: FINDING_ADVICE['non-steady-start'],
+    verdict: `${drop} volume${drop === 1 ? '' : 's'} brighter than steady state: drop ${drop === 1 ? 'it' : 'them'}`,
+  };
+}
+
+function volumeFindings(vol: VolumeOutliers, dvars: Float64Array, dvarsStd: Float64Array, g: Float64Array): Finding[] {
+  const runs: Array<typeof vol.flagged> = [];
+  for (const f of vol.flagged) {
+    const last = runs[runs.length - 1];
+    if (last && last[last.length - 1].volume === f.volume - 1) last.push(f);
+    else runs.push([f]);
+  }
+  return runs.map((group) => {
+    const volumes = group.map((f) => f.volume);
+    const jump = group.some((f) => f.reasons.includes('dvars-high'));
+    const kind = jump ? 'volume-jump' as const : 'global-signal' as const;
+    const maxD = Math.max(...group.map((f) => f.dvarsZ).filter(Number.isFinite));
+    const maxG = group.reduce((m, f) => (Math.abs(f.globalZ) > Math.abs(m) ? f.globalZ : m), 0);
+    const reason = jump
+      ? `DVARS robust z up to ${maxD.toFixed(1)} (cutoff ${vol.cutoffZ}, one-sided): the image changes abruptly from the volume before`
+      : `global mean robust z ${signed(maxG)} (cutoff +-${vol.cutoffZ}) after removing drift`;
+    return {
+      kind, volumes, slices: [], voxels: [],
+      evidence: {
+        dvarsSignal: volumes.map((t) => round(dvars[t], 3)), dvarsStandardised: volumes.map((t) => round(dvarsStd[t], 3)),
+        dvarsZ: group.map((f) => round(f.dvarsZ, 2)), globalMean: volumes.map((t) => round(g[t], 3)), globalZ: group.map((f) => round(f.globalZ, 2)),
+        cutoffZ: vol.cutoffZ,
+      },
+      reason,
+      advice: FINDING_ADVICE[kind],
+      verdict: jump
+        ? `abrupt change at ${describeVolumes(volumes)} (DVARS ${(Math.max(...volumes.map((t) => dvarsStd[t]))).toFixed(1)}x its null level): censor`
+        : `global signal off its drift at ${describeVolumes(volumes)} (z ${signed(maxG)}): censor`,
+    };
+  });
+}
+
+function sliceFindings(sl: SliceOutliers): Finding[] {
+  return sl.flagged.map((f) => {
+    const kind = f.direction === 'dark' ? 'slice-dropout' as const : 'slice-bright' as const;
+    const pct = (100 * (f.value - f.typical)) / f.typical;
+    return {
+      kind, volumes: [f.volume], slices: [f.slice], voxels: [],
+      evidence: { sliceMean: round(f.value, 3), typical: round(f.typical, 3), changePercent: round(pct, 2), z: round(f.z, 2), cutoffZ: sl.cutoffZ },
+      reason: `slice ${f.slice} mean in volume ${f.volume} is ${signed(pct)} % from that slice's usual value (robust z ${signed(f.z)}, cutoff +-${sl.cutoffZ})`,
+      advice: FINDING_ADVICE[kind],
+      verdict: `slice ${f.slice} of volume ${f.volume} ${f.direction === 'dark' ? 'drops out' : 'is bright'} (${signed(pct)} %): censor volume ${f.volume}`,
+    };
+  });
+}
+
+function spikeFindings(spikes: VoxelSpike[], max: number, cutoffZ: number): Finding[] {
+  const byVolume = new Map<number, VoxelSpike[]>();
+  for (const s of spikes) { const l = byVolume.get(s.volume) ?? []; l.push(s); byVolume.set(s.volume, l); }
+  const groups = [...byVolume.values()].sort((a, b) => Math.abs(b[0].z) - Math.abs(a[0].z)).slice(0, max);
+  return groups.map((list) => {
+    const top = list[0];
+    const t = top.volume;
+    const where = list.length === 1 ? `voxel (${top.ijk.join(', ')})` : `${list.length} voxels`;
+    return {
+      kind: 'voxel-spike' as const, volumes: [t], slices: [...new Set(list.map((s) => s.ijk[2]))].sort((a, b) => a - b), voxels: list.map((s) => s.ijk),
+      evidence: { z: list.map((s) => round(s.z, 2)), sizeSignal: list.map((s) => round(s.size, 3)), sizePercent: list.map((s) => round(s.sizePercent, 2)) },
+      reason: `${where} in volume ${t} depart${list.length === 1 ? 's' : ''} from ${list.length === 1 ? 'its' : 'their'} own time course by up to ${signed(top.sizePercent)} % (robust z ${signed(top.z)}, cutoff +-${cutoffZ})`,
+      advice: FINDING_ADVICE['voxel-spike'],
+      verdict: `spike in ${where} at volume ${t} (${signed(top.sizePercent)} %): ${list.length >= SPIKE_VOXELS_FOR_CENSOR ? 'many voxels at once: censor the volume' : 'isolated: leave it or despike'}`,
+    };
+  });
+}
+
+function round(x: number, digits: number): number {
+  if (!Number.isFinite(x)) return x;
+  const f = 10 ** digits;
+  return Math.round(x * f) / f;
+}

@@ -1,0 +1,59 @@
+import { fail } from '../core/fail.js';
+import { voxelsPerVolume, type Volume } from '../core/volume.js';
+import { detrendSeries, orthonormalDrift } from './orthonormal-drift.js';
+import { robustZ } from './robust-z.js';
+
+/** A single-voxel spike found by {@link voxelSpikes}. */
+export interface VoxelSpike {
+  /** Voxel index in NIfTI order and its (i, j, k). */
+  voxel: number;
+  ijk: [number, number, number];
+  volume: number;
+  /** Robust z of the voxel's detrended value at this volume against its own series. */
+  z: number;
+  /** Departure from the voxel's drift-fitted median, signal units, and as % of the voxel mean. */
+  size: number;
+  sizePercent: number;
+}
+
+/**
+ * Single-voxel spikes: for each candidate voxel, remove a polynomial drift from its time series
+ * (volumes from `firstVolume`) and robust-z-score the residuals against their own median and
+ * 1.4826 x MAD; |z| > cutoffZ is a spike. Only the listed candidates are read (the caller screens
+ * all voxels cheaply first, see lookAtRun), so this costs little even on large runs.
+ * @param run - the run (not modified)
+ * @param candidates - voxel indices to examine
+ * @param options - firstVolume (default 0), detrendOrder (default 2), cutoffZ (default 6)
+ * @returns spikes, strongest first
+ * @throws BoldsweepError TOO_FEW_VOLUMES when fewer than 5 volumes remain
+ * @example voxelSpikes(run.volume, [1234, 5678], { firstVolume: 3 })
+ */
+export function voxelSpikes(run: Volume, candidates: ArrayLike<number>, options: { firstVolume?: number; detrendOrder?: number; cutoffZ?: number } = {}): VoxelSpike[] {
+  const [nx, ny, , nt] = run.dims;
+  const n = voxelsPerVolume(run);
+  const first = options.firstVolume ?? 0;
+  const cutoffZ = options.cutoffZ ?? 6;
+  const T = nt - first;
+  if (T < 5) fail('TOO_FEW_VOLUMES', `spike detection needs at least 5 volumes after the first ${first} dropped, the run has ${nt}`);
+  const basis = orthonormalDrift(T, Math.min(options.detrendOrder ?? 2, T - 2));
+  const series = new Float64Array(T);
+  const resid = new Float64Array(T);
+  const zs = new Float64Array(T);
+  const spikes: VoxelSpike[] = [];
+  for (let c = 0; c < candidates.length; c++) {
+    const v = candidates[c];
+    let sum = 0;
+    for (let t = 0; t < T; t++) { series[t] = run.data[(first + t) * n + v]; sum += series[t]; }
+    if (!Number.isFinite(sum)) continue;
+    detrendSeries(series, basis, resid);
+    const { z, median } = robustZ(resid, zs);
+    const mean = sum / T;
+    for (let t = 0; t < T; t++) {
+      if (!(Math.abs(z[t]) > cutoffZ)) continue;
+      const k = Math.floor(v / (nx * ny)), j = Math.floor((v - k * nx * ny) / nx), i = v - k * nx * ny - j * nx;
+      const size = resid[t] - median;
+      spikes.push({ voxel: v, ijk: [i, j, k], volume: first + t, z: z[t], size, sizePercent: mean !== 0 ? (100 * size) / Math.abs(mean) : NaN });
+    }
+  }
+  return spikes.sort((a, b) => Math.abs(b.z) - Math.abs(a.z));
+}
