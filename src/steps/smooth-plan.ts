@@ -22,7 +22,7 @@ export interface SmoothScratch {
   a: Float64Array;
   b: Float64Array;
   line: Float64Array;
-  plane: Float64Array;
+  offsets: Int32Array;
 }
 
 /**
@@ -34,7 +34,10 @@ export interface SmoothScratch {
 export function makeSmoothScratch(plan: Pick<SmoothPlan, 'dims' | 'kernels'>): SmoothScratch {
   const [nx, ny, nz] = plan.dims;
   const rx = (plan.kernels[0].length - 1) / 2;
-  return { a: new Float64Array(nx * ny * nz), b: new Float64Array(nx * ny * nz), line: new Float64Array(nx + 2 * rx), plane: new Float64Array(nx * ny) };
+  // a and b carry one extra plane of zeros at the end: 'constant' mode points missing rows there,
+  // so the inner loops read a single array (much faster in V8 than choosing arrays per tap)
+  const n = nx * ny * nz + nx * ny;
+  return { a: new Float64Array(n), b: new Float64Array(n), line: new Float64Array(nx + 2 * rx), offsets: new Int32Array(Math.max(...plan.kernels.map((k) => k.length))) };
 }
 
 /**
@@ -52,8 +55,7 @@ export function makeSmoothPlan(dims: [number, number, number], kernels: [Float64
     const n = dims[0] * dims[1] * dims[2];
     const ones = new Float32Array(n);
     for (let i = 0; i < n; i++) ones[i] = mask[i] ? 1 : 0;
-    const weights = new Float64Array(n);
-    separablePasses(ones, null, plan, makeSmoothScratch(plan), (acc, off) => weights.set(acc, off));
+    const weights = separablePasses(ones, null, plan, makeSmoothScratch(plan)).slice(0, n);
     plan.mask = mask;
     plan.maskWeights = weights;
   }
@@ -74,54 +76,103 @@ export function makeSmoothPlan(dims: [number, number, number], kernels: [Float64
 export function applySmoothPlan(plan: SmoothPlan, src: Float32Array, out: Float32Array, scratch: SmoothScratch): Float32Array {
   const mask = plan.mask;
   const weights = plan.maskWeights;
-  separablePasses(src, mask, plan, scratch, (acc, off) => {
-    const n = acc.length;
-    if (mask && weights) {
-      for (let p = 0; p < n; p++) out[off + p] = mask[off + p] ? acc[p] / weights[off + p] : 0;
-    } else {
-      for (let p = 0; p < n; p++) out[off + p] = acc[p];
-    }
-  });
+  const res = separablePasses(src, mask, plan, scratch);
+  const n = out.length;
+  if (mask && weights) {
+    for (let p = 0; p < n; p++) out[p] = mask[p] ? res[p] / weights[p] : 0;
+  } else {
+    for (let p = 0; p < n; p++) out[p] = res[p];
+  }
   return out;
 }
 
-/** Neighbour offsets per output index along one axis: for tap d (1..r), index of i-d and i+d (or -1). */
-function neighbourTable(n: number, r: number, mode: BoundaryMode): { minus: Int32Array; plus: Int32Array } {
-  const minus = new Int32Array(n * (r + 1));
-  const plus = new Int32Array(n * (r + 1));
-  for (let i = 0; i < n; i++) {
-    for (let d = 0; d <= r; d++) {
-      minus[i * (r + 1) + d] = boundaryIndex(i - d, n, mode);
-      plus[i * (r + 1) + d] = boundaryIndex(i + d, n, mode);
-    }
+/**
+ * The weighted sum at the heart of every pass, for one output row of `len` values:
+ * dst[dOff + i] = w0 src[c + i] + w1 (src[m1 + i] + src[p1 + i]) + ... + wr (src[mr + i] + src[pr + i])
+ * with offsets = [c, m1, p1, m2, p2, ...]. Summed left to right in Float64 in one fixed order, so every
+ * caller (main thread or worker) gets the same bits. Up to three taps go in the first sweep and two
+ * per later sweep: unrolled loops over a single array are what V8 compiles well.
+ */
+function weightedRows(dst: Float64Array, dOff: number, len: number, src: Float64Array, offsets: Int32Array, w: Float64Array, r: number): void {
+  const c = offsets[0];
+  const w0 = w[0];
+  if (r === 0) {
+    for (let i = 0; i < len; i++) dst[dOff + i] = w0 * src[c + i];
+    return;
   }
-  return { minus, plus };
+  const m1 = offsets[1], p1 = offsets[2], w1 = w[1];
+  if (r === 1) {
+    for (let i = 0; i < len; i++) dst[dOff + i] = w0 * src[c + i] + w1 * (src[m1 + i] + src[p1 + i]);
+    return;
+  }
+  const m2 = offsets[3], p2 = offsets[4], w2 = w[2];
+  if (r === 2) {
+    for (let i = 0; i < len; i++) dst[dOff + i] = w0 * src[c + i] + w1 * (src[m1 + i] + src[p1 + i]) + w2 * (src[m2 + i] + src[p2 + i]);
+    return;
+  }
+  const m3 = offsets[5], p3 = offsets[6], w3 = w[3];
+  for (let i = 0; i < len; i++) {
+    dst[dOff + i] = w0 * src[c + i] + w1 * (src[m1 + i] + src[p1 + i]) + w2 * (src[m2 + i] + src[p2 + i]) + w3 * (src[m3 + i] + src[p3 + i]);
+  }
+  for (let d = 4; d <= r; d += 2) {
+    const ma = offsets[2 * d - 1], pa = offsets[2 * d], wa = w[d];
+    if (d === r) {
+      for (let i = 0; i < len; i++) dst[dOff + i] = dst[dOff + i] + wa * (src[ma + i] + src[pa + i]);
+      break;
+    }
+    const mb = offsets[2 * d + 1], pb = offsets[2 * d + 2], wb = w[d + 1];
+    for (let i = 0; i < len; i++) dst[dOff + i] = dst[dOff + i] + wa * (src[ma + i] + src[pa + i]) + wb * (src[mb + i] + src[pb + i]);
+  }
+}
+
+/** Right half of a symmetric kernel: w[d] = k[r + d], d = 0..r. */
+function halfKernel(k: Float64Array): Float64Array {
+  const r = (k.length - 1) / 2;
+  return k.slice(r);
 }
 
 /**
- * The three separable passes. x: each row is copied (times the mask) into an extended line and
- * convolved; y and z: whole rows / planes are combined with the kernel weights, which walks memory
- * in order (no strided gathers). Symmetry halves the multiplies: w_d * (left + right).
+ * One pass along an axis whose rows are contiguous runs of `inner` values (y: rows of nx within a
+ * plane; z: whole planes), `outer` blocks of `nAxis` rows each. Missing rows under 'constant'
+ * read the zero tail at `zeroOffset`.
  */
-function separablePasses(
-  src: Float32Array,
-  mask: Uint8Array | null,
-  plan: Pick<SmoothPlan, 'dims' | 'kernels' | 'mode'>,
-  scratch: SmoothScratch,
-  storePlane: (acc: Float64Array, offset: number) => void,
-): void {
+function axisPass(src: Float64Array, dst: Float64Array, outer: number, nAxis: number, inner: number, w: Float64Array, mode: BoundaryMode, offsets: Int32Array, zeroOffset: number): void {
+  const r = w.length - 1;
+  for (let o = 0; o < outer; o++) {
+    const base = o * nAxis * inner;
+    for (let j = 0; j < nAxis; j++) {
+      offsets[0] = base + j * inner;
+      for (let d = 1; d <= r; d++) {
+        const jm = boundaryIndex(j - d, nAxis, mode);
+        const jp = boundaryIndex(j + d, nAxis, mode);
+        offsets[2 * d - 1] = jm < 0 ? zeroOffset : base + jm * inner;
+        offsets[2 * d] = jp < 0 ? zeroOffset : base + jp * inner;
+      }
+      weightedRows(dst, base + j * inner, inner, src, offsets, w, r);
+    }
+  }
+}
+
+/**
+ * The three separable passes; returns the scratch array holding the result (first nx*ny*nz values).
+ * x: each row is copied (times the mask) into an extended line, then combined; y and z: whole rows or
+ * planes are combined, which walks memory in order (no strided gathers).
+ */
+function separablePasses(src: Float32Array, mask: Uint8Array | null, plan: Pick<SmoothPlan, 'dims' | 'kernels' | 'mode'>, scratch: SmoothScratch): Float64Array {
   const [nx, ny, nz] = plan.dims;
-  const [kx, ky, kz] = plan.kernels;
-  const { a, b, line, plane } = scratch;
-  const rx = (kx.length - 1) / 2;
-  const ry = (ky.length - 1) / 2;
-  const rz = (kz.length - 1) / 2;
-  const nxy = nx * ny;
+  const { a, b, line, offsets } = scratch;
+  const n = nx * ny * nz;
+  const wx = halfKernel(plan.kernels[0]);
+  const rx = wx.length - 1;
 
   // x pass: src -> a
   const ext = new Int32Array(nx + 2 * rx);
   for (let t = 0; t < ext.length; t++) ext[t] = boundaryIndex(t - rx, nx, plan.mode);
-  const w0x = kx[rx];
+  offsets[0] = rx;
+  for (let d = 1; d <= rx; d++) {
+    offsets[2 * d - 1] = rx - d;
+    offsets[2 * d] = rx + d;
+  }
   for (let row = 0; row < ny * nz; row++) {
     const base = row * nx;
     if (mask) {
@@ -135,57 +186,10 @@ function separablePasses(
         line[t] = q < 0 ? 0 : src[base + q];
       }
     }
-    for (let i = 0; i < nx; i++) {
-      const c = i + rx;
-      let acc = w0x * line[c];
-      for (let d = 1; d <= rx; d++) acc += kx[rx + d] * (line[c - d] + line[c + d]);
-      a[base + i] = acc;
-    }
+    weightedRows(a, base, nx, line, offsets, wx, rx);
   }
-
-  // y pass: a -> b, row by row within each plane
-  const ty = neighbourTable(ny, ry, plan.mode);
-  const w0y = ky[ry];
-  for (let k = 0; k < nz; k++) {
-    const pz = k * nxy;
-    for (let j = 0; j < ny; j++) {
-      const o = pz + j * nx;
-      for (let i = 0; i < nx; i++) b[o + i] = w0y * a[o + i];
-      for (let d = 1; d <= ry; d++) {
-        const w = ky[ry + d];
-        const jm = ty.minus[j * (ry + 1) + d];
-        const jp = ty.plus[j * (ry + 1) + d];
-        if (jm >= 0 && jp >= 0) {
-          const om = pz + jm * nx;
-          const op = pz + jp * nx;
-          for (let i = 0; i < nx; i++) b[o + i] += w * (a[om + i] + a[op + i]);
-        } else if (jm >= 0 || jp >= 0) {
-          const oq = pz + (jm >= 0 ? jm : jp) * nx;
-          for (let i = 0; i < nx; i++) b[o + i] += w * a[oq + i];
-        }
-      }
-    }
-  }
-
-  // z pass: b -> plane accumulator -> storePlane
-  const tz = neighbourTable(nz, rz, plan.mode);
-  const w0z = kz[rz];
-  for (let k = 0; k < nz; k++) {
-    const o = k * nxy;
-    for (let p = 0; p < nxy; p++) plane[p] = w0z * b[o + p];
-    for (let d = 1; d <= rz; d++) {
-      const w = kz[rz + d];
-      const km = tz.minus[k * (rz + 1) + d];
-      const kp = tz.plus[k * (rz + 1) + d];
-      if (km >= 0 && kp >= 0) {
-        const om = km * nxy;
-        const op = kp * nxy;
-        for (let p = 0; p < nxy; p++) plane[p] += w * (b[om + p] + b[op + p]);
-      } else if (km >= 0 || kp >= 0) {
-        const oq = (km >= 0 ? km : kp) * nxy;
-        for (let p = 0; p < nxy; p++) plane[p] += w * b[oq + p];
-      }
-    }
-    storePlane(plane, o);
-  }
+  // y pass: a -> b; z pass: b -> a
+  axisPass(a, b, nz, ny, nx, halfKernel(plan.kernels[1]), plan.mode, offsets, n);
+  axisPass(b, a, 1, nz, nx * ny, halfKernel(plan.kernels[2]), plan.mode, offsets, n);
+  return a;
 }
