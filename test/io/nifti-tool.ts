@@ -1,0 +1,23 @@
+// Helpers that run Debian's nifti_tool (package nifti-bin) on files we wrote: an outside reader.
+import { spawnSync } from 'node:child_process';
+
+/** Whether nifti_tool is installed; tests that need it are skipped (with a message) when it is not. */
+export const HAVE_NIFTI_TOOL = spawnSync('nifti_tool', ['-ver'], { encoding: 'utf8' }).status === 0;
+if (!HAVE_NIFTI_TOOL) console.warn('nifti_tool (Debian package nifti-bin) is not installed: skipping the checks that compare with it');
+
+/** Run nifti_tool and return stdout+stderr; throws on a non-zero exit. */
+export function niftiTool(args: string[]): string {
+  const r = spawnSync('nifti_tool', args, { encoding: 'utf8' });
+  if (r.status !== 0) throw new Error(`nifti_tool ${args.join(' ')} failed: ${r.stdout}${r.stderr}`);
+  return r.stdout + r.stderr;
+}
+
+/** Numbers printed by nifti_tool (whitespace separated), e.g. from -disp_ci or -disp_hdr -field. */
+export function niftiToolNumbers(args: string[]): number[] {
+  return niftiTool(args).trim().split(/\s+/).filter((t) => t.length > 0).map(Number);
+}
+
+/** Every voxel of a 4D file as nifti_tool reads it (stored values, before scl_slope/scl_inter). */
+export function niftiToolVoxels(path: string): number[] {
+  return niftiToolNumbers(['-disp_ci', '-1', '-1', '-1', '-1', '0', '0', '0', '-quiet', '-infiles', path]);
+}
