@@ -10,3 +10,8 @@ export { convertVoxels } from './convert-voxels.js';
 export { niftiTransform, usableAffine } from './nifti-transform.js';
 export { niftiUnits, type NiftiUnits, type NiftiSpaceUnit, type NiftiTimeUnit } from './nifti-units.js';
 export { scanNonFinite, type NonFiniteScan } from './non-finite.js';
+export { readSidecar, writeSidecar, sidecarSchema, sidecarProblems, orderSidecar, SIDECAR_FIELD_ORDER } from './sidecar.js';
+export { readEvents, writeEvents, parseEvents, formatEvents, eventRowSchema, DEFAULT_TRIAL_TYPE } from './events.js';
+export { openRun, type OpenRunOptions } from './open-run.js';
+export { findRunSiblings, siblingCandidates, type RunSiblings } from './run-siblings.js';
+export { hashFile } from './hash-file.js';
