@@ -19,14 +19,20 @@ export interface SmoothPlan {
 
 /** Reusable Float64 working memory for {@link applySmoothPlan} (one per thread). */
 export interface SmoothScratch {
-  a: Float64Array;
-  b: Float64Array;
+  /** One volume after the x and y passes, plus a plane of zeros at the end ('constant' mode reads it). */
+  volume: Float64Array;
+  /** One plane after the x pass, plus a row of zeros at the end. */
+  planeX: Float64Array;
+  /** One plane after the z pass. */
+  planeZ: Float64Array;
+  /** One row extended past both ends by the x radius. */
   line: Float64Array;
+  /** Row offsets of the taps of the row being computed. */
   offsets: Int32Array;
 }
 
 /**
- * Working memory for a plan: two Float64 copies of one volume, one extended line, one plane.
+ * Working memory for a plan: one Float64 volume, two planes, one extended line.
  * @param plan - the plan
  * @returns scratch buffers sized for it
  * @example const s = makeSmoothScratch(plan)
@@ -34,10 +40,16 @@ export interface SmoothScratch {
 export function makeSmoothScratch(plan: Pick<SmoothPlan, 'dims' | 'kernels'>): SmoothScratch {
   const [nx, ny, nz] = plan.dims;
   const rx = (plan.kernels[0].length - 1) / 2;
-  // a and b carry one extra plane of zeros at the end: 'constant' mode points missing rows there,
-  // so the inner loops read a single array (much faster in V8 than choosing arrays per tap)
-  const n = nx * ny * nz + nx * ny;
-  return { a: new Float64Array(n), b: new Float64Array(n), line: new Float64Array(nx + 2 * rx), offsets: new Int32Array(Math.max(...plan.kernels.map((k) => k.length))) };
+  const nxy = nx * ny;
+  // the zero tails let 'constant' mode point missing rows/planes inside the same array, so the
+  // inner loops read a single array (V8 compiles that much better than choosing arrays per tap)
+  return {
+    volume: new Float64Array(nxy * nz + nxy),
+    planeX: new Float64Array(nxy + nx),
+    planeZ: new Float64Array(nxy),
+    line: new Float64Array(nx + 2 * rx),
+    offsets: new Int32Array(Math.max(...plan.kernels.map((k) => k.length))),
+  };
 }
 
 /**
@@ -55,7 +67,8 @@ export function makeSmoothPlan(dims: [number, number, number], kernels: [Float64
     const n = dims[0] * dims[1] * dims[2];
     const ones = new Float32Array(n);
     for (let i = 0; i < n; i++) ones[i] = mask[i] ? 1 : 0;
-    const weights = separablePasses(ones, null, plan, makeSmoothScratch(plan)).slice(0, n);
+    const weights = new Float64Array(n);
+    separablePasses(ones, null, plan, makeSmoothScratch(plan), null, weights);
     plan.mask = mask;
     plan.maskWeights = weights;
   }
@@ -76,13 +89,7 @@ export function makeSmoothPlan(dims: [number, number, number], kernels: [Float64
 export function applySmoothPlan(plan: SmoothPlan, src: Float32Array, out: Float32Array, scratch: SmoothScratch): Float32Array {
   const mask = plan.mask;
   const weights = plan.maskWeights;
-  const res = separablePasses(src, mask, plan, scratch);
-  const n = out.length;
-  if (mask && weights) {
-    for (let p = 0; p < n; p++) out[p] = mask[p] ? res[p] / weights[p] : 0;
-  } else {
-    for (let p = 0; p < n; p++) out[p] = res[p];
-  }
+  separablePasses(src, mask, plan, scratch, out, null);
   return out;
 }
 
@@ -131,65 +138,89 @@ function halfKernel(k: Float64Array): Float64Array {
   return k.slice(r);
 }
 
-/**
- * One pass along an axis whose rows are contiguous runs of `inner` values (y: rows of nx within a
- * plane; z: whole planes), `outer` blocks of `nAxis` rows each. Missing rows under 'constant'
- * read the zero tail at `zeroOffset`.
- */
-function axisPass(src: Float64Array, dst: Float64Array, outer: number, nAxis: number, inner: number, w: Float64Array, mode: BoundaryMode, offsets: Int32Array, zeroOffset: number): void {
-  const r = w.length - 1;
-  for (let o = 0; o < outer; o++) {
-    const base = o * nAxis * inner;
-    for (let j = 0; j < nAxis; j++) {
-      offsets[0] = base + j * inner;
-      for (let d = 1; d <= r; d++) {
-        const jm = boundaryIndex(j - d, nAxis, mode);
-        const jp = boundaryIndex(j + d, nAxis, mode);
-        offsets[2 * d - 1] = jm < 0 ? zeroOffset : base + jm * inner;
-        offsets[2 * d] = jp < 0 ? zeroOffset : base + jp * inner;
-      }
-      weightedRows(dst, base + j * inner, inner, src, offsets, w, r);
-    }
+/** Fill `offsets` with the row offsets of the taps around row j of nAxis rows of `inner` values from `base`. */
+function tapOffsets(offsets: Int32Array, base: number, j: number, nAxis: number, inner: number, r: number, mode: BoundaryMode, zeroOffset: number): void {
+  offsets[0] = base + j * inner;
+  for (let d = 1; d <= r; d++) {
+    const jm = boundaryIndex(j - d, nAxis, mode);
+    const jp = boundaryIndex(j + d, nAxis, mode);
+    offsets[2 * d - 1] = jm < 0 ? zeroOffset : base + jm * inner;
+    offsets[2 * d] = jp < 0 ? zeroOffset : base + jp * inner;
   }
 }
 
-/**
- * The three separable passes; returns the scratch array holding the result (first nx*ny*nz values).
- * x: each row is copied (times the mask) into an extended line, then combined; y and z: whole rows or
- * planes are combined, which walks memory in order (no strided gathers).
- */
-function separablePasses(src: Float32Array, mask: Uint8Array | null, plan: Pick<SmoothPlan, 'dims' | 'kernels' | 'mode'>, scratch: SmoothScratch): Float64Array {
-  const [nx, ny, nz] = plan.dims;
-  const { a, b, line, offsets } = scratch;
-  const n = nx * ny * nz;
-  const wx = halfKernel(plan.kernels[0]);
-  const rx = wx.length - 1;
+/** y pass of one plane: rows of `inner` values of `src` (from 0) combined into `dst` from `dstBase`. */
+function axisPass(src: Float64Array, dst: Float64Array, dstBase: number, nAxis: number, inner: number, w: Float64Array, mode: BoundaryMode, offsets: Int32Array, zeroOffset: number): void {
+  const r = w.length - 1;
+  for (let j = 0; j < nAxis; j++) {
+    tapOffsets(offsets, 0, j, nAxis, inner, r, mode, zeroOffset);
+    weightedRows(dst, dstBase + j * inner, inner, src, offsets, w, r);
+  }
+}
 
-  // x pass: src -> a
+/** z pass for output plane k: planes of `inner` values of `src` combined into `dst` (from 0). */
+function axisPlane(src: Float64Array, dst: Float64Array, k: number, nAxis: number, inner: number, w: Float64Array, mode: BoundaryMode, offsets: Int32Array, zeroOffset: number): void {
+  const r = w.length - 1;
+  tapOffsets(offsets, 0, k, nAxis, inner, r, mode, zeroOffset);
+  weightedRows(dst, 0, inner, src, offsets, w, r);
+}
+
+/**
+ * The three separable passes. Plane by plane: x (each row copied, times the mask, into an extended
+ * line, then combined) and y (rows of the plane combined) into `scratch.volume`; then z: whole planes
+ * combined into one plane, which is stored (Float32, with the normalised-convolution division when a
+ * mask is given) or, for the mask weights, kept in Float64. Every step walks memory in order.
+ */
+function separablePasses(src: Float32Array, mask: Uint8Array | null, plan: SmoothPlan | Pick<SmoothPlan, 'dims' | 'kernels' | 'mode'>, scratch: SmoothScratch, out: Float32Array | null, outF64: Float64Array | null): void {
+  const [nx, ny, nz] = plan.dims;
+  const { volume, planeX, planeZ, line, offsets } = scratch;
+  const nxy = nx * ny;
+  const n = nxy * nz;
+  const wx = halfKernel(plan.kernels[0]);
+  const wy = halfKernel(plan.kernels[1]);
+  const wz = halfKernel(plan.kernels[2]);
+  const rx = wx.length - 1;
   const ext = new Int32Array(nx + 2 * rx);
   for (let t = 0; t < ext.length; t++) ext[t] = boundaryIndex(t - rx, nx, plan.mode);
-  offsets[0] = rx;
+  const xOffsets = new Int32Array(2 * rx + 1);
+  xOffsets[0] = rx;
   for (let d = 1; d <= rx; d++) {
-    offsets[2 * d - 1] = rx - d;
-    offsets[2 * d] = rx + d;
+    xOffsets[2 * d - 1] = rx - d;
+    xOffsets[2 * d] = rx + d;
   }
-  for (let row = 0; row < ny * nz; row++) {
-    const base = row * nx;
-    if (mask) {
-      for (let t = 0; t < ext.length; t++) {
-        const q = ext[t];
-        line[t] = q < 0 ? 0 : mask[base + q] ? src[base + q] : 0;
+
+  for (let k = 0; k < nz; k++) {
+    // x pass: plane k of src -> planeX
+    for (let j = 0; j < ny; j++) {
+      const base = k * nxy + j * nx;
+      if (mask) {
+        for (let t = 0; t < ext.length; t++) {
+          const q = ext[t];
+          line[t] = q < 0 ? 0 : mask[base + q] ? src[base + q] : 0;
+        }
+      } else {
+        for (let t = 0; t < ext.length; t++) {
+          const q = ext[t];
+          line[t] = q < 0 ? 0 : src[base + q];
+        }
       }
-    } else {
-      for (let t = 0; t < ext.length; t++) {
-        const q = ext[t];
-        line[t] = q < 0 ? 0 : src[base + q];
-      }
+      weightedRows(planeX, j * nx, nx, line, xOffsets, wx, rx);
     }
-    weightedRows(a, base, nx, line, offsets, wx, rx);
+    // y pass: planeX -> plane k of volume
+    axisPass(planeX, volume, k * nxy, ny, nx, wy, plan.mode, offsets, nxy);
   }
-  // y pass: a -> b; z pass: b -> a
-  axisPass(a, b, nz, ny, nx, halfKernel(plan.kernels[1]), plan.mode, offsets, n);
-  axisPass(b, a, 1, nz, nx * ny, halfKernel(plan.kernels[2]), plan.mode, offsets, n);
-  return a;
+
+  // z pass: volume -> planeZ, one output plane at a time, then store it
+  const weights = 'maskWeights' in plan ? plan.maskWeights : null;
+  for (let k = 0; k < nz; k++) {
+    axisPlane(volume, planeZ, k, nz, nxy, wz, plan.mode, offsets, n);
+    const o = k * nxy;
+    if (outF64) {
+      for (let p = 0; p < nxy; p++) outF64[o + p] = planeZ[p];
+    } else if (out && mask && weights) {
+      for (let p = 0; p < nxy; p++) out[o + p] = mask[o + p] ? planeZ[p] / weights[o + p] : 0;
+    } else if (out) {
+      for (let p = 0; p < nxy; p++) out[o + p] = planeZ[p];
+    }
+  }
 }
