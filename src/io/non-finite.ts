@@ -16,10 +16,11 @@ export interface NonFiniteScan {
 export function scanNonFinite(data: Float32Array, replaceWithZero: boolean): NonFiniteScan {
   let count = 0;
   let firstIndex = -1;
-  for (let i = 0; i < data.length; i++) {
-    const v = data[i];
-    // v - v is 0 for finite v and NaN for NaN or +-Infinity
-    if (v - v !== 0) {
+  // IEEE 754 binary32: NaN and +-Infinity are exactly the values whose 8 exponent bits are all ones;
+  // testing the bits as integers is faster than a float comparison
+  const bits = new Int32Array(data.buffer, data.byteOffset, data.length);
+  for (let i = 0; i < bits.length; i++) {
+    if ((bits[i] & 0x7f800000) === 0x7f800000) {
       if (count === 0) firstIndex = i;
       count++;
       if (replaceWithZero) data[i] = 0;
