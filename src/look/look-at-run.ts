@@ -47,7 +47,7 @@ export interface LookOptions {
 
 /** Everything a look found: maps, traces, findings and the recommendation. */
 export interface LookResult {
-  /** Maps over the volumes kept (from dropInitialVolumes): mean, SD and tSNR (signal units; tSNR dimensionless), and the mask (0/1). */
+  /** Maps over the volumes kept (from dropInitialVolumes, censored volumes left out): mean, SD and tSNR (signal units; tSNR dimensionless), and the mask (0/1). */
   maps: { mean: Volume; sd: Volume; tsnr: Volume; mask: Volume };
   /** Map summaries inside the mask. */
   summaries: { mean: MapSummary; sd: MapSummary; tsnr: MapSummary };
@@ -79,7 +79,7 @@ export interface LookResult {
   };
   volumeOutliers: VolumeOutliers;
   sliceOutliers: SliceOutliers;
-  /** Every spike found, including those explained by a flagged volume or slice. */
+  /** Every spike found in the kept, uncensored volumes. */
   spikes: VoxelSpike[];
   findings: Finding[];
   /** One line per finding, same order. */
@@ -100,8 +100,9 @@ export interface LookResult {
  *   1. mean image over all volumes [1 pass]        -> brain mask (Otsu + morphology) or user mask
  *   2. global mean, DVARS, slice means in the mask [mask voxels only]
  *   3. steady-state onset from the global mean     -> volumes to drop
- *   4. mean, detrended SD, tSNR, lag-1 per voxel over kept volumes [1 pass, cache-blocked]
- *   5. standardised DVARS, volume and slice outliers (series only); spikes on screened voxels [few]
+ *   4. volume and slice outliers (traces only)     -> volumes to censor
+ *   5. mean, detrended SD, tSNR, lag-1 per voxel over kept, uncensored volumes [1 pass, cache-blocked];
+ *      standardised DVARS; spikes on screened voxels [few voxels]
  *   6. findings, verdicts, recommendation
  * @param input - a Run (sidecar gives FlipAngle) or a 4D Volume
  * @param options - see {@link LookOptions}
@@ -168,8 +169,17 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
     fail(auto ? 'TOO_FEW_VOLUMES' : 'INVALID_ARGUMENT', `dropping ${drop} initial volumes leaves ${nt - drop}; a look needs ${LOOK_MIN_VOLUMES}`);
   }
 
-  // 4. maps over kept volumes
-  const stats = voxelTimeStats(run, { firstVolume: drop, detrendOrder });
+  // 4. volume and slice outliers from the traces alone: their volumes stay out of the maps below
+  const vol = volumeOutliers(traces.dvars, traces.globalMean, { firstVolume: drop, cutoffZ: volumeCutoffZ, detrendOrder });
+  const sl = sliceOutliers(traces.sliceMean, nz, nt, { firstVolume: drop, cutoffZ: sliceCutoffZ, detrendOrder });
+  const censor = new Set<number>();
+  for (const f of vol.flagged) censor.add(f.volume);
+  for (const f of sl.flagged) censor.add(f.volume);
+  if (nt - drop - censor.size < LOOK_MIN_VOLUMES) fail('TOO_FEW_VOLUMES', `after dropping ${drop} and censoring ${censor.size} volumes only ${nt - drop - censor.size} remain; a look needs ${LOOK_MIN_VOLUMES}`);
+  const censorForStats = [...censor].sort((a, b) => a - b);
+
+  // 5. maps over kept volumes (censored ones excluded, so an artefact does not inflate every SD)
+  const stats = voxelTimeStats(run, { firstVolume: drop, detrendOrder, censorVolumes: censorForStats });
   for (let v = 0; v < n; v++) if (nonFinite[v]) stats.mean[v] = stats.sd[v] = stats.tsnr[v] = stats.lag1[v] = NaN;
   let varying = 0;
   for (let v = 0; v < n; v++) if (mask.mask[v] && stats.sd[v] > 0) varying++;
@@ -187,21 +197,19 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
     sd: summariseInMask(stats.sd, mask.mask),
     tsnr: summariseInMask(stats.tsnr, mask.mask),
   };
-
-  // 5. outliers
   const nullE = dvarsNullExpectation(stats.sd, stats.lag1, mask.mask);
   const dvarsStd = standardisedDvars(traces.dvars, nullE);
   const globalMedian = summariseInMask(traces.globalMean.subarray(drop)).median;
   const dvarsPercent = traces.dvars.map((d) => (100 * d) / globalMedian);
-  const vol = volumeOutliers(traces.dvars, traces.globalMean, { firstVolume: drop, cutoffZ: volumeCutoffZ, detrendOrder });
-  const sl = sliceOutliers(traces.sliceMean, nz, nt, { firstVolume: drop, cutoffZ: sliceCutoffZ, detrendOrder });
-  const T = nt - drop;
-  // screen: a voxel with up to 4 spikes of robust z >= c still has max|r|/SD >= c / sqrt(1 + 4 c^2 / T)
-  // (each spike inflates the SD); 0.9 leaves room for the drift fit and the MAD/SD difference
+
+  // spikes: screen every mask voxel by max|residual| / SD, then score the few candidates exactly.
+  // A voxel with up to 4 spikes of robust z >= c still has max|r|/SD >= c / sqrt(1 + 4 c^2 / T)
+  // (each spike inflates the SD); 0.9 leaves room for the drift fit and the MAD/SD difference.
+  const T = stats.usedVolumes;
   const screen = (0.9 * spikeCutoffZ) / Math.sqrt(1 + (4 * spikeCutoffZ * spikeCutoffZ) / T);
   const candidates: number[] = [];
   for (let v = 0; v < n; v++) if (mask.mask[v] && stats.maxAbsResidual[v] > screen * stats.sd[v]) candidates.push(v);
-  const spikes = voxelSpikes(run, candidates, { firstVolume: drop, detrendOrder, cutoffZ: spikeCutoffZ });
+  const spikes = voxelSpikes(run, candidates, { firstVolume: drop, detrendOrder, cutoffZ: spikeCutoffZ, censorVolumes: censorForStats });
 
   // 6. findings
   const findings: Finding[] = [];
@@ -209,14 +217,10 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
   if (drop > 0) findings.push(steadyFinding(drop, auto, onset, modelCount, model, traces.globalMean));
   findings.push(...volumeFindings(vol, traces.dvars, dvarsStd, traces.globalMean));
   findings.push(...sliceFindings(sl));
-  const explainedVolume = new Set(vol.flagged.map((f) => f.volume).concat(sl.wholeVolumeEvents));
-  const explainedSlice = new Set(sl.flagged.map((f) => `${f.slice}:${f.volume}`));
-  const unexplained = spikes.filter((s) => !explainedVolume.has(s.volume) && !explainedSlice.has(`${s.ijk[2]}:${s.volume}`));
+  const explainedVolume = new Set(sl.wholeVolumeEvents);
+  const unexplained = spikes.filter((s) => !explainedVolume.has(s.volume));
   findings.push(...spikeFindings(unexplained, maxSpikeFindings, spikeCutoffZ));
 
-  const censor = new Set<number>();
-  for (const f of vol.flagged) censor.add(f.volume);
-  for (const f of sl.flagged) censor.add(f.volume);
   const spikesPerVolume = new Map<number, number>();
   for (const s of unexplained) spikesPerVolume.set(s.volume, (spikesPerVolume.get(s.volume) ?? 0) + 1);
   for (const [t, k] of spikesPerVolume) if (k >= SPIKE_VOXELS_FOR_CENSOR) censor.add(t);

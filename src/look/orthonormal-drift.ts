@@ -6,16 +6,22 @@ import { polynomialBasis } from '../model/drift-basis.js';
  * orthonormal over the nt sampled points by modified Gram-Schmidt (sampled Legendre polynomials are
  * only nearly orthogonal). Column 0 is the constant 1/sqrt(nt), so every later column sums to 0 and
  * projecting a series on them needs no centring first.
+ * With `keep`, the polynomials are evaluated over all nt time points but only the kept ones are
+ * returned (and made orthonormal over them), so censored volumes leave gaps without bending the fit.
  * @param nt - number of time points
  * @param order - highest polynomial order (0 = constant only)
- * @returns order + 1 orthonormal columns of length nt
- * @throws BoldsweepError TOO_FEW_VOLUMES when nt <= order + 1 (no residual degrees of freedom)
+ * @param keep - optional sorted indices (0..nt-1) of the time points to keep
+ * @returns order + 1 orthonormal columns of length nt (or keep.length)
+ * @throws BoldsweepError TOO_FEW_VOLUMES when the kept points are <= order + 1 (no residual degrees of freedom)
  * @example const q = orthonormalDrift(200, 2) // constant, linear, quadratic; q[k]·q[k] = 1
  */
-export function orthonormalDrift(nt: number, order: number): Float64Array[] {
+export function orthonormalDrift(nt: number, order: number, keep?: ArrayLike<number>): Float64Array[] {
   if (!Number.isInteger(order) || order < 0) fail('INVALID_ARGUMENT', `detrendOrder must be an integer >= 0, got ${order}`);
-  if (nt <= order + 1) fail('TOO_FEW_VOLUMES', `removing a polynomial drift of order ${order} needs more than ${order + 1} volumes, got ${nt}`);
-  const cols = polynomialBasis(nt, order).map((c) => Float64Array.from(c));
+  const m = keep ? keep.length : nt;
+  if (m <= order + 1) fail('TOO_FEW_VOLUMES', `removing a polynomial drift of order ${order} needs more than ${order + 1} volumes, got ${m}`);
+  const full = polynomialBasis(nt, order);
+  const cols = full.map((c) => (keep ? Float64Array.from({ length: m }, (_, i) => c[keep[i]]) : Float64Array.from(c)));
+  nt = m;
   for (let k = 0; k < cols.length; k++) {
     const c = cols[k];
     for (let j = 0; j < k; j++) {

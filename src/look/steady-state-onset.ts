@@ -8,7 +8,7 @@ export interface SteadyStateOnset {
   count: number;
   /** Per volume: (global mean - extrapolated steady level) / robust SD (dimensionless). */
   z: Float64Array;
-  /** Steady level per volume: the linear trend fitted to the reference window (signal units). */
+  /** Steady level per volume: the robust (Theil-Sen) line fitted to the reference window (signal units). */
   level: Float64Array;
   /** Robust SD of the global mean about that trend in the reference window (signal units). */
   scale: number;
@@ -21,7 +21,7 @@ export interface SteadyStateOnset {
 }
 
 /**
- * Steady-state onset from the global signal: fit a straight line (drift) to a reference window of
+ * Steady-state onset from the global signal: fit a robust straight line (drift) to a reference window of
  * later volumes, take the robust SD (1.4826 x MAD) of the global mean about it, extrapolate the line
  * back to the start, and count the leading volumes that lie more than `cutoffZ` robust SDs ABOVE it
  * (one-sided: before steady state the longitudinal magnetisation is larger, so early volumes are
@@ -39,22 +39,25 @@ export function steadyStateOnset(globalMean: ArrayLike<number>, options: { cutof
   const from = options.referenceFrom ?? Math.min(30, Math.max(5, Math.ceil(nt / 10)));
   const to = Math.min(nt, from + (options.referenceLength ?? Math.max(20, Math.ceil(nt / 3))));
   if (to - from < 5) fail('TOO_FEW_VOLUMES', `steady-state detection needs a reference window of at least 5 volumes after volume ${from}, the run has ${nt} volumes`);
-  // least-squares line over the window, in centred time so the two coefficients are independent
-  let tm = 0, ym = 0;
-  for (let t = from; t < to; t++) { tm += t; ym += globalMean[t]; }
-  tm /= to - from; ym /= to - from;
-  let sxy = 0, sxx = 0;
-  for (let t = from; t < to; t++) { sxy += (t - tm) * (globalMean[t] - ym); sxx += (t - tm) * (t - tm); }
-  const slope = sxy / sxx;
+  // robust line over the window (Theil H 1950 Proc K Ned Akad Wet 53; Sen PK 1968 J Am Stat Assoc
+  // 63:1379): slope = median of pairwise slopes, intercept = median of y - slope t. A least-squares
+  // line would be pulled by an outlier volume inside the window and inflate the scale below.
+  const w = to - from;
+  const slopes = new Float64Array((w * (w - 1)) / 2);
+  for (let i = from, k = 0; i < to; i++) for (let j = i + 1; j < to; j++) slopes[k++] = (globalMean[j] - globalMean[i]) / (j - i);
+  const slope = medianOf(slopes);
+  const offsets = new Float64Array(w);
+  for (let t = from; t < to; t++) offsets[t - from] = globalMean[t] - slope * t;
+  const intercept = medianOf(offsets);
   const level = new Float64Array(nt);
-  for (let t = 0; t < nt; t++) level[t] = ym + slope * (t - tm);
+  for (let t = 0; t < nt; t++) level[t] = intercept + slope * t;
   const resid = new Float64Array(to - from);
   for (let t = from; t < to; t++) resid[t - from] = Math.abs(globalMean[t] - level[t]);
   let scale = MAD_TO_SD * medianOf(resid);
   if (!(scale > 0)) {
     // more than half the window sits exactly on the line (e.g. synthetic, noiseless data): fall back
     // to a tiny relative scale so only real departures count, and never divide by zero
-    scale = Math.max(1e-12, 1e-9 * Math.abs(ym));
+    scale = Math.max(1e-12, 1e-9 * Math.abs(intercept));
   }
   const z = new Float64Array(nt);
   for (let t = 0; t < nt; t++) z[t] = (globalMean[t] - level[t]) / scale;

@@ -23,19 +23,23 @@ export interface VoxelSpike {
  * all voxels cheaply first, see lookAtRun), so this costs little even on large runs.
  * @param run - the run (not modified)
  * @param candidates - voxel indices to examine
- * @param options - firstVolume (default 0), detrendOrder (default 2), cutoffZ (default 6)
+ * @param options - firstVolume (default 0), detrendOrder (default 2), cutoffZ (default 6), censorVolumes
+ *   (volumes already flagged as a whole: left out, as in voxelTimeStats)
  * @returns spikes, strongest first
  * @throws BoldsweepError TOO_FEW_VOLUMES when fewer than 5 volumes remain
  * @example voxelSpikes(run.volume, [1234, 5678], { firstVolume: 3 })
  */
-export function voxelSpikes(run: Volume, candidates: ArrayLike<number>, options: { firstVolume?: number; detrendOrder?: number; cutoffZ?: number } = {}): VoxelSpike[] {
+export function voxelSpikes(run: Volume, candidates: ArrayLike<number>, options: { firstVolume?: number; detrendOrder?: number; cutoffZ?: number; censorVolumes?: readonly number[] } = {}): VoxelSpike[] {
   const [nx, ny, , nt] = run.dims;
   const n = voxelsPerVolume(run);
   const first = options.firstVolume ?? 0;
   const cutoffZ = options.cutoffZ ?? 6;
-  const T = nt - first;
-  if (T < 5) fail('TOO_FEW_VOLUMES', `spike detection needs at least 5 volumes after the first ${first} dropped, the run has ${nt}`);
-  const basis = orthonormalDrift(T, Math.min(options.detrendOrder ?? 2, T - 2));
+  const censored = new Set(options.censorVolumes ?? []);
+  const kept: number[] = [];
+  for (let t = first; t < nt; t++) if (!censored.has(t)) kept.push(t);
+  const T = kept.length;
+  if (T < 5) fail('TOO_FEW_VOLUMES', `spike detection needs at least 5 kept volumes, the run has ${T} after dropping ${first} and censoring ${censored.size}`);
+  const basis = orthonormalDrift(nt - first, Math.min(options.detrendOrder ?? 2, T - 2), kept.map((t) => t - first));
   const series = new Float64Array(T);
   const resid = new Float64Array(T);
   const zs = new Float64Array(T);
@@ -43,7 +47,7 @@ export function voxelSpikes(run: Volume, candidates: ArrayLike<number>, options:
   for (let c = 0; c < candidates.length; c++) {
     const v = candidates[c];
     let sum = 0;
-    for (let t = 0; t < T; t++) { series[t] = run.data[(first + t) * n + v]; sum += series[t]; }
+    for (let t = 0; t < T; t++) { series[t] = run.data[kept[t] * n + v]; sum += series[t]; }
     if (!Number.isFinite(sum)) continue;
     detrendSeries(series, basis, resid);
     const { z, median } = robustZ(resid, zs);
@@ -52,7 +56,7 @@ export function voxelSpikes(run: Volume, candidates: ArrayLike<number>, options:
       if (!(Math.abs(z[t]) > cutoffZ)) continue;
       const k = Math.floor(v / (nx * ny)), j = Math.floor((v - k * nx * ny) / nx), i = v - k * nx * ny - j * nx;
       const size = resid[t] - median;
-      spikes.push({ voxel: v, ijk: [i, j, k], volume: first + t, z: z[t], size, sizePercent: mean !== 0 ? (100 * size) / Math.abs(mean) : NaN });
+      spikes.push({ voxel: v, ijk: [i, j, k], volume: kept[t], z: z[t], size, sizePercent: mean !== 0 ? (100 * size) / Math.abs(mean) : NaN });
     }
   }
   return spikes.sort((a, b) => Math.abs(b.z) - Math.abs(a.z));

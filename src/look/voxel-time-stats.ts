@@ -14,8 +14,9 @@ export interface VoxelTimeStats {
   lag1: Float32Array;
   /** Largest |residual| over time (signal units), for screening spike candidates. */
   maxAbsResidual: Float32Array;
-  /** First volume used and how many. */
+  /** First volume used, the volumes used (after censoring) and how many. */
   firstVolume: number;
+  keptVolumes: number[];
   usedVolumes: number;
   /** Polynomial order removed before the SD (0 = the mean only). */
   detrendOrder: number;
@@ -36,20 +37,28 @@ export interface VoxelTimeStats {
  *
  * tSNR = mean / SD with SD = sqrt(sum r^2 / (T - p)), r the residuals after fitting p = order + 1 drift
  * terms to T volumes (ddof = p; with order 0 this is the usual sample SD, ddof 1).
+ * Censored volumes are left out of every sum; the drift is fitted over the kept volumes' times and
+ * the lag-1 sum only pairs volumes that are neighbours in the run.
  * @param run - the run (not modified)
- * @param options - firstVolume (default 0), detrendOrder (default 2)
+ * @param options - firstVolume (default 0), detrendOrder (default 2), censorVolumes (default none)
  * @returns maps and bookkeeping; voxels with any non-finite value get NaN in every map
  * @throws BoldsweepError NOT_4D for a single volume; TOO_FEW_VOLUMES when T <= p
  * @example const s = voxelTimeStats(run.volume, { firstVolume: 3, detrendOrder: 2 }); s.tsnr
  */
-export function voxelTimeStats(run: Volume, options: { firstVolume?: number; detrendOrder?: number } = {}): VoxelTimeStats {
+export function voxelTimeStats(run: Volume, options: { firstVolume?: number; detrendOrder?: number; censorVolumes?: readonly number[] } = {}): VoxelTimeStats {
   const firstVolume = options.firstVolume ?? 0;
   const detrendOrder = options.detrendOrder ?? 2;
   const nt = run.dims[3];
   if (nt < 2) fail('NOT_4D', `temporal statistics need a 4D run, got ${nt} volume`);
   if (!Number.isInteger(firstVolume) || firstVolume < 0 || firstVolume >= nt) fail('INVALID_ARGUMENT', `firstVolume must be in 0..${nt - 1}, got ${firstVolume}`);
-  const T = nt - firstVolume;
-  const basis = orthonormalDrift(T, detrendOrder);
+  const censored = new Set(options.censorVolumes ?? []);
+  const kept: number[] = [];
+  for (let t = firstVolume; t < nt; t++) if (!censored.has(t)) kept.push(t);
+  const T = kept.length;
+  const basis = orthonormalDrift(nt - firstVolume, detrendOrder, kept.map((t) => t - firstVolume));
+  // pairs (t-1, t) for the lag-1 sum: only where both volumes are kept and adjacent in the run
+  const adjacent = new Uint8Array(T);
+  for (let i = 1; i < T; i++) adjacent[i] = kept[i] === kept[i - 1] + 1 ? 1 : 0;
   const p = basis.length;
   const n = voxelsPerVolume(run);
   const mean = new Float32Array(n), sd = new Float32Array(n), tsnr = new Float32Array(n), lag1 = new Float32Array(n), maxAbs = new Float32Array(n);
@@ -61,7 +70,7 @@ export function voxelTimeStats(run: Volume, options: { firstVolume?: number; det
     const len = Math.min(block, n - v0);
     // 1. copy the block into voxel-major order (series j at buf[j*T .. j*T + T))
     for (let t = 0; t < T; t++) {
-      const base = (firstVolume + t) * n + v0;
+      const base = kept[t] * n + v0;
       for (let j = 0, o = t; j < len; j++, o += T) buf[o] = data[base + j];
     }
     // 2. per voxel, in cache: mean + drift coefficients, then residual sums
@@ -83,7 +92,7 @@ export function voxelTimeStats(run: Volume, options: { firstVolume?: number; det
         let r = buf[o + t] - m;
         for (let k = 1; k < p; k++) r -= coef[k] * basis[k][t];
         ss += r * r;
-        if (t > 0) lag += r * prev;
+        if (adjacent[t]) lag += r * prev;
         prev = r;
         const a = r < 0 ? -r : r;
         if (a > mx) mx = a;
@@ -96,5 +105,5 @@ export function voxelTimeStats(run: Volume, options: { firstVolume?: number; det
       maxAbs[v] = mx;
     }
   }
-  return { mean, sd, tsnr, lag1, maxAbsResidual: maxAbs, firstVolume, usedVolumes: T, detrendOrder, ddof: p };
+  return { mean, sd, tsnr, lag1, maxAbsResidual: maxAbs, firstVolume, keptVolumes: kept, usedVolumes: T, detrendOrder, ddof: p };
 }

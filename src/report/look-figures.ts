@@ -1,0 +1,101 @@
+import type { Volume } from '../core/volume.js';
+import { volumeLike, voxelsPerVolume } from '../core/volume.js';
+import type { LookResult } from '../look/look-at-run.js';
+import { maskRings } from '../look/mask-rings.js';
+import { voxelRasterRows } from '../look/voxel-raster-rows.js';
+import { lookTracesSpec, voxelTimeCourseSpec } from './look-charts.js';
+import { renderSvg } from './render-svg.js';
+import { sliceGridPng } from './slice-grid-png.js';
+import { threePlanePng } from './three-plane-png.js';
+import { voxelRasterSvg } from './voxel-raster-figure.js';
+
+/** One figure of a look, ready to write or display. */
+export interface LookFigure {
+  /** File name to use in an output folder. */
+  file: string;
+  /** What it shows (also its title). */
+  title: string;
+  kind: 'png' | 'svg';
+  /** PNG bytes or SVG text. */
+  data: Uint8Array | string;
+}
+
+/**
+ * Voxels worth plotting over time: the strongest unexplained spikes, the mask's centre and a
+ * mask-edge voxel level with it (edges show motion first).
+ * @param look - the look
+ * @returns up to four voxels with labels
+ * @example voxelTimeCourseSpec(run.volume, look, chosenVoxels(look))
+ */
+export function chosenVoxels(look: LookResult): Array<{ ijk: [number, number, number]; label: string }> {
+  const [nx, ny, nz] = look.dims;
+  const out: Array<{ ijk: [number, number, number]; label: string }> = [];
+  for (const f of look.findings) {
+    if (f.kind !== 'voxel-spike' || out.length >= 2) continue;
+    out.push({ ijk: f.voxels[0], label: `spike, volume ${f.volumes[0]}` });
+  }
+  const centre = maskCentre(look);
+  out.push({ ijk: centre, label: 'mask centre' });
+  const rings = maskRings(look.mask.mask, [nx, ny, nz], 2, 0);
+  for (let i = 0; i < nx; i++) {
+    const v = i + nx * (centre[1] + ny * centre[2]);
+    if (rings[v] === 1) { out.push({ ijk: [i, centre[1], centre[2]], label: 'mask edge' }); break; }
+  }
+  return out;
+}
+
+/**
+ * The voxel nearest the mask's centre of mass that lies in the mask.
+ * @param look - the look
+ * @returns (i, j, k)
+ * @example threePlanePng(look.maps.tsnr, maskCentre(look), { ... })
+ */
+export function maskCentre(look: Pick<LookResult, 'dims' | 'mask'>): [number, number, number] {
+  const [nx, ny] = look.dims;
+  let si = 0, sj = 0, sk = 0, c = 0;
+  const m = look.mask.mask;
+  for (let v = 0; v < m.length; v++) {
+    if (!m[v]) continue;
+    const k = Math.floor(v / (nx * ny)), j = Math.floor((v - k * nx * ny) / nx), i = v - k * nx * ny - j * nx;
+    si += i; sj += j; sk += k; c++;
+  }
+  const target = [si / c, sj / c, sk / c];
+  let best: [number, number, number] = [Math.round(target[0]), Math.round(target[1]), Math.round(target[2])], bestD = Infinity;
+  for (let v = 0; v < m.length; v++) {
+    if (!m[v]) continue;
+    const k = Math.floor(v / (nx * ny)), j = Math.floor((v - k * nx * ny) / nx), i = v - k * nx * ny - j * nx;
+    const d = (i - target[0]) ** 2 + (j - target[1]) ** 2 + (k - target[2]) ** 2;
+    if (d < bestD) { bestD = d; best = [i, j, k]; }
+  }
+  return best;
+}
+
+/**
+ * Every figure of a look: mean and tSNR through the mask centre (three planes), axial grids of the
+ * masked mean, tSNR and SD, the voxel raster under the traces, the traces alone, and voxel time
+ * courses. Titles say what each shows; every image has its unit and L/R marked.
+ * @param run - the run that was looked at
+ * @param look - its look
+ * @returns the figures, in reading order
+ * @example for (const f of await lookFigures(run.volume, look)) writeFileSync(f.file, f.data)
+ */
+export async function lookFigures(run: Volume, look: LookResult): Promise<LookFigure[]> {
+  const centre = maskCentre(look);
+  const mask = look.mask.mask;
+  const kept = `volumes ${look.recommendation.dropInitialVolumes}-${look.dims[3] - 1}`;
+  const tsnrTitle = `tSNR: mean / SD over ${kept}, order-${look.settings.detrendOrder} drift removed`;
+  const maskedMean = new Float32Array(voxelsPerVolume(run));
+  for (let v = 0; v < maskedMean.length; v++) maskedMean[v] = mask[v] ? look.maps.mean.data[v] : 0;
+  const figures: LookFigure[] = [
+    { file: 'mean-planes.png', title: `Mean signal over ${kept}`, kind: 'png', data: threePlanePng(look.maps.mean, centre, { title: `Mean signal over ${kept}`, unit: 'SIGNAL UNITS', colourMap: 'grey' }) },
+    { file: 'tsnr-planes.png', title: tsnrTitle, kind: 'png', data: threePlanePng(look.maps.tsnr, centre, { title: 'tSNR (mean / SD over time)', unit: 'TSNR, DIMENSIONLESS', colourMap: 'viridis', mask }) },
+    { file: 'mask-grid.png', title: `Brain mask (${look.mask.source === 'otsu' ? 'Otsu threshold + morphology' : 'user mask'}): mean signal inside it`, kind: 'png', data: sliceGridPng(volumeLike(run, 1, maskedMean), { title: `Brain mask: ${look.mask.voxels} voxels`, unit: 'MEAN SIGNAL INSIDE THE MASK, SIGNAL UNITS', colourMap: 'grey' }) },
+    { file: 'tsnr-grid.png', title: tsnrTitle, kind: 'png', data: sliceGridPng(look.maps.tsnr, { title: 'tSNR, axial slices', unit: 'TSNR, DIMENSIONLESS', colourMap: 'viridis', mask }) },
+    { file: 'sd-grid.png', title: `Temporal SD over ${kept}, drift removed`, kind: 'png', data: sliceGridPng(look.maps.sd, { title: 'Temporal SD, axial slices', unit: 'SD, SIGNAL UNITS', colourMap: 'magma', mask }) },
+  ];
+  const rows = voxelRasterRows(run, mask, { firstVolume: look.recommendation.dropInitialVolumes });
+  figures.push({ file: 'voxel-raster.svg', title: 'Voxel raster under the global mean and standardised DVARS', kind: 'svg', data: await voxelRasterSvg(look, rows) });
+  figures.push({ file: 'traces.svg', title: 'Per-volume traces: global mean, standardised DVARS, DVARS %', kind: 'svg', data: await renderSvg(lookTracesSpec(look)) });
+  figures.push({ file: 'voxel-time-courses.svg', title: 'Time courses of chosen voxels', kind: 'svg', data: await renderSvg(voxelTimeCourseSpec(run, look, chosenVoxels(look))) });
+  return figures;
+}
