@@ -1,4 +1,5 @@
 import { open, type FileHandle } from 'node:fs/promises';
+import { constants as bufferConstants } from 'node:buffer';
 import { constants as zlibConstants, gunzipSync } from 'node:zlib';
 import { affineSpacing } from '../core/affine.js';
 import { fail } from '../core/fail.js';
@@ -184,6 +185,9 @@ async function readCompressed(fh: FileHandle, path: string): Promise<{ header: N
   const header = parseNiftiHeader(head, path);
   const need = dataBytesOf(header);
   const total = header.voxOffset + need;
+  if (total + 1 > bufferConstants.MAX_LENGTH) {
+    fail('READ_FAILED', `the decompressed file would be ${total} bytes, more than this Node.js can hold in one buffer (${bufferConstants.MAX_LENGTH}); decompress it to .nii first (plain files are read in slices)`, { file: path });
+  }
   let whole: Buffer;
   try {
     // one output buffer of exactly the expected size (+1 byte to tell "ends there" from "goes on")

@@ -4,6 +4,7 @@ import { fail } from '../core/fail.js';
 import type { Volume } from '../core/volume.js';
 import { writeFileAtomic } from './atomic-write.js';
 import { int16Scaling } from './int16-scaling.js';
+import { usableAffine } from './nifti-transform.js';
 
 /** Options of {@link writeNifti}. */
 export interface WriteNiftiOptions {
@@ -51,7 +52,7 @@ export function niftiHeaderBytes(volume: Volume, datatype: 'float32' | 'int16', 
   const ndim = nt === 1 ? 3 : 4;
   const q = affineToQuaternion(volume.affine);
   view.setInt32(0, HEADER_BYTES, true);
-  buf[38] = 0x72; // regular = 'r' (an ANALYZE 7.5 leftover that nifti1.h asks writers to set)
+  buf[38] = 0x72; // regular: unused by NIfTI; 'r' as the NIfTI reference library writes it (from memory)
   const dim = [ndim, nx, ny, nz, nt, 1, 1, 1];
   for (let i = 0; i < 8; i++) view.setInt16(40 + 2 * i, dim[i], true);
   view.setInt16(70, datatype === 'float32' ? DT_FLOAT32 : DT_INT16, true);
@@ -115,7 +116,8 @@ export function niftiVoxelBytes(data: Float32Array, datatype: 'float32' | 'int16
 /**
  * Write a volume as a single-file NIfTI-1 image: `.nii.gz` (gzip) when the path ends so, else `.nii`.
  * The header carries both a qform (quaternion, code 1) and an sform (the affine rows, code 1), voxel
- * sizes, pixdim[4] = trSec for a 4D run, units mm and s, vox_offset 352. Output is byte-deterministic
+ * sizes (pixdim[1..3] = the affine's column lengths; shears survive only in the sform),
+ * pixdim[4] = trSec for a 4D run, units mm and s, vox_offset 352. Output is byte-deterministic
  * (no timestamps; the gzip OS byte is fixed; same zlib build -> same bytes). Written atomically.
  * @param path - destination, ending in `.nii` or `.nii.gz`
  * @param volume - the image (3D when dims[3] is 1)
@@ -135,6 +137,7 @@ export async function writeNifti(path: string, volume: Volume, options: WriteNif
   if (!Number.isInteger(level) || level < 1 || level > 9) fail('INVALID_ARGUMENT', `gzipLevel must be an integer 1-9, got ${level}`);
   const [nx, ny, nz, nt] = volume.dims;
   if (volume.data.length !== nx * ny * nz * nt) fail('INVALID_ARGUMENT', `data length ${volume.data.length} does not match dims product ${nx * ny * nz * nt}`);
+  if (!usableAffine(volume.affine)) fail('INVALID_ARGUMENT', 'the volume affine is singular or not finite, so it has no NIfTI qform/sform');
   if ([nx, ny, nz, nt].some((d) => d > 32767)) fail('INVALID_ARGUMENT', `NIfTI-1 dims are 16-bit: each must be <= 32767, got [${volume.dims.join(', ')}]`);
   const { slope, inter } = datatype === 'int16' ? int16Scaling(volume.data) : { slope: 1, inter: 0 };
   const header = niftiHeaderBytes(volume, datatype, slope, inter, description, intentName);

@@ -145,6 +145,18 @@ describe('readNifti refuses damaged files with a typed error naming the file', (
     await expectCode(scaled, 'NON_FINITE_VOXELS', '113 of 120 voxels');
   });
 
+  it('control: a header extension (nifti1.h: extension flag, esize, ecode) is skipped via vox_offset', async () => {
+    const ext = Buffer.alloc(16);
+    ext.writeInt32LE(16, 0); // esize: whole extension incl. these 8 bytes, a multiple of 16
+    ext.writeInt32LE(6, 4); // ecode 6 = NIFTI_ECODE_COMMENT
+    ext.write('comment!', 8, 'latin1');
+    const header = Buffer.from(good.subarray(0, 352));
+    header[348] = 1; // extension flag
+    header.writeFloatLE(368, 108); // vox_offset moves past the extension
+    const { volume } = await readNifti(variant('ext.nii', Buffer.concat([header, ext, good.subarray(352)])));
+    expect(Array.from(volume.data.subarray(0, 3))).toEqual([0, 0.5, 1]);
+  });
+
   it('never modifies the file it reads', async () => {
     const path = variant('untouched.nii', good);
     const before = statSync(path).mtimeMs;

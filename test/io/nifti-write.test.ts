@@ -213,6 +213,11 @@ describe('writeNifti argument checks', () => {
       expect(isBoldsweepError(err, 'INVALID_ARGUMENT')).toBe(true);
     }
   });
+  it('a singular affine has no qform/sform: INVALID_ARGUMENT', async () => {
+    const flat = makeVolume({ ...run, affine: affineFromRows([[2, 0, 0, 0], [0, 2, 0, 0], [0, 0, 0, 0]]) });
+    const err = await writeNifti(join(dir, 'flat.nii'), flat).catch((e: unknown) => e);
+    expect(isBoldsweepError(err, 'INVALID_ARGUMENT')).toBe(true);
+  });
   it('a missing folder gives WRITE_FAILED naming the file', async () => {
     const path = join(dir, 'no-such-folder', 'x.nii');
     const err = await writeNifti(path, run).catch((e: unknown) => e);
