@@ -95,7 +95,8 @@ export interface HrfKernelOptions extends HrfOptions {
   lengthSec?: number;
   /**
    * How the kernel is scaled:
-   * - `'peak'`: the HRF's largest sample is 1 (a discrete impulse convolves to a response peaking at 1);
+   * - `'peak'`: divided by the continuous HRF peak ({@link hrfPeak}), so the largest sample is 1 when
+   *   the grid hits the peak time and just below 1 otherwise;
    * - `'sum'`: the HRF samples sum to 1 (a sustained unit boxcar convolves to a plateau of 1);
    * - `'none'`: raw values.
    * The derivative (when asked) is scaled by the same factor as the HRF, i.e. it is the derivative
@@ -123,9 +124,8 @@ export function hrfKernel(options: HrfKernelOptions = {}): Float64Array {
   const h = hrfValues(times, { ...options, derivative: false });
   let scale = 1;
   if (normalise === 'peak') {
-    let peak = 0;
-    for (let i = 0; i < n; i++) if (h[i] > peak) peak = h[i];
-    scale = 1 / peak;
+    // the continuous peak, so the scaling does not depend on dtSec
+    scale = 1 / hrfPeak(options).value;
   } else if (normalise === 'sum') {
     let sum = 0;
     for (let i = 0; i < n; i++) sum += h[i];
@@ -134,4 +134,32 @@ export function hrfKernel(options: HrfKernelOptions = {}): Float64Array {
   const out = options.derivative ? hrfValues(times, options) : h;
   for (let i = 0; i < n; i++) out[i] *= scale;
   return out;
+}
+
+/**
+ * Time and height of the HRF's maximum: a 0.05 s scan over 0-32 s, refined by golden-section search
+ * to 1e-10 s.
+ * @param options - shape and Glover parameters (`derivative` is ignored)
+ * @returns peak time (s) and raw peak value
+ * @example hrfPeak() // { timeSec: 5.23998..., value: 0.968613... }
+ */
+export function hrfPeak(options: HrfOptions = {}): { timeSec: number; value: number } {
+  const opts = { ...options, derivative: false };
+  const f = (t: number): number => hrfValues([t], opts)[0];
+  const step = 0.05;
+  const times = Array.from({ length: 641 }, (_, i) => i * step);
+  const coarse = hrfValues(times, opts);
+  let best = 0;
+  for (let i = 1; i < coarse.length; i++) if (coarse[i] > coarse[best]) best = i;
+  const g = (Math.sqrt(5) - 1) / 2;
+  let lo = Math.max(0, (best - 1) * step);
+  let hi = (best + 1) * step;
+  while (hi - lo > 1e-10) {
+    const x1 = hi - g * (hi - lo);
+    const x2 = lo + g * (hi - lo);
+    if (f(x1) > f(x2)) hi = x2;
+    else lo = x1;
+  }
+  const timeSec = (lo + hi) / 2;
+  return { timeSec, value: f(timeSec) };
 }

@@ -62,7 +62,7 @@ out["kernelSum0p1"] = {"glover": float(glover(grid).sum()), "gammaDifference": f
 
 path = os.path.join(os.path.dirname(os.path.abspath(__file__)), "hrf_fixture.json")
 with open(path + ".tmp", "w") as fh:
-    json.dump(out, fh, indent=1)
+    json.dump(out, fh, indent=1, allow_nan=False)
     fh.write("\n")
 os.replace(path + ".tmp", path)
 print("wrote", path)

@@ -1,0 +1,129 @@
+import { fail } from '../core/fail.js';
+import { makeVolume, voxelsPerVolume, type Volume } from '../core/volume.js';
+import { ar1BiasTraces, correctAr1 } from './ar1.js';
+import { designPseudoInverse, type DesignMatrix } from './design-matrix.js';
+import { checkRunAndDesign, fittedVoxels, gridOf, type GlmFit, type GlmOptions } from './glm-fit.js';
+import { sweepVoxels } from './glm-kernel.js';
+
+/** Options for {@link fitGlmAr1}. */
+export interface GlmAr1Options extends GlmOptions {
+  /**
+   * Width of the autocorrelation bins: voxels whose corrected rho rounds to the same multiple share
+   * one whitened design (common practice, no source). __Default value:__ 0.01
+   */
+  binWidth?: number;
+  /** Estimates are clipped to [-maxAbsRho, maxAbsRho] so whitening stays defined. __Default value:__ 0.99 */
+  maxAbsRho?: number;
+}
+
+/**
+ * GLM with AR(1) noise, by prewhitening:
+ * 1. OLS fit of every voxel; lag-1 autocorrelation of its residuals, bias-corrected with the
+ *    Worsley et al. (2002, NeuroImage 15:1-15) traces of the design ({@link correctAr1});
+ * 2. voxels are grouped into bins of rho (width 0.01 by default, common practice, no source) and each
+ *    bin gets its own Prais-Winsten whitened design W X (rho = the bin centre);
+ * 3. each voxel is refitted with its bin's design (the whitening of y is folded into the bin's
+ *    projector, so the run is still read block by block without a whitened copy); residual
+ *    variance comes from the whitened residuals.
+ * No spatial smoothing of the rho map. Degrees of freedom: nt - p - 1, counting the estimated
+ * autocorrelation as one fitted parameter (a conservative convention, common practice, no source).
+ * @param run - the run (not modified)
+ * @param design - design with one row per volume (unwhitened)
+ * @param options - mask, keepResiduals (whitened residuals), binWidth, maxAbsRho
+ * @returns the fit; `rho` holds the corrected estimates, `group` each voxel's bin, `covUnscaled`
+ *   one (X'W'WX)^-1 per bin
+ * @throws BoldsweepError NOT_4D, INVALID_ARGUMENT, TOO_FEW_VOLUMES, GRID_MISMATCH, RANK_DEFICIENT
+ * @example const fit = fitGlmAr1(run.volume, design, { mask: brainMask })
+ */
+export function fitGlmAr1(run: Volume, design: DesignMatrix, options: GlmAr1Options = {}): GlmFit {
+  const binWidth = options.binWidth ?? 0.01;
+  const maxAbsRho = options.maxAbsRho ?? 0.99;
+  if (!(binWidth > 0 && binWidth <= 0.5)) fail('INVALID_ARGUMENT', `binWidth must be in (0, 0.5], got ${binWidth}`);
+  if (!(maxAbsRho >= 0 && maxAbsRho < 1)) fail('INVALID_ARGUMENT', `maxAbsRho must be in [0, 1), got ${maxAbsRho}`);
+  const dof = checkRunAndDesign(run, design, 1);
+  const { nt, p, x } = design;
+  const idx = fittedVoxels(run, options.mask);
+  const n = idx.length;
+  const nvox = voxelsPerVolume(run);
+
+  // 1. OLS pass: residual lag-0 and lag-1 sums, temporal means
+  const ols = designPseudoInverse(design);
+  const proj0 = transposeToTimeMajor(ols.pinv, p, nt);
+  const betas = new Float64Array(p * n);
+  const a0 = new Float64Array(n);
+  const a1 = new Float64Array(n);
+  const mean = new Float64Array(n);
+  sweepVoxels({ data: run.data, nvox, nt, p, idx, x, proj: proj0, group: null, rhoOfGroup: null, betas, rss: a0, mean, lag1: a1, residuals: null });
+
+  // 2. corrected rho, binned
+  const traces = ar1BiasTraces(design);
+  const rho = new Float32Array(n);
+  const binOf = new Int32Array(n);
+  const bins = new Map<number, number>();
+  for (let i = 0; i < n; i++) {
+    let r = correctAr1(a0[i], a1[i], traces);
+    if (!Number.isFinite(r)) r = 0;
+    r = Math.max(-maxAbsRho, Math.min(maxAbsRho, r));
+    rho[i] = r;
+    const b = Math.round(r / binWidth);
+    binOf[i] = b;
+    if (!bins.has(b)) bins.set(b, 0);
+  }
+  const keys = [...bins.keys()].sort((u, v) => u - v);
+  if (keys.length > 65535) fail('INVALID_ARGUMENT', `binWidth ${binWidth} gives ${keys.length} autocorrelation bins; use a wider bin`);
+  keys.forEach((b, g) => bins.set(b, g));
+  const group = new Uint16Array(n);
+  for (let i = 0; i < n; i++) group[i] = bins.get(binOf[i]) as number;
+
+  // 3. one whitened design per bin; whitening of y folded into the projector
+  const ng = keys.length;
+  const size = nt * p;
+  const proj = new Float64Array(ng * size);
+  const cov = new Float64Array(ng * p * p);
+  const rhoOfGroup = new Float64Array(ng);
+  const xw = new Float64Array(size);
+  keys.forEach((b, g) => {
+    const r = Math.max(-maxAbsRho, Math.min(maxAbsRho, b * binWidth));
+    rhoOfGroup[g] = r;
+    const c0 = Math.sqrt(1 - r * r);
+    for (let j = 0; j < p; j++) {
+      xw[j] = c0 * x[j];
+      for (let t = 1; t < nt; t++) xw[t * p + j] = x[t * p + j] - r * x[(t - 1) * p + j];
+    }
+    const solved = designPseudoInverse({ columns: design.columns, x: xw, nt, p });
+    cov.set(solved.xtxInv, g * p * p);
+    // beta_j = sum_s P[j,s] (W y)_s  =>  coefficient of y_t is P[j,t] c_t - rho P[j,t+1]
+    const pw = solved.pinv;
+    const o = g * size;
+    for (let t = 0; t < nt; t++) {
+      const ct = t === 0 ? c0 : 1;
+      for (let j = 0; j < p; j++) proj[o + t * p + j] = pw[j * nt + t] * ct - (t + 1 < nt ? r * pw[j * nt + t + 1] : 0);
+    }
+  });
+  const rss = new Float64Array(n);
+  const residuals = options.keepResiduals ? new Float32Array(nvox * nt) : null;
+  sweepVoxels({ data: run.data, nvox, nt, p, idx, x, proj, group, rhoOfGroup, betas, rss, mean: null, lag1: null, residuals });
+  const sigma2 = new Float64Array(n);
+  for (let i = 0; i < n; i++) sigma2[i] = rss[i] / dof;
+  return {
+    method: 'ar1',
+    design,
+    grid: gridOf(run),
+    voxels: idx,
+    betas,
+    sigma2,
+    dof,
+    meanSignal: mean,
+    covUnscaled: cov,
+    group,
+    rho,
+    residuals: residuals ? makeVolume({ dims: [...run.dims], spacingMm: [...run.spacingMm], trSec: run.trSec, affine: new Float64Array(run.affine), data: residuals }) : null,
+  };
+}
+
+/** Row-major p x nt -> t-major nt x p. */
+function transposeToTimeMajor(a: Float64Array, p: number, nt: number): Float64Array {
+  const out = new Float64Array(nt * p);
+  for (let j = 0; j < p; j++) for (let t = 0; t < nt; t++) out[t * p + j] = a[j * nt + t];
+  return out;
+}

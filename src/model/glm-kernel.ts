@@ -1,0 +1,251 @@
+/*
+ * Inner loops of the voxelwise GLM, shared by OLS and AR(1) fits. Private to src/model (not exported
+ * from the barrel). Layout choices, all for speed in plain JavaScript (no SIMD):
+ * - the run is read once per block of voxels: volume t of the block is contiguous in the run, so a
+ *   block is gathered (transposed) into a small voxel-major Float64 buffer that stays in cache;
+ * - projectors are stored t-major (nt x p) so the loop over t walks both arrays forward;
+ * - two voxels share each projector load, and columns go three at a time into six scalar
+ *   accumulators (registers), so the hot loop does no stores.
+ */
+
+/**
+ * Copy voxels idx[v0..v0+n) of every volume into buf, voxel-major (voxel i at buf[i*nt .. i*nt+nt)),
+ * converting Float32 to Float64.
+ * @param data - run data, nt volumes of nvox voxels
+ * @param nvox - voxels per volume
+ * @param nt - volumes
+ * @param idx - voxel indices to read
+ * @param v0 - first position in idx
+ * @param n - number of voxels
+ * @param buf - output, length >= n*nt
+ * @example gatherBlock(run.data, nvox, nt, idx, 0, 64, buf)
+ */
+export function gatherBlock(data: Float32Array, nvox: number, nt: number, idx: Int32Array, v0: number, n: number, buf: Float64Array): void {
+  for (let t = 0; t < nt; t++) {
+    const o = t * nvox;
+    for (let i = 0; i < n; i++) buf[i * nt + t] = data[o + idx[v0 + i]];
+  }
+}
+
+/**
+ * Betas of one or two voxels: beta_j = sum_t proj[t, j] y_t, with proj t-major (nt x p) at offset po.
+ * @param buf - voxel-major block buffer
+ * @param ya - offset of the first voxel's series in buf
+ * @param yb - offset of the second voxel's series, or -1 for one voxel only
+ * @param proj - projector(s), t-major
+ * @param po - offset of this projector in proj
+ * @param nt - volumes
+ * @param p - columns
+ * @param out - betas: first voxel at out[0..p), second at out[p..2p)
+ * @example projectPair(buf, 0, nt, proj, 0, nt, p, b)
+ */
+export function projectPair(buf: Float64Array, ya: number, yb: number, proj: Float64Array, po: number, nt: number, p: number, out: Float64Array): void {
+  let j = 0;
+  if (yb >= 0) {
+    for (; j + 2 < p; j += 3) {
+      let a0 = 0, a1 = 0, a2 = 0, c0 = 0, c1 = 0, c2 = 0;
+      for (let t = 0, q = po + j; t < nt; t++, q += p) {
+        const y1 = buf[ya + t];
+        const y2 = buf[yb + t];
+        const w0 = proj[q], w1 = proj[q + 1], w2 = proj[q + 2];
+        a0 += w0 * y1; a1 += w1 * y1; a2 += w2 * y1;
+        c0 += w0 * y2; c1 += w1 * y2; c2 += w2 * y2;
+      }
+      out[j] = a0; out[j + 1] = a1; out[j + 2] = a2;
+      out[p + j] = c0; out[p + j + 1] = c1; out[p + j + 2] = c2;
+    }
+    for (; j < p; j++) {
+      let a0 = 0, c0 = 0;
+      for (let t = 0, q = po + j; t < nt; t++, q += p) {
+        a0 += proj[q] * buf[ya + t];
+        c0 += proj[q] * buf[yb + t];
+      }
+      out[j] = a0;
+      out[p + j] = c0;
+    }
+    return;
+  }
+  for (; j + 2 < p; j += 3) {
+    let a0 = 0, a1 = 0, a2 = 0;
+    for (let t = 0, q = po + j; t < nt; t++, q += p) {
+      const y1 = buf[ya + t];
+      a0 += proj[q] * y1; a1 += proj[q + 1] * y1; a2 += proj[q + 2] * y1;
+    }
+    out[j] = a0; out[j + 1] = a1; out[j + 2] = a2;
+  }
+  for (; j < p; j++) {
+    let a0 = 0;
+    for (let t = 0, q = po + j; t < nt; t++, q += p) a0 += proj[q] * buf[ya + t];
+    out[j] = a0;
+  }
+}
+
+/**
+ * Residuals e = y - X b of one or two voxels, optionally AR(1)-whitened (e~_0 = sqrt(1-rho^2) e_0,
+ * e~_t = e_t - rho e_{t-1}), returning the residual sums of squares; the residuals themselves are
+ * written into ea / eb (length nt each). A second pass over the data rather than y'y - b'X'y: see
+ * fitGlm for why.
+ * @param buf - voxel-major block buffer
+ * @param ya - offset of the first voxel
+ * @param yb - offset of the second voxel, or -1
+ * @param x - design, row-major nt x p
+ * @param nt - volumes
+ * @param p - columns
+ * @param b - betas (first voxel [0,p), second [p,2p))
+ * @param rho - AR(1) coefficient used for whitening (0: none)
+ * @param ea - residual output for the first voxel
+ * @param eb - residual output for the second voxel
+ * @param rss - output [rss of first, rss of second]
+ * @example residualPair(buf, 0, -1, x, nt, p, b, 0, ea, eb, rss)
+ */
+export function residualPair(buf: Float64Array, ya: number, yb: number, x: Float64Array, nt: number, p: number, b: Float64Array, rho: number, ea: Float64Array, eb: Float64Array, rss: Float64Array): void {
+  const two = yb >= 0;
+  for (let t = 0; t < nt; t++) ea[t] = buf[ya + t];
+  if (two) for (let t = 0; t < nt; t++) eb[t] = buf[yb + t];
+  let j = 0;
+  for (; j + 2 < p; j += 3) {
+    const b0 = b[j], b1 = b[j + 1], b2 = b[j + 2];
+    if (two) {
+      const d0 = b[p + j], d1 = b[p + j + 1], d2 = b[p + j + 2];
+      for (let t = 0, q = j; t < nt; t++, q += p) {
+        const x0 = x[q], x1 = x[q + 1], x2 = x[q + 2];
+        ea[t] -= x0 * b0 + x1 * b1 + x2 * b2;
+        eb[t] -= x0 * d0 + x1 * d1 + x2 * d2;
+      }
+    } else {
+      for (let t = 0, q = j; t < nt; t++, q += p) ea[t] -= x[q] * b0 + x[q + 1] * b1 + x[q + 2] * b2;
+    }
+  }
+  for (; j < p; j++) {
+    const b0 = b[j];
+    const d0 = two ? b[p + j] : 0;
+    for (let t = 0, q = j; t < nt; t++, q += p) {
+      ea[t] -= x[q] * b0;
+      if (two) eb[t] -= x[q] * d0;
+    }
+  }
+  if (rho !== 0) {
+    whitenInPlace(ea, nt, rho);
+    if (two) whitenInPlace(eb, nt, rho);
+  }
+  let ra = 0;
+  for (let t = 0; t < nt; t++) ra += ea[t] * ea[t];
+  rss[0] = ra;
+  if (two) {
+    let rb = 0;
+    for (let t = 0; t < nt; t++) rb += eb[t] * eb[t];
+    rss[1] = rb;
+  }
+}
+
+/** Prais-Winsten AR(1) whitening of a series in place (walks backwards so no copy is needed). */
+export function whitenInPlace(e: Float64Array, nt: number, rho: number): void {
+  for (let t = nt - 1; t >= 1; t--) e[t] -= rho * e[t - 1];
+  e[0] *= Math.sqrt(1 - rho * rho);
+}
+
+/** What {@link sweepVoxels} reads and writes. Compact arrays are indexed by position in `idx`. */
+export interface VoxelSweep {
+  /** Run data (nt volumes of nvox voxels). */
+  data: Float32Array;
+  nvox: number;
+  nt: number;
+  p: number;
+  /** Voxels to fit (indices within a volume). */
+  idx: Int32Array;
+  /** Design, row-major nt x p (used for residuals). */
+  x: Float64Array;
+  /** Projectors of all groups, each t-major nt x p, concatenated (group g at g * nt * p). */
+  proj: Float64Array;
+  /** Group of each voxel (compact), or null for group 0 everywhere. */
+  group: Uint16Array | null;
+  /** Whitening coefficient of each group (residuals are whitened with it), or null for none. */
+  rhoOfGroup: Float64Array | null;
+  /** Output betas, p x n (row j at j * n). */
+  betas: Float64Array;
+  /** Output residual sums of squares. */
+  rss: Float64Array;
+  /** Output temporal means, when given. */
+  mean: Float64Array | null;
+  /** Output sum_t e_t e_{t-1} of the (unwhitened) residuals, when given. */
+  lag1: Float64Array | null;
+  /** Output residual run (full size), when given. */
+  residuals: Float32Array | null;
+}
+
+/** Voxels per gathered block: 64 x nt Float64 values stay in L2 for nt up to a few hundred. */
+const BLOCK = 64;
+
+/**
+ * Fit every voxel of `s.idx`: betas by projection, then residuals in a second pass over the cached
+ * block. Voxels are paired when they share a group.
+ * @param s - inputs and outputs
+ * @example sweepVoxels({ data, nvox, nt, p, idx, x, proj, group: null, rhoOfGroup: null, betas, rss, mean: null, lag1: null, residuals: null })
+ */
+export function sweepVoxels(s: VoxelSweep): void {
+  const { data, nvox, nt, p, idx, x, proj, group, rhoOfGroup, betas, rss, mean, lag1, residuals } = s;
+  const n = idx.length;
+  const buf = new Float64Array(BLOCK * nt);
+  const b = new Float64Array(2 * p);
+  const ea = new Float64Array(nt);
+  const eb = new Float64Array(nt);
+  const r = new Float64Array(2);
+  const size = nt * p;
+  for (let v0 = 0; v0 < n; v0 += BLOCK) {
+    const m = Math.min(BLOCK, n - v0);
+    gatherBlock(data, nvox, nt, idx, v0, m, buf);
+    let i = 0;
+    while (i < m) {
+      const g = group ? group[v0 + i] : 0;
+      const pair = i + 1 < m && (group === null || group[v0 + i + 1] === g);
+      const ya = i * nt;
+      const yb = pair ? ya + nt : -1;
+      projectPair(buf, ya, yb, proj, g * size, nt, p, b);
+      const rho = rhoOfGroup ? rhoOfGroup[g] : 0;
+      if (lag1) {
+        // unwhitened residuals first, for the autocorrelation, then whitened RSS
+        residualPair(buf, ya, yb, x, nt, p, b, 0, ea, eb, r);
+        lag1[v0 + i] = lagProduct(ea, nt);
+        if (pair) lag1[v0 + i + 1] = lagProduct(eb, nt);
+        if (rho !== 0) {
+          whitenInPlace(ea, nt, rho);
+          r[0] = sumSquares(ea, nt);
+          if (pair) {
+            whitenInPlace(eb, nt, rho);
+            r[1] = sumSquares(eb, nt);
+          }
+        }
+      } else {
+        residualPair(buf, ya, yb, x, nt, p, b, rho, ea, eb, r);
+      }
+      for (let k = 0, c = pair ? 2 : 1; k < c; k++) {
+        const at = v0 + i + k;
+        for (let j = 0; j < p; j++) betas[j * n + at] = b[k * p + j];
+        rss[at] = r[k];
+        if (mean) {
+          let sum = 0;
+          for (let t = 0, o = ya + k * nt; t < nt; t++) sum += buf[o + t];
+          mean[at] = sum / nt;
+        }
+        if (residuals) {
+          const e = k === 0 ? ea : eb;
+          const vox = idx[at];
+          for (let t = 0; t < nt; t++) residuals[t * nvox + vox] = e[t];
+        }
+      }
+      i += pair ? 2 : 1;
+    }
+  }
+}
+
+function lagProduct(e: Float64Array, nt: number): number {
+  let acc = 0;
+  for (let t = 1; t < nt; t++) acc += e[t] * e[t - 1];
+  return acc;
+}
+
+function sumSquares(e: Float64Array, nt: number): number {
+  let acc = 0;
+  for (let t = 0; t < nt; t++) acc += e[t] * e[t];
+  return acc;
+}
