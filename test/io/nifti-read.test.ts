@@ -1,8 +1,10 @@
-import { readFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { isBoldsweepError } from '../../src/core/errors.js';
 import { readNifti } from '../../src/io/nifti-read.js';
+import { HAVE_NIFTI_TOOL, niftiToolDescription } from './nifti-tool.js';
 
 // Reference files and values written by test/reference/make_nifti_fixtures.py (numpy + struct, from the
 // nifti1.h / nifti2.h layouts; each NIfTI-1 file passed nifti_tool -check_hdr -check_nim when generated).
@@ -130,4 +132,20 @@ describe('NaN/Inf voxels are never silently kept', () => {
     for (const i of f.nonFiniteIndices!) expect(volume.data[i]).toBe(0);
     f.data.forEach((v, i) => { if (v !== null) expect(volume.data[i]).toBe(v); });
   });
+});
+
+describe.skipIf(!HAVE_NIFTI_TOOL)('datatype and unit names agree with nifti_tool (its ASCII header form)', () => {
+  const scratch = mkdtempSync(join(tmpdir(), 'boldsweep-nia-'));
+  afterAll(() => rmSync(scratch, { recursive: true, force: true }));
+  // NIfTI-1 files only: nifti_tool 2.09 handles NIfTI-2 headers through the NIfTI-1 struct (see the fixture script)
+  for (const f of fixtures.filter((x) => x.niftiVersion === 1 && x.nonFiniteCount === undefined)) {
+    it(f.file, async () => {
+      const path = join(REF_DIR, 'nifti', f.file);
+      const words = niftiToolDescription(path, scratch);
+      const { info } = await readNifti(path);
+      expect(words.datatype_name).toBe(info.datatype.toUpperCase());
+      expect(words.xyz_units_name).toBe(info.spaceUnit);
+      expect(words.time_units_name).toBe(info.timeUnit);
+    });
+  }
 });

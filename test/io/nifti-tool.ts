@@ -1,5 +1,7 @@
 // Helpers that run Debian's nifti_tool (package nifti-bin) on files we wrote: an outside reader.
 import { spawnSync } from 'node:child_process';
+import { readFileSync, rmSync } from 'node:fs';
+import { join } from 'node:path';
 
 /** Whether nifti_tool is installed; tests that need it are skipped (with a message) when it is not. */
 export const HAVE_NIFTI_TOOL = spawnSync('nifti_tool', ['-ver'], { encoding: 'utf8' }).status === 0;
@@ -20,4 +22,18 @@ export function niftiToolNumbers(args: string[]): number[] {
 /** Every voxel of a 4D file as nifti_tool reads it (stored values, before scl_slope/scl_inter). */
 export function niftiToolVoxels(path: string): number[] {
   return niftiToolNumbers(['-disp_ci', '-1', '-1', '-1', '-1', '0', '0', '0', '-quiet', '-infiles', path]);
+}
+
+/**
+ * The header as nifti_tool describes it in words: it copies the file to its ASCII form (.nia) and the
+ * `name = 'value'` lines are returned (e.g. xyz_units_name, time_units_name, datatype_name).
+ */
+export function niftiToolDescription(path: string, scratchDir: string): Record<string, string> {
+  const nia = join(scratchDir, `described-${process.pid}-${Math.random().toString(36).slice(2)}.nia`);
+  niftiTool(['-copy_im', '-prefix', nia, '-infiles', path]);
+  const text = readFileSync(nia, 'latin1');
+  rmSync(nia, { force: true });
+  const out: Record<string, string> = {};
+  for (const m of text.matchAll(/^\s*(\w+) = '([^']*)'/gm)) out[m[1]] = m[2];
+  return out;
 }
