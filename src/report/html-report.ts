@@ -1,0 +1,126 @@
+import type { Recommendation } from '../sweep/recommend.js';
+import type { SettingSummary } from '../sweep/summarise-scorecard.js';
+import { settingLabel } from '../sweep/settings-grid.js';
+import { RESEARCH_CAUTION } from './caution.js';
+import { escapeHtml } from './html-escape.js';
+import { metricLabel } from './chart-labels.js';
+import type { MethodsText } from './methods-text.js';
+
+/** One chart of the report: rendered SVG and a caption saying what it shows. */
+export interface ReportChart {
+  id: string;
+  title: string;
+  svg: string;
+  caption: string;
+}
+
+/** Everything the HTML report shows. */
+export interface ReportParts {
+  title: string;
+  /** One-line description of the run (grid, volumes, TR). */
+  runSummary: string;
+  /** Lines describing the sweep (recipe, varied values, planting, repeats, threshold, seed). */
+  sweepLines: string[];
+  recommendation: Recommendation;
+  charts: ReportChart[];
+  summaries: SettingSummary[];
+  /** Metric columns shown in the summary table. */
+  tableMetrics: string[];
+  methods: MethodsText;
+  /** Lines about how the sweep ran (cells, cache hits, workers, seconds). */
+  runLines: string[];
+  /** Software versions, e.g. { boldsweep: '0.1.0', node: 'v20.20.2' }. */
+  software: Record<string, string>;
+}
+
+const fmt = (x: number, d = 3) => (Number.isFinite(x) ? x.toFixed(d) : 'n/a');
+
+function summaryTable(parts: ReportParts): string {
+  const chosen = parts.recommendation.choice;
+  const head = ['Planted', 'Setting', 'Repeats', ...parts.tableMetrics.map(metricLabel)];
+  const rows = parts.summaries.map((s) => {
+    const isChoice = s.settingIndex === chosen.chosen.settingIndex && s.plantSizeMm === chosen.plantSizeMm && s.plantAmplitudePct === chosen.plantAmplitudePct;
+    const cells = [
+      s.plantSizeMm > 0 ? `${s.plantSizeMm} mm, ${s.plantAmplitudePct} %` : 'nothing planted',
+      settingLabel(s.setting) + (isChoice ? ' (recommended)' : ''),
+      String(s.repeats),
+      ...parts.tableMetrics.map((m) => {
+        const v = s.metrics[m];
+        return v ? `${fmt(v.mean)} <span class="ci">[${fmt(v.low)}, ${fmt(v.high)}]</span>` : 'n/a';
+      }),
+    ];
+    return `<tr${isChoice ? ' class="chosen"' : ''}>${cells.map((c, i) => `<td>${i < 3 ? escapeHtml(c) : c}</td>`).join('')}</tr>`;
+  });
+  return `<table class="summary"><thead><tr>${head.map((h) => `<th>${escapeHtml(h)}</th>`).join('')}</tr></thead><tbody>${rows.join('\n')}</tbody></table>`;
+}
+
+function evidenceTable(rec: Recommendation): string {
+  const c = rec.choice;
+  const rows = c.evidence.map((e) => `<tr${e === c.chosen ? ' class="chosen"' : ''}><td>${escapeHtml(e.label)}</td><td>${fmt(e.detection.mean)}</td><td>${fmt(e.detection.se)}</td><td>${e.withinOneSe ? 'yes' : 'no'}</td><td>${e.falseClusters ? fmt(e.falseClusters.mean, 2) : 'n/a'}</td></tr>`);
+  return `<table class="evidence"><thead><tr><th>Setting</th><th>Mean ${escapeHtml(rec.metric)}</th><th>SE</th><th>Within one SE of best (&ge; ${fmt(c.cutoff)})</th><th>False clusters per run</th></tr></thead><tbody>${rows.join('\n')}</tbody></table>`;
+}
+
+/**
+ * A self-contained HTML page (no scripts, no external files): recommendation first, then its
+ * evidence, the charts as inline SVG, the summary table, the methods paragraph and the caution.
+ * @param parts - the report's content
+ * @returns the HTML text
+ * @example await writeFileAtomic('out/demo/report.html', htmlReport(parts))
+ */
+export function htmlReport(parts: ReportParts): string {
+  const rec = parts.recommendation;
+  const others = rec.perPlant.filter((p) => p !== rec.choice);
+  const charts = parts.charts.map((c) => `<figure id="${escapeHtml(c.id)}" class="chart">${c.svg}<figcaption>${escapeHtml(c.caption)}</figcaption></figure>`).join('\n');
+  const perPlant = others.length
+    ? `<p>Other planted conditions, same rule:</p><ul>${others.map((p) => `<li>${p.plantSizeMm} mm, ${p.plantAmplitudePct} %: ${escapeHtml(p.chosen.label)} (mean ${fmt(p.chosen.detection.mean)}; best ${escapeHtml(p.best.label)} at ${fmt(p.best.detection.mean)})</li>`).join('')}</ul>`
+    : '';
+  return `<!DOCTYPE html>
+<html lang="en">
+<head>
+<meta charset="utf-8">
+<meta name="viewport" content="width=device-width, initial-scale=1">
+<title>${escapeHtml(parts.title)}</title>
+<style>
+body { font-family: Helvetica, Arial, sans-serif; max-width: 1100px; margin: 2em auto; padding: 0 1em; color: #222; line-height: 1.45; }
+h1 { font-size: 1.6em; margin-bottom: 0.2em; } h2 { font-size: 1.2em; margin-top: 2em; border-bottom: 1px solid #ddd; }
+.caution { background: #fff6e0; border-left: 4px solid #c98a00; padding: 0.6em 1em; }
+.choice { background: #eef4fb; border-left: 4px solid #2c5d8f; padding: 0.6em 1em; font-size: 1.05em; }
+table { border-collapse: collapse; font-size: 0.88em; margin: 0.8em 0; } th, td { border: 1px solid #ddd; padding: 3px 7px; text-align: left; }
+th { background: #f4f4f4; } tr.chosen td { background: #eef4fb; font-weight: bold; } .ci { color: #666; font-weight: normal; }
+figure.chart { display: inline-block; margin: 0.6em 1em 1em 0; vertical-align: top; } figcaption { font-size: 0.85em; color: #555; max-width: 560px; }
+.meta { color: #555; font-size: 0.9em; } code { background: #f4f4f4; padding: 0 3px; }
+</style>
+</head>
+<body>
+<h1>${escapeHtml(parts.title)}</h1>
+<p class="meta">${escapeHtml(parts.runSummary)}</p>
+<p class="caution"><strong>Caution.</strong> ${escapeHtml(RESEARCH_CAUTION)}</p>
+
+<h2>Recommendation</h2>
+<p class="choice">${escapeHtml(rec.summary)}</p>
+<p><strong>Rule.</strong> ${escapeHtml(rec.rule)}</p>
+${evidenceTable(rec)}
+${perPlant}
+<h3>What the simulation cannot know</h3>
+<ul>${rec.caveats.map((c) => `<li>${escapeHtml(c)}</li>`).join('')}</ul>
+
+<h2>Charts</h2>
+${charts}
+
+<h2>Scorecard summary</h2>
+<p class="meta">Mean across repeats with 95 % t-interval [low, high]. One row per setting and planted condition; the full table, one row per repeat, is in scorecard.tsv.</p>
+${summaryTable(parts)}
+
+<h2>Methods</h2>
+${parts.methods.paragraphs.map((p) => `<p>${escapeHtml(p)}</p>`).join('\n')}
+<h3>References</h3>
+<ol>${parts.methods.references.map((r) => `<li>${escapeHtml(r)}</li>`).join('')}</ol>
+
+<h2>The sweep</h2>
+<ul>${parts.sweepLines.map((l) => `<li>${escapeHtml(l)}</li>`).join('')}</ul>
+<ul class="meta">${parts.runLines.map((l) => `<li>${escapeHtml(l)}</li>`).join('')}</ul>
+<p class="meta">Made with ${Object.entries(parts.software).map(([k, v]) => `${escapeHtml(k)} ${escapeHtml(v)}`).join(', ')}. The decision record (decision-record.json) holds the input hashes, the spec and the seed needed to re-run this sweep.</p>
+</body>
+</html>
+`;
+}

@@ -1,0 +1,130 @@
+import type { DecisionRecord } from './decision-record-types.js';
+import { settingLabel } from '../sweep/settings-grid.js';
+import { parameterLabel, unitOf } from './chart-labels.js';
+import { RESEARCH_CAUTION } from './caution.js';
+
+/** A methods section: paragraphs of plain scientific English and the references they cite. */
+export interface MethodsText {
+  paragraphs: string[];
+  references: string[];
+}
+
+/**
+ * Published sources the generated text cites, as "Authors (year) Venue". Volume and page numbers
+ * marked [M] in the project's reference list are from memory; they are quoted as the references
+ * file gives them.
+ */
+export const METHOD_REFERENCES = {
+  glm: 'Friston KJ, Holmes AP, Worsley KJ, Poline JB, Frith CD, Frackowiak RSJ (1995) Hum Brain Mapp 2(4):189-210',
+  hrf: 'Glover GH (1999) NeuroImage 9(4):416-429',
+  ar1: 'Worsley KJ, Liao CH, Aston J, Petre V, Duncan GH, Morales F, Evans AC (2002) NeuroImage 15(1):1-15',
+  rft: 'Worsley KJ, Marrett S, Neelin P, Vandal AC, Friston KJ, Evans AC (1996) Hum Brain Mapp 4(1):58-73',
+  smoothness: 'Kiebel SJ, Poline JB, Friston KJ, Holmes AP, Worsley KJ (1999) NeuroImage 10(6):756-766',
+  fdr: 'Benjamini Y, Hochberg Y (1995) J R Stat Soc B 57(1):289-300',
+  fdrImaging: 'Genovese CR, Lazar NA, Nichols T (2002) NeuroImage 15(4):870-878',
+  cluster: 'Friston KJ, Worsley KJ, Frackowiak RSJ, Mazziotta JC, Evans AC (1994) Hum Brain Mapp 1(3):210-220',
+  oneSe: 'Breiman L, Friedman JH, Olshen RA, Stone CJ (1984) Classification and Regression Trees. Wadsworth',
+  matchedFilter: 'Rosenfeld A, Kak AC (1982) Digital Picture Processing, 2nd ed. Academic Press',
+  autocorrelation: 'Eklund A, Nichols TE, Knutsson H (2016) PNAS 113(28):7900-7905',
+  student: 'Student (1908) Biometrika 6(1):1-25',
+} as const;
+
+const num = (x: number | null | undefined, d = 2) => (x === null || x === undefined || !Number.isFinite(x) ? 'n/a' : x.toFixed(d));
+
+function valueText(key: string, v: unknown): string {
+  const unit = unitOf(key);
+  return `${v}${unit ? ` ${unit}` : ''}`;
+}
+
+function thresholdSentence(r: DecisionRecord, cite: (ref: string) => string): string {
+  const t = r.sweepSpec.threshold;
+  switch (t.kind) {
+    case 'fwe-rft': return `Voxels were declared active at a family-wise error rate of ${t.alpha} by random field theory (${cite(METHOD_REFERENCES.rft)}), with the smoothness estimated from the standardised residuals (${cite(METHOD_REFERENCES.smoothness)}).`;
+    case 'fdr': return `Voxels were declared active at a false discovery rate of ${t.q} by the Benjamini-Hochberg procedure (${cite(METHOD_REFERENCES.fdr)}; ${cite(METHOD_REFERENCES.fdrImaging)}).`;
+    case 'bonferroni': return `Voxels were declared active at a family-wise error rate of ${t.alpha} by the Bonferroni correction over the voxels of the brain mask.`;
+    case 'uncorrected': return `Voxels were declared active at an uncorrected one-sided p < ${t.alpha}.`;
+    case 'cluster': return `Clusters were formed at one-sided p < ${t.clusterFormingP} and kept when their extent was significant at a family-wise error rate of ${t.alpha} by random field theory (${cite(METHOD_REFERENCES.cluster)}), with the smoothness estimated from the residuals (${cite(METHOD_REFERENCES.smoothness)}).`;
+  }
+}
+
+/**
+ * The in-text form of a reference written "Surname AB, Surname CD (year) Venue": "Surname year",
+ * "Surname & Surname year" or "Surname et al. year".
+ * @param ref - full reference
+ * @returns the short form
+ * @example shortCitation('Benjamini Y, Hochberg Y (1995) J R Stat Soc B 57(1):289-300') // 'Benjamini & Hochberg 1995'
+ */
+export function shortCitation(ref: string): string {
+  const m = /^(.*?)\s*\((\d{4})\)/.exec(ref);
+  if (!m) return ref;
+  const surnames = m[1].split(/,\s*|\s+&\s+|\s+and\s+/).filter(Boolean).map((a) => a.trim().split(/\s+/)[0]);
+  const who = surnames.length === 1 ? surnames[0] : surnames.length === 2 ? `${surnames[0]} & ${surnames[1]}` : `${surnames[0]} et al.`;
+  return `${who} ${m[2]}`;
+}
+
+/**
+ * Write the methods paragraphs for a decision: the preprocessing as chosen (from the step notes),
+ * the model and threshold, and how the choice was made, with its numbers, units and citations.
+ * @param r - the decision record
+ * @returns paragraphs and numbered references (citations in the text are "(Author year)")
+ * @example const m = methodsText(record); console.log(m.paragraphs.join('\n\n'))
+ */
+export function methodsText(r: DecisionRecord): MethodsText {
+  const refs: string[] = [];
+  const cite = (ref: string): string => {
+    if (!refs.includes(ref)) refs.push(ref);
+    return shortCitation(ref);
+  };
+  const spec = r.sweepSpec;
+  const choice = r.choice;
+  const paragraphs: string[] = [];
+
+  // 1. data and preprocessing
+  const steps = r.stepNotes.map((n) => {
+    const c = n.citations.length ? ` (${n.citations.map(cite).join('; ')})` : '';
+    const text = n.methodsText.trim().replace(/\.$/, '');
+    return `${text}${c}.`;
+  });
+  paragraphs.push(`The functional run (${r.run.summary}) was preprocessed with ${r.stepNotes.length} step${r.stepNotes.length === 1 ? '' : 's'}, in this order. ${steps.join(' ')}`);
+
+  // 2. model and threshold
+  const cond = spec.model.trialType ? `the '${spec.model.trialType}' events` : 'the task events';
+  const drift = spec.model.highpassCutoffSec ? `, discrete cosine drift regressors with a ${spec.model.highpassCutoffSec} s cutoff` : '';
+  const ar = spec.model.ar1 ? ` Serial correlation was modelled as a first-order autoregressive process, bias-corrected and removed by prewhitening (${cite(METHOD_REFERENCES.ar1)}).` : ' Serial correlation was not modelled (ordinary least squares).';
+  paragraphs.push(`Each voxel inside the brain mask was fitted with a general linear model (${cite(METHOD_REFERENCES.glm)}) whose regressor of interest was ${cond} convolved with a canonical double-gamma haemodynamic response (${cite(METHOD_REFERENCES.hrf)})${drift} and an intercept.${ar} The effect was tested with a one-sided t contrast. ${thresholdSentence(r, cite)}`);
+
+  // 3. how the choice was made
+  const varied = Object.keys(spec.vary);
+  const candidates = varied.map((k) => `${parameterLabel(k)}: ${spec.vary[k].join(', ')}`).join('; ');
+  const chosenWhat = varied.length ? varied.map((k) => `${parameterLabel(k).replace(/ \(.*\)$/, '')} of ${valueText(k, choice.setting[k])}`).join(' and ') : 'the recipe';
+  const plant = spec.plant.count > 0
+    ? `${spec.plant.count} ${spec.plant.shape === 'gaussian' ? 'Gaussian' : 'soft-edged spherical'} activations of ${choice.plantSizeMm} mm ${spec.plant.shape === 'gaussian' ? 'FWHM' : 'diameter'} and ${choice.plantAmplitudePct} % peak signal change, following the task time course, were added at random positions of the unprocessed run`
+    : 'nothing was added to the run (a null simulation)';
+  const ch = choice.chosen;
+  const ref = spec.plant.shape === 'gaussian' && varied.some((k) => /fwhm/i.test(k)) ? ` By the matched-filter principle, detection of a Gaussian activation is expected to be best when the kernel width equals the activation width (${cite(METHOD_REFERENCES.matchedFilter)}).` : '';
+  const atChoice = r.scorecard.summary.find((s) => settingLabel(s.setting) === settingLabel(choice.setting) && s.plantSizeMm === choice.plantSizeMm && s.plantAmplitudePct === choice.plantAmplitudePct);
+  const extras: string[] = [];
+  if (atChoice?.metrics.falseClusters) extras.push(`${num(atChoice.metrics.falseClusters.mean)} false clusters per run`);
+  if (atChoice?.metrics.tsnrMedian) extras.push(`a median tSNR of ${num(atChoice.metrics.tsnrMedian.mean, 1)}`);
+  if (atChoice?.metrics.smoothnessFwhmMm) extras.push(`an estimated smoothness of ${num(atChoice.metrics.smoothnessFwhmMm.mean, 1)} mm FWHM`);
+  paragraphs.push(
+    `The ${varied.length ? varied.map(parameterLabel).join(' and ') : 'recipe'} was chosen by simulation on this run with boldsweep ${r.software.boldsweep} (seed ${r.seed}). In each of ${spec.repeats} repeats, ${plant}; every candidate setting (${candidates || 'one'}) was then applied, the model fitted and thresholded, and the detections compared with the planted truth.${ref} `
+    + `By the one-standard-error rule (${cite(METHOD_REFERENCES.oneSe)}), ${chosenWhat} was chosen: the ${choice.prefer} setting whose mean ${choice.metric} across repeats (${num(ch.mean, 3)}; 95 % t-interval ${num(ch.low, 3)} to ${num(ch.high, 3)}; ${cite(METHOD_REFERENCES.student)}) was within one standard error of the best (${num(choice.best.mean, 3)} at ${settingLabel(choice.best.setting)}, SE ${num(choice.best.se, 3)}).`
+    + (extras.length ? ` At this setting the simulation found ${extras.join(', ')}.` : ''),
+  );
+
+  // 4. limits
+  paragraphs.push(`These figures are estimates from one run; the simulation assumes activations of the planted shape and the modelled haemodynamic response, and real fMRI noise has non-Gaussian spatial autocorrelation (${cite(METHOD_REFERENCES.autocorrelation)}). The decision record (input hashes, software versions, sweep specification, seed and scorecard summary) allows the simulation to be repeated exactly.`);
+  return { paragraphs, references: refs };
+}
+
+/**
+ * The methods text as Markdown, with the caution at the end.
+ * @param m - methods paragraphs and references
+ * @param title - heading. __Default value:__ 'Methods'
+ * @returns Markdown text
+ * @example await writeFileAtomic('out/demo/methods.md', methodsMarkdown(methodsText(record)))
+ */
+export function methodsMarkdown(m: MethodsText, title = 'Methods'): string {
+  return `# ${title}\n\n${m.paragraphs.join('\n\n')}\n\n## References\n\n${m.references.map((r, i) => `${i + 1}. ${r}`).join('\n')}\n\n---\n\n*${RESEARCH_CAUTION}*\n`;
+}

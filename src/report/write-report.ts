@@ -1,0 +1,96 @@
+import { mkdirSync } from 'node:fs';
+import { join } from 'node:path';
+import { writeFileAtomic } from '../io/atomic-write.js';
+import { recommendSetting, type RecommendOptions, type Recommendation } from '../sweep/recommend.js';
+import { settingLabel } from '../sweep/settings-grid.js';
+import { summariseScorecard } from '../sweep/summarise-scorecard.js';
+import { detectionChart, falseAlarmChart, smoothnessChart, tsnrChart } from './charts-sweep.js';
+import { rocChart } from './charts-roc.js';
+import { buildDecisionRecord } from './decision-record.js';
+import type { DecisionRecord } from './decision-record-types.js';
+import { htmlReport, type ReportChart } from './html-report.js';
+import { methodsMarkdown, methodsText, type MethodsText } from './methods-text.js';
+import { renderSvg } from './render-svg.js';
+import type { SweepFolder } from './sweep-folder.js';
+import { thresholdText } from './threshold-text.js';
+import { parameterLabel } from './chart-labels.js';
+
+/** What {@link writeReport} made. */
+export interface WrittenReport {
+  recommendation: Recommendation;
+  record: DecisionRecord;
+  methods: MethodsText;
+  charts: ReportChart[];
+  files: { report: string; methods: string; record: string };
+}
+
+/**
+ * The report's charts as rendered SVG, each with a caption.
+ * @param folder - sweep result and facts
+ * @param rec - the recommendation (its setting is marked)
+ * @returns charts in report order
+ * @example const charts = await sweepCharts(folder, rec)
+ */
+export async function sweepCharts(folder: SweepFolder, rec: Recommendation): Promise<ReportChart[]> {
+  const { result } = folder;
+  const card = result.scorecard;
+  const key = card.varied[0];
+  const recommended = key === undefined ? undefined : rec.choice.chosen.setting[key];
+  const thr = thresholdText(result.spec.threshold);
+  const o = { recommended, thresholdText: thr, metric: rec.metric };
+  const x = key ? parameterLabel(key) : 'the recipe';
+  const charts: ReportChart[] = [];
+  const planted = card.rows.some((r) => (r.plantCount as number) > 0);
+  if (planted) charts.push({ id: 'chart-detection', title: 'Detection', svg: await renderSvg(detectionChart(card, o)), caption: `Fraction of planted voxels detected at ${thr}, against ${x}; one line per planted size. For smoothing this is the matched-filter curve: detection peaks near a kernel as wide as the activation.` });
+  charts.push({ id: 'chart-false-alarms', title: 'False alarms', svg: await renderSvg(falseAlarmChart(card, o)), caption: `Clusters of detected voxels containing no planted voxel, per run, at ${thr}.` });
+  charts.push({ id: 'chart-tsnr', title: 'tSNR', svg: await renderSvg(tsnrChart(card, o)), caption: `Median temporal signal-to-noise ratio inside the brain mask after the recipe, against ${x}.` });
+  charts.push({ id: 'chart-smoothness', title: 'Smoothness', svg: await renderSvg(smoothnessChart(card, o)), caption: `Smoothness of the noise estimated from the model residuals (FWHM), against ${x}.` });
+  if (planted && result.curves.rows.length) charts.push({ id: 'chart-roc', title: 'ROC', svg: await renderSvg(rocChart(card, result.curves)), caption: 'Voxelwise ROC curves per setting (every threshold), averaged across repeats: how well each setting separates planted from other voxels, whatever the threshold.' });
+  return charts;
+}
+
+/**
+ * Recommend, render and write the report files of a sweep: report.html (self-contained), methods.md
+ * and decision-record.json (input paths relative to the output folder).
+ * @param dir - output folder (created when missing)
+ * @param folder - the sweep (from runSweep or readSweepFolder) with run facts and masks
+ * @param options - recommendation options (metric, targetSizeMm, prefer)
+ * @returns the recommendation, record, methods and charts, and the paths written
+ * @example const { recommendation } = await writeReport('out/demo', folder)
+ */
+export async function writeReport(dir: string, folder: SweepFolder, options: RecommendOptions = {}): Promise<WrittenReport> {
+  mkdirSync(dir, { recursive: true });
+  const { result } = folder;
+  const thr = thresholdText(result.spec.threshold);
+  const recommendation = recommendSetting(result.scorecard, { thresholdText: thr, ...options });
+  const record = await buildDecisionRecord({ result, recommendation, run: folder.run, masks: folder.masks, relativeTo: dir });
+  const methods = methodsText(record);
+  const charts = await sweepCharts(folder, recommendation);
+  const spec = result.spec;
+  const sweepLines = [
+    `Recipe: ${spec.recipe.map((s) => `${s.step}(${Object.entries(s.params).map(([k, v]) => `${k}=${JSON.stringify(v)}`).join(', ')})`).join(' -> ')}`,
+    ...Object.entries(spec.vary).map(([k, v]) => `Varied ${parameterLabel(k)}: ${v.join(', ')}`),
+    spec.plant.count > 0
+      ? `Planted: ${spec.plant.count} ${spec.plant.shape} blobs per run; sizes ${spec.plant.sizesFwhmMm.join(', ')} mm; amplitudes ${spec.plant.amplitudesPct.join(', ')} %`
+      : 'Planted: nothing (null sweep: every detection is a false alarm)',
+    `Repeats: ${spec.repeats} plantings per setting; seed ${spec.seed}`,
+    `Model: GLM${spec.model.ar1 ? ' with AR(1) prewhitening' : ' (OLS)'}${spec.model.highpassCutoffSec ? `, cosine drift cutoff ${spec.model.highpassCutoffSec} s` : ''}; threshold ${thr}`,
+  ];
+  const st = result.stats;
+  const runLines = [
+    `${st.cellsRun} cells (${st.cellsComputed} computed, ${st.cellsFromCache} from the cache) in ${st.tasks} tasks on ${st.workers} worker${st.workers === 1 ? '' : 's'}; ${st.wallSeconds.toFixed(1)} s wall time.`,
+    `Sweep key ${result.scorecard.sweepKey}; run hash ${result.inputs.runHash}.`,
+  ];
+  const html = htmlReport({
+    title: `Which ${Object.keys(spec.vary).map(parameterLabel).join(' and ') || 'recipe'}? A boldsweep report`,
+    runSummary: `Run: ${folder.run.files.image ?? '(in memory)'}; ${folder.run.summary}.`,
+    sweepLines, recommendation, charts, summaries: summariseScorecard(result.scorecard),
+    tableMetrics: ['hitRate', 'falseClusters', 'rocAuc', 'dice', 'tsnrMedian', 'smoothnessFwhmMm'].filter((m) => result.scorecard.metrics.includes(m)),
+    methods, runLines, software: { boldsweep: record.software.boldsweep, node: record.software.node, 'vega-lite': record.software.dependencies['vega-lite'] ?? '' },
+  });
+  const files = { report: join(dir, 'report.html'), methods: join(dir, 'methods.md'), record: join(dir, 'decision-record.json') };
+  await writeFileAtomic(files.report, html);
+  await writeFileAtomic(files.methods, methodsMarkdown(methods, `Methods: ${settingLabel(recommendation.choice.chosen.setting)}`));
+  await writeFileAtomic(files.record, JSON.stringify(record, null, 1) + '\n');
+  return { recommendation, record, methods, charts, files };
+}

@@ -1,0 +1,184 @@
+import { makeVolume, voxelsPerVolume, type Volume } from '../core/volume.js';
+import { medianOf } from '../look/median-of.js';
+import { voxelTimeStats } from '../look/voxel-time-stats.js';
+import { contrastMaps } from '../model/contrast.js';
+import { buildDesign } from '../model/design.js';
+import { fitGlmAr1 } from '../model/glm-ar1.js';
+import { fitGlm } from '../model/glm-ols.js';
+import { estimateSmoothness } from '../model/smoothness.js';
+import { plantActivations, type PlantTruth } from '../simulate/plant.js';
+import { plantTimeCourse } from '../simulate/plant-time-course.js';
+import type { StepContext, StepNote } from '../steps/step-types.js';
+import { rocCurve } from './roc-curve.js';
+import { scoreDetection } from './score.js';
+import { DEFAULT_FPR_GRID, tprAtFpr } from './curve-table.js';
+import { applyThresholdRule } from './threshold-rule.js';
+import { runRecipeStep } from './recipe-step.js';
+import { readGroupStage, writeCachedCell, writeGroupStage, type GroupStage } from './stage-cache.js';
+import { fail } from '../core/fail.js';
+import type { CellPlan, CellGroup } from './plan.js';
+import type { CellResult, SweepContext, SweepTask } from './sweep-task.js';
+
+/*
+ * One task of a sweep, in a worker thread or in the main thread (same code, same bytes):
+ *
+ *   group stage: raw run -> plant (seeded) -> shared recipe steps     (once per task, or read from cache)
+ *   per cell:    group stage -> this setting's steps -> tSNR -> GLM -> contrast -> smoothness
+ *                -> threshold rule -> score against the planted truth -> ROC samples -> cache
+ *
+ * Memory: the group stage is dropped as soon as the first per-setting step has produced its output
+ * and is read back from the disk cache (or recomputed) for the next cell, so a worker holds at most
+ * two run-sized arrays at a time (a step's input and output, or the run and the GLM residuals).
+ */
+
+function sharedRunVolume(ctx: SweepContext): Volume {
+  const r = ctx.run;
+  return makeVolume({ dims: [...r.dims], spacingMm: [...r.spacingMm], trSec: r.trSec, affine: Float64Array.from(r.affine), data: r.data });
+}
+
+/**
+ * The truth of a planting with nothing planted (a null cell): an empty mask, so every surviving
+ * voxel is a false alarm.
+ */
+function emptyTruth(v: Volume, seed: number, nt: number): PlantTruth {
+  const n = voxelsPerVolume(v);
+  return {
+    dims: [v.dims[0], v.dims[1], v.dims[2]], affine: new Float64Array(v.affine), shape: { shape: 'gaussian', fwhmMm: 1 }, sizeMm: 0,
+    amplitudePct: 0, truthFraction: 0.5, seed, mask: new Uint8Array(n), profile: new Float32Array(n), timeCourse: new Float64Array(nt),
+    centresMm: [], centresVoxel: [], blobs: [],
+  };
+}
+
+/** Trial type the planted activation follows and the contrast tests. */
+function conditionOf(ctx: SweepContext, trialType: string | null): string {
+  if (trialType !== null) return trialType;
+  const types = [...new Set(ctx.events.map((e) => e.trialType))].sort();
+  if (types.length !== 1) fail('SPEC_INVALID', `the events have ${types.length} trial types (${types.join(', ')}): set model.trialType to the one to plant and test`);
+  return types[0];
+}
+
+/**
+ * Plant into the raw run and run the recipe steps shared by every setting.
+ * @param ctx - sweep context (shared run, masks, events)
+ * @param group - which planting
+ * @param trialType - condition to plant
+ * @returns the group stage
+ */
+async function computeGroupStage(ctx: SweepContext, group: CellGroup, trialType: string): Promise<GroupStage> {
+  const raw = sharedRunVolume(ctx);
+  const nt = raw.dims[3];
+  let volume: Volume;
+  let truth: PlantTruth;
+  if (group.plant.count > 0) {
+    const timeCourse = plantTimeCourse(ctx.events, nt, raw.trSec, { condition: trialType });
+    const size = group.plant.shape === 'gaussian' ? { fwhmMm: group.plant.sizeMm } : { radiusMm: group.plant.sizeMm / 2 };
+    ({ volume, truth } = plantActivations(raw, {
+      count: group.plant.count, shape: group.plant.shape, ...size, amplitudePct: group.plant.amplitudePct,
+      timeCourse, placementMask: ctx.placementMask, seed: group.plantSeed,
+    }));
+  } else {
+    volume = raw;
+    truth = emptyTruth(raw, group.plantSeed, nt);
+  }
+  let context: StepContext = { sidecar: ctx.sidecar, events: ctx.events, mask: ctx.brainMask };
+  const notes: StepNote[] = [];
+  for (const step of group.prefix) {
+    const r = await runRecipeStep(step, volume, context);
+    volume = r.volume;
+    context = r.context ?? context;
+    notes.push(r.note);
+  }
+  return { volume, truth, context, notes };
+}
+
+async function obtainStage(task: SweepTask, trialType: string): Promise<{ stage: GroupStage; how: CellResult['groupStage'] }> {
+  const ctx = task.context;
+  if (ctx.stageMode === 'disk' && ctx.cacheDir) {
+    const cached = readGroupStage(ctx.cacheDir, task.group.key);
+    if (cached) return { stage: cached, how: 'cached' };
+  }
+  const stage = await computeGroupStage(ctx, task.group, trialType);
+  if (ctx.stageMode === 'disk' && ctx.cacheDir) await writeGroupStage(ctx.cacheDir, task.group.key, stage);
+  return { stage, how: 'computed' };
+}
+
+const finite = (x: number): number | null => (Number.isFinite(x) ? x : null);
+
+/**
+ * Model, threshold and score one preprocessed run.
+ * @returns metrics, ROC samples
+ */
+function modelAndScore(volume: Volume, context: StepContext, truth: PlantTruth, ctx: SweepContext, cell: CellPlan, trialType: string): { metrics: Record<string, number | null>; tpr: number[] } {
+  const brain = ctx.brainMask;
+  const n = voxelsPerVolume(volume);
+  // tSNR of the data as the recipe left it (mean / SD over time after a quadratic drift)
+  const stats = voxelTimeStats(volume, { detrendOrder: 2 });
+  const inMask: number[] = [];
+  for (let v = 0; v < n; v++) if (brain[v] && Number.isFinite(stats.tsnr[v])) inMask.push(stats.tsnr[v]);
+  const tsnrMedian = inMask.length ? medianOf(inMask) : NaN;
+
+  const events = context.events ?? ctx.events;
+  const design = buildDesign(events, {
+    nt: volume.dims[3], trSec: volume.trSec,
+    drift: cell.model.highpassCutoffSec ? { kind: 'dct', cutoffSec: cell.model.highpassCutoffSec } : { kind: 'none' },
+  });
+  const fit = cell.model.ar1 ? fitGlmAr1(volume, design, { mask: brain, keepResiduals: true }) : fitGlm(volume, design, { mask: brain, keepResiduals: true });
+  const maps = contrastMaps(fit, { [trialType]: 1 }, { name: trialType });
+  const res = fit.residuals!;
+  const smooth = estimateSmoothness(res.data, res.dims, brain, volume.spacingMm, { dof: fit.dof });
+  fit.residuals = null;
+  const thr = applyThresholdRule(maps.t.data, brain, [volume.dims[0], volume.dims[1], volume.dims[2]], ctx.threshold, { kind: 't', dof: maps.dof }, smooth.fwhmMm, volume.spacingMm);
+  const score = scoreDetection({ statistic: maps.t, survivors: thr.survivors, truth, brainMask: brain, effectPct: maps.percentSignalChange, threshold: thr.threshold, thresholdMethod: thr.rule });
+  const tpr = score.truthVoxels > 0 ? (() => { const c = rocCurve(maps.t.data, truth.mask, brain); return tprAtFpr(c.fpr, c.tpr, DEFAULT_FPR_GRID); })() : [];
+  const [fx, fy, fz] = smooth.fwhmMm;
+  const metrics: Record<string, number | null> = {};
+  for (const [k, v] of Object.entries(score)) if (typeof v === 'number') metrics[k] = finite(v);
+  Object.assign(metrics, {
+    familyWiseError: score.falseClusters > 0 ? 1 : 0,
+    falseDiscoveryProportion: score.survivorVoxels > 0 ? score.falsePositiveVoxels / score.survivorVoxels : 0,
+    threshold: finite(thr.threshold), tsnrMedian: finite(tsnrMedian),
+    smoothnessFwhmMm: finite(Math.cbrt(fx * fy * fz)), smoothnessXMm: finite(fx), smoothnessYMm: finite(fy), smoothnessZMm: finite(fz), dof: maps.dof,
+  });
+  return { metrics, tpr };
+}
+
+/**
+ * Run one task: the group stage once (or from the cache), then every cell of the task. Each finished
+ * cell is written to the cache before the next starts, so an interrupted sweep loses at most the
+ * cells in progress.
+ * @param task - group, cells and shared context
+ * @param onCell - called after each cell (main-thread progress); workers count in `context.progress`
+ * @returns one result per cell, in the task's order
+ * @example const results = await runSweepTask(task)
+ */
+export async function runSweepTask(task: SweepTask, onCell?: (done: number) => void): Promise<CellResult[]> {
+  const ctx = task.context;
+  const trialType = conditionOf(ctx, task.cells[0]?.model.trialType ?? null);
+  const out: CellResult[] = [];
+  let held: GroupStage | null = null;
+  for (const cell of task.cells) {
+    const t0 = performance.now();
+    let how: CellResult['groupStage'] = 'memory';
+    let stage: GroupStage | null = held;
+    if (!stage) ({ stage, how } = await obtainStage(task, trialType));
+    let volume = stage.volume;
+    let context = stage.context;
+    const notes = [...stage.notes];
+    const truth = stage.truth;
+    held = ctx.stageMode === 'memory' ? stage : null;
+    stage = null;
+    for (const step of cell.suffix) {
+      const r = await runRecipeStep(step, volume, context);
+      volume = r.volume;
+      context = r.context ?? context;
+      notes.push(r.note);
+    }
+    const { metrics, tpr } = modelAndScore(volume, context, truth, ctx, cell, trialType);
+    const result: CellResult = { key: cell.key, metrics, tpr, notes, seconds: (performance.now() - t0) / 1000, groupStage: how };
+    if (ctx.cacheDir) await writeCachedCell(ctx.cacheDir, result);
+    out.push(result);
+    if (ctx.progress) Atomics.add(ctx.progress, task.index, 1);
+    onCell?.(out.length);
+  }
+  return out;
+}

@@ -1,0 +1,257 @@
+import { createHash } from 'node:crypto';
+import { fail } from '../core/fail.js';
+import { voxelsPerVolume, type Volume } from '../core/volume.js';
+import { createWorkerPool } from '../core/worker-pool.js';
+import type { BoldEvent, Sidecar } from '../io/run-types.js';
+import { brainMaskFromMean } from '../look/brain-mask.js';
+import { meanImage } from '../look/mean-image.js';
+import type { StepNote } from '../steps/step-types.js';
+import { runSweepTask } from './cell-pipeline.js';
+import { SCORECARD_METRICS } from './cell-metrics.js';
+import { DEFAULT_FPR_GRID, type CurveTable } from './curve-table.js';
+import { planSweep, type CellPlan, type SweepPlan } from './plan.js';
+import type { SweepProgress } from './progress.js';
+import type { Scorecard, ScorecardRow } from './scorecard.js';
+import { parseShard, shardCells, type Shard } from './shard.js';
+import { sharedBytes } from './shared-volume.js';
+import { parseSweepSpec } from './parse-sweep-spec.js';
+import type { SweepSpec, SweepSpecInput } from './spec.js';
+import { stableHash } from './stable-hash.js';
+import { readCachedCell, removeGroupStage } from './stage-cache.js';
+import type { CellResult, SweepContext, SweepTask } from './sweep-task.js';
+
+/*
+ * A sweep, phase by phase:
+ *   1. validate the spec (shape, step names, parameters)
+ *   2. masks and hashes of the inputs (run voxels, masks, events)
+ *   3. plan: groups (plant condition x repeat) and cells (group x setting); keep this shard's cells
+ *   4. take finished cells from the cache
+ *   5. tasks: the remaining cells of each group (split when there are fewer groups than workers)
+ *   6. run tasks on worker threads (or in this thread for workers = 1); each worker plants, runs the
+ *      shared steps once per task, then each setting's steps, the model and the scoring, and writes
+ *      every finished cell to the cache
+ *   7. assemble the scorecard in plan order (the same bytes for any number of workers or shards)
+ */
+
+/** The run a sweep works on: a Run from openRun fits. */
+export interface SweepRunInput {
+  volume: Volume;
+  events: BoldEvent[] | null;
+  sidecar: Sidecar | null;
+}
+
+/** Options of {@link runSweep}. */
+export interface SweepOptions {
+  /** Folder for the stage cache (resume after interruption, reuse across runs); null keeps nothing. __Default value:__ null */
+  cacheDir?: string | null;
+  /** Worker threads (1 runs in this thread). __Default value:__ the spec's `workers` */
+  workers?: number;
+  /** Run only this shard, "i/N" or { index, count }. __Default value:__ everything */
+  shard?: Shard | string | null;
+  /** Brain mask, one byte per voxel (1 = in). __Default value:__ Otsu mask of the mean image (look module) */
+  brainMask?: Uint8Array;
+  /** Where blobs may be centred (1 = allowed), e.g. grey matter. __Default value:__ the brain mask */
+  placementMask?: Uint8Array;
+  /** Called as cells finish. */
+  onProgress?: (p: SweepProgress) => void;
+  /** Keep group stages on disk after their cells are done. __Default value:__ false */
+  keepStages?: boolean;
+  /**
+   * Reuse each planting (and the steps before the varied one) across settings. false recomputes them
+   * for every cell: only useful to measure what reuse saves. __Default value:__ true
+   */
+  reuseStages?: boolean;
+}
+
+/** How a sweep ran. */
+export interface SweepStats {
+  cellsInPlan: number;
+  cellsRun: number;
+  cellsComputed: number;
+  cellsFromCache: number;
+  tasks: number;
+  workers: number;
+  wallSeconds: number;
+}
+
+/** Everything a sweep produced. */
+export interface SweepResult {
+  spec: SweepSpec;
+  plan: Pick<SweepPlan, 'settings' | 'plants' | 'splitAt' | 'sweepKey'>;
+  scorecard: Scorecard;
+  curves: CurveTable;
+  /** Step notes of one cell per setting (the first repeat run), in setting order. */
+  notes: Array<{ settingIndex: number; notes: StepNote[] }>;
+  inputs: { runHash: string; contextHash: string };
+  shard: Shard | null;
+  stats: SweepStats;
+}
+
+/**
+ * SHA-256 of a run's voxels and geometry: the identity of the input in cache keys and records.
+ * @param v - the run
+ * @returns hex digest
+ * @example volumeHash(run.volume)
+ */
+export function volumeHash(v: Volume): string {
+  const h = createHash('sha256');
+  h.update(JSON.stringify({ dims: v.dims, spacingMm: v.spacingMm, trSec: v.trSec, affine: Array.from(v.affine) }));
+  // hash in slices: a view of a SharedArrayBuffer cannot be passed to update() directly
+  const bytes = new Uint8Array(v.data.buffer, v.data.byteOffset, v.data.byteLength);
+  const step = 1 << 24;
+  for (let o = 0; o < bytes.byteLength; o += step) h.update(Buffer.from(bytes.slice(o, Math.min(bytes.byteLength, o + step))));
+  return h.digest('hex');
+}
+
+/**
+ * Run a sweep on one run: every setting of the spec's grid, on every planted condition, repeated
+ * with new blob positions, each modelled, thresholded and scored against the planted truth.
+ * @param run - the run (volume, events, sidecar); its data is never modified
+ * @param specInput - the sweep spec (validated here)
+ * @param options - cache folder, workers, shard, masks, progress callback
+ * @returns the scorecard, curves, step notes and statistics of the run
+ * @throws BoldsweepError SPEC_INVALID / UNKNOWN_STEP / UNKNOWN_PARAMETER for a bad spec; EVENTS_INVALID
+ *   when the run has no events; GRID_MISMATCH for masks of another size; others from the steps and model
+ * @example
+ * const result = await runSweep(run, defaultSmoothingSpec(), { cacheDir: 'out/cache', onProgress: lineProgress(console.log) })
+ * console.log(scorecardToTsv(result.scorecard))
+ */
+export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | SweepSpec, options: SweepOptions = {}): Promise<SweepResult> {
+  const t0 = performance.now();
+  // 1. spec
+  const spec = parseSweepSpec(specInput);
+  const workers = options.workers ?? spec.workers;
+  if (!Number.isInteger(workers) || workers < 1) fail('INVALID_ARGUMENT', `workers must be a positive integer, got ${workers}`);
+  const volume = run.volume;
+  if (volume.dims[3] < 2) fail('NOT_4D', `a sweep needs a 4D run, got ${volume.dims[3]} volume`);
+  if (!(volume.trSec > 0)) fail('TR_MISSING', 'the run has no repetition time');
+  const events = run.events;
+  if (!events || events.length === 0) fail('EVENTS_INVALID', 'a sweep needs the run\'s events (task timing) to plant activations and build the model; none were given');
+
+  // 2. masks and hashes
+  const n = voxelsPerVolume(volume);
+  const brainMask = options.brainMask ?? brainMaskFromMean(meanImage(volume), volume.dims.slice(0, 3)).mask;
+  const placementMask = options.placementMask ?? brainMask;
+  if (brainMask.length !== n) fail('GRID_MISMATCH', `brain mask has ${brainMask.length} voxels, the run has ${n} per volume`);
+  if (placementMask.length !== n) fail('GRID_MISMATCH', `placement mask has ${placementMask.length} voxels, the run has ${n} per volume`);
+  const runHash = volumeHash(volume);
+  const contextHash = stableHash({ brain: createHash('sha256').update(brainMask).digest('hex'), placement: createHash('sha256').update(placementMask).digest('hex'), events });
+
+  // 3. plan and shard
+  const plan = planSweep(spec, { runHash, contextHash });
+  const shard = options.shard ? (typeof options.shard === 'string' ? parseShard(options.shard) : options.shard) : null;
+  const mine = shard ? shardCells(plan, shard) : plan.cells.map((c) => c.index);
+
+  // 4. cache
+  const cacheDir = options.cacheDir ?? null;
+  const results = new Map<number, CellResult>();
+  let fromCache = 0;
+  if (cacheDir) {
+    for (const i of mine) {
+      const r = readCachedCell(cacheDir, plan.cells[i].key);
+      if (r) { results.set(i, r); fromCache++; }
+    }
+  }
+
+  // 5. tasks
+  const todo = new Map<number, CellPlan[]>();
+  for (const i of mine) {
+    if (results.has(i)) continue;
+    const c = plan.cells[i];
+    const list = todo.get(c.group) ?? [];
+    list.push(c);
+    todo.set(c.group, list);
+  }
+  const groupsTodo = [...todo.keys()];
+  const split = Math.max(1, Math.ceil((2 * workers) / Math.max(1, groupsTodo.length)));
+  const taskCells: Array<{ group: number; cells: CellPlan[] }> = [];
+  for (const g of groupsTodo) {
+    const cells = todo.get(g)!;
+    const k = Math.min(split, cells.length);
+    for (let j = 0; j < k; j++) taskCells.push({ group: g, cells: cells.filter((_, m) => m % k === j) });
+  }
+  const splitGroups = new Set(taskCells.filter((t, i, all) => all.findIndex((u) => u.group === t.group) !== i).map((t) => t.group));
+  const useThreads = workers > 1 && taskCells.length > 1;
+  const progress = new Int32Array(useThreads ? new SharedArrayBuffer(4 * Math.max(1, taskCells.length)) : new ArrayBuffer(4 * Math.max(1, taskCells.length)));
+  const baseContext = (stageMode: SweepContext['stageMode']): SweepContext => ({
+    run: { dims: [...volume.dims], spacingMm: [...volume.spacingMm], trSec: volume.trSec, affine: Array.from(volume.affine), data: volume.data },
+    brainMask: useThreads ? sharedBytes(brainMask) : brainMask,
+    placementMask: useThreads ? sharedBytes(placementMask) : placementMask,
+    events, sidecar: run.sidecar, threshold: spec.threshold, cacheDir, stageMode, progress,
+  });
+  const reuse = options.reuseStages ?? true;
+  const ctxPlain = baseContext(reuse ? 'memory' : 'none');
+  const ctxDisk: SweepContext = { ...ctxPlain, stageMode: 'disk' };
+  const tasks: SweepTask[] = taskCells.map((t, i) => ({
+    index: i, group: plan.groups[t.group], cells: t.cells,
+    // a group stage goes to disk when other tasks (or a resumed sweep) can reuse it
+    context: reuse && cacheDir && (splitGroups.has(t.group) || plan.splitAt > 0) ? ctxDisk : ctxPlain,
+  }));
+
+  // 6. run
+  const total = mine.length;
+  let computed = 0;
+  const report = () => {
+    if (!options.onProgress) return;
+    let done = 0;
+    for (let i = 0; i < progress.length; i++) done += Atomics.load(progress, i);
+    done = Math.min(done, total - fromCache);
+    const elapsedSec = (performance.now() - t0) / 1000;
+    const rate = done > 0 ? elapsedSec / done : NaN;
+    options.onProgress({ done: done + fromCache, total, fromCache, elapsedSec, etaSec: rate * (total - fromCache - done) });
+  };
+  report();
+  const keep = (out: CellResult[], task: SweepTask) => {
+    task.cells.forEach((c, j) => results.set(c.index, out[j]));
+    computed += out.length;
+  };
+  const groupTasksLeft = new Map<number, number>();
+  for (const t of tasks) groupTasksLeft.set(t.group.index, (groupTasksLeft.get(t.group.index) ?? 0) + 1);
+  const finishGroup = (t: SweepTask) => {
+    const left = (groupTasksLeft.get(t.group.index) ?? 1) - 1;
+    groupTasksLeft.set(t.group.index, left);
+    if (left === 0 && cacheDir && !options.keepStages) removeGroupStage(cacheDir, t.group.key);
+  };
+  if (!useThreads) {
+    for (const t of tasks) {
+      keep(await runSweepTask(t, () => report()), t);
+      finishGroup(t);
+    }
+  } else {
+    const pool = createWorkerPool<SweepTask, CellResult[]>(new URL('./sweep-worker.js', import.meta.url), { size: Math.min(workers, tasks.length) });
+    const timer = setInterval(report, 250);
+    try {
+      await Promise.all(tasks.map((t) => pool.run(t).then((out) => { keep(out, t); finishGroup(t); report(); })));
+    } finally {
+      clearInterval(timer);
+      await pool.close();
+    }
+  }
+  report();
+
+  // 7. scorecard
+  const rows: ScorecardRow[] = [];
+  const seconds: number[] = [];
+  const curves: CurveTable = { fprGrid: [...DEFAULT_FPR_GRID], rows: [] };
+  const notes = new Map<number, StepNote[]>();
+  for (const i of [...mine].sort((a, b) => a - b)) {
+    const c = plan.cells[i];
+    const g = plan.groups[c.group];
+    const r = results.get(i)!;
+    const row: ScorecardRow = { cell: c.index, group: g.index, settingIndex: c.settingIndex };
+    for (const k of Object.keys(spec.vary)) row[k] = c.setting[k];
+    Object.assign(row, { plantShape: g.plant.shape, plantSizeMm: g.plant.sizeMm, plantAmplitudePct: g.plant.amplitudePct, plantCount: g.plant.count, repeat: g.repeat, plantSeed: g.plantSeed });
+    for (const m of SCORECARD_METRICS) row[m] = r.metrics[m] ?? null;
+    rows.push(row);
+    seconds.push(r.seconds);
+    if (r.tpr.length) curves.rows.push({ cell: c.index, tpr: r.tpr });
+    if (!notes.has(c.settingIndex)) notes.set(c.settingIndex, r.notes);
+  }
+  const scorecard: Scorecard = { sweepKey: plan.sweepKey, varied: Object.keys(spec.vary), metrics: [...SCORECARD_METRICS], rows, seconds };
+  return {
+    spec, plan: { settings: plan.settings, plants: plan.plants, splitAt: plan.splitAt, sweepKey: plan.sweepKey }, scorecard, curves,
+    notes: [...notes.entries()].sort((a, b) => a[0] - b[0]).map(([settingIndex, ns]) => ({ settingIndex, notes: ns })),
+    inputs: { runHash, contextHash }, shard,
+    stats: { cellsInPlan: plan.cells.length, cellsRun: total, cellsComputed: computed, cellsFromCache: fromCache, tasks: tasks.length, workers: useThreads ? Math.min(workers, tasks.length) : 1, wallSeconds: (performance.now() - t0) / 1000 },
+  };
+}

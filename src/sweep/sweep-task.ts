@@ -1,0 +1,61 @@
+import type { StepNote } from '../steps/step-types.js';
+import type { BoldEvent, Sidecar } from '../io/run-types.js';
+import type { CellGroup, CellPlan } from './plan.js';
+import type { SweepSpec } from './spec.js';
+
+/** The run as shared with workers: geometry plus voxel data on a SharedArrayBuffer (never copied). */
+export interface SharedRun {
+  dims: [number, number, number, number];
+  spacingMm: [number, number, number];
+  trSec: number;
+  affine: number[];
+  /** Voxel data; a view on a SharedArrayBuffer when workers are used. */
+  data: Float32Array;
+}
+
+/** What every task of a sweep shares. */
+export interface SweepContext {
+  run: SharedRun;
+  /** Brain mask (1 = in), one byte per voxel: scoring and statistics are inside it. */
+  brainMask: Uint8Array;
+  /** Where planted blobs may be centred (1 = allowed). */
+  placementMask: Uint8Array;
+  events: BoldEvent[];
+  sidecar: Sidecar | null;
+  threshold: SweepSpec['threshold'];
+  /** Folder of the stage cache, or null to keep nothing on disk. */
+  cacheDir: string | null;
+  /**
+   * How a task reuses its group stage (the planted run after the shared steps) across its cells:
+   * 'disk' writes it to the cache and reads it back for each cell (other tasks and resumed sweeps
+   * reuse it too; one run less in memory); 'memory' holds it between cells; 'none' recomputes it
+   * for every cell (the no-cache baseline of the benchmark).
+   */
+  stageMode: 'disk' | 'memory' | 'none';
+  /** Per-task progress counters (cells done), shared with the main thread; index = task index. */
+  progress: Int32Array | null;
+}
+
+/** One task: some cells of one group (usually all of them). */
+export interface SweepTask {
+  index: number;
+  group: CellGroup;
+  cells: CellPlan[];
+  context: SweepContext;
+}
+
+/** What one cell produced. */
+export interface CellResult {
+  /** Cache key of the cell. */
+  key: string;
+  /** Metric column -> value (NaN written as null). */
+  metrics: Record<string, number | null>;
+  /** True-positive rate at each false-positive rate of DEFAULT_FPR_GRID (empty when nothing was planted). */
+  tpr: number[];
+  /** Notes of every step the cell ran (shared steps first). */
+  notes: StepNote[];
+  /** Seconds the cell took (its share of the group stage included). */
+  seconds: number;
+  /** Whether the group stage was computed, read from the stage cache or reused in memory. */
+  groupStage: 'computed' | 'cached' | 'memory';
+}

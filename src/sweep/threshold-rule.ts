@@ -1,0 +1,30 @@
+import { thresholdBonferroni } from '../model/threshold-bonferroni.js';
+import { thresholdClusterExtent } from '../model/threshold-cluster.js';
+import { thresholdFdr } from '../model/threshold-fdr.js';
+import type { StatMap } from '../model/threshold-input.js';
+import { thresholdRft } from '../model/threshold-rft.js';
+import type { StatisticKind } from '../model/threshold-statistic.js';
+import { thresholdUncorrected } from '../model/threshold-uncorrected.js';
+import type { ThresholdRule } from './spec.js';
+
+/**
+ * Apply a sweep's threshold rule to a statistic map with the model module's threshold functions.
+ * @param map - statistic map (t or z)
+ * @param mask - search region (brain mask)
+ * @param dims - [nx, ny, nz]
+ * @param rule - the spec's rule
+ * @param stat - null distribution of the map
+ * @param fwhmMm - estimated smoothness per axis (for random-field rules)
+ * @param spacingMm - voxel size
+ * @returns the rule name, statistic threshold and survivors
+ * @example applyThresholdRule(t, brain, [64, 64, 36], { kind: 'fwe-rft', alpha: 0.05, q: 0.05, clusterFormingP: 0.001 }, { kind: 't', dof: 190 }, [8, 8, 8], [3, 3, 3])
+ */
+export function applyThresholdRule(map: StatMap, mask: Uint8Array, dims: readonly number[], rule: ThresholdRule, stat: StatisticKind, fwhmMm: readonly number[], spacingMm: readonly number[]): { rule: string; threshold: number; survivors: Uint8Array } {
+  switch (rule.kind) {
+    case 'fwe-rft': return thresholdRft(map, mask, dims, { alpha: rule.alpha, stat, fwhmMm, spacingMm });
+    case 'fdr': return thresholdFdr(map, mask, { q: rule.q, stat });
+    case 'bonferroni': return thresholdBonferroni(map, mask, { alpha: rule.alpha, stat });
+    case 'uncorrected': return thresholdUncorrected(map, mask, { alpha: rule.alpha, stat });
+    case 'cluster': return thresholdClusterExtent(map, mask, dims, { alpha: rule.alpha, stat, fwhmMm, spacingMm, formingP: rule.clusterFormingP });
+  }
+}
