@@ -96,35 +96,39 @@ export function estimateSmoothness(
   if (method !== 'derivative-variance' && method !== 'lag1-autocorrelation') fail('INVALID_ARGUMENT', `method must be 'derivative-variance' or 'lag1-autocorrelation', got ${String(method)}`);
 
   // 1. per-voxel inverse norm (0 = not used)
-  const inMask: number[] = [];
-  for (let v = 0; v < n; v++) if (mask[v]) inMask.push(v);
+  let count = 0;
+  for (let v = 0; v < n; v++) if (mask[v]) count++;
+  const inMask = new Int32Array(count);
+  for (let v = 0, j = 0; v < n; v++) if (mask[v]) inMask[j++] = v;
   const sumSq = new Float64Array(n);
   for (let t = 0; t < nt; t++) {
     const base = t * n;
-    for (const v of inMask) { const r = residuals[base + v]; sumSq[v] += r * r; }
+    for (let j = 0; j < count; j++) { const v = inMask[j]; const r = residuals[base + v]; sumSq[v] += r * r; }
   }
   const invNorm = new Float64Array(n);
   let bad = 0, constantVoxels = 0;
-  for (const v of inMask) {
-    const s = sumSq[v];
+  for (let j = 0; j < count; j++) {
+    const v = inMask[j], s = sumSq[v];
     if (!Number.isFinite(s)) bad++;
     else if (s === 0) constantVoxels++;
     else invNorm[v] = 1 / Math.sqrt(s);
   }
   if (bad > 0) fail('NON_FINITE_VOXELS', `residuals hold non-finite values in ${bad} in-mask voxels`, { details: { count: bad } });
 
-  // 2. neighbour pairs per axis: voxel v and v + stride both used
-  const strides = [1, nx, nx * ny];
-  const sizes = [nx, ny, nz];
-  const pairStarts = strides.map((stride, axis) => {
-    const list: number[] = [];
-    for (const v of inMask) {
-      if (invNorm[v] === 0) continue;
-      const coord = axis === 0 ? v % nx : axis === 1 ? Math.floor(v / nx) % ny : Math.floor(v / (nx * ny));
-      if (coord + 1 < sizes[axis] && invNorm[v + stride] !== 0) list.push(v);
+  // 2. neighbour pairs per axis (voxel v and v + stride both used), then the pooled squared differences
+  const strides = [1, nx, nx * ny] as const;
+  const lists: number[][] = [[], [], []];
+  for (let z = 0; z < nz; z++) {
+    for (let y = 0; y < ny; y++) {
+      for (let x = 0, v = nx * (y + ny * z); x < nx; x++, v++) {
+        if (invNorm[v] === 0) continue;
+        if (x + 1 < nx && invNorm[v + 1] !== 0) lists[0].push(v);
+        if (y + 1 < ny && invNorm[v + nx] !== 0) lists[1].push(v);
+        if (z + 1 < nz && invNorm[v + nx * ny] !== 0) lists[2].push(v);
+      }
     }
-    return Int32Array.from(list);
-  });
+  }
+  const pairStarts = lists.map((l) => Int32Array.from(l));
   pairStarts.forEach((list, axis) => {
     if (list.length === 0) fail('INVALID_ARGUMENT', `no in-mask neighbour pairs along axis ${'xyz'[axis]}, so smoothness along it cannot be estimated`);
   });
@@ -132,7 +136,7 @@ export function estimateSmoothness(
   const u = new Float64Array(n);
   for (let t = 0; t < nt; t++) {
     const base = t * n;
-    for (const v of inMask) u[v] = residuals[base + v] * invNorm[v];
+    for (let j = 0; j < count; j++) { const v = inMask[j]; u[v] = residuals[base + v] * invNorm[v]; }
     for (let axis = 0; axis < 3; axis++) {
       const list = pairStarts[axis], stride = strides[axis];
       let acc = 0;
@@ -157,7 +161,7 @@ export function estimateSmoothness(
     dof,
     dofCorrection,
     pairs: [pairStarts[0].length, pairStarts[1].length, pairStarts[2].length],
-    voxelsUsed: inMask.length - constantVoxels,
+    voxelsUsed: count - constantVoxels,
     constantVoxels,
   };
 }

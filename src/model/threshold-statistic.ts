@@ -1,3 +1,4 @@
+import gammaln from '@stdlib/math-base-special-gammaln';
 import normalCdf from '@stdlib/stats-base-dists-normal-cdf';
 import normalQuantile from '@stdlib/stats-base-dists-normal-quantile';
 import tCdf from '@stdlib/stats-base-dists-t-cdf';
@@ -45,5 +46,20 @@ export function upperTailP(value: number, stat: StatisticKind): number {
  * @example upperCriticalValue(0.05, { kind: 'z' }) // 1.6448536 (scipy norm.isf(.05))
  */
 export function upperCriticalValue(p: number, stat: StatisticKind): number {
-  return stat.kind === 'z' ? -normalQuantile(p, 0, 1) : -tQuantile(p, stat.dof);
+  let u = stat.kind === 'z' ? -normalQuantile(p, 0, 1) : -tQuantile(p, stat.dof);
+  // stdlib's quantiles lose digits far in the tail (the normal one goes through erfinv(2p - 1): 4e-7
+  // relative at p = 1e-12; the t one 2e-9 at p = 1e-6). Two Newton steps on P(S >= u) = p, whose tail
+  // upperTailP computes to full precision, restore them; Newton converges quadratically from that close.
+  for (let i = 0; i < 2 && Number.isFinite(u) && p > 0 && p < 1; i++) {
+    const density = nullDensity(u, stat);
+    if (density > 0) u += (upperTailP(u, stat) - p) / density;
+  }
+  return u;
+}
+
+/** Null probability density at u (standard normal, or Student t with stat.dof). */
+function nullDensity(u: number, stat: StatisticKind): number {
+  if (stat.kind === 'z') return Math.exp(-0.5 * u * u) / Math.sqrt(2 * Math.PI);
+  const nu = stat.dof;
+  return Math.exp(gammaln((nu + 1) / 2) - gammaln(nu / 2) - 0.5 * Math.log(nu * Math.PI) - ((nu + 1) / 2) * Math.log1p((u * u) / nu));
 }

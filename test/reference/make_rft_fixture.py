@@ -122,6 +122,12 @@ for resels, S in [([1.0, 30.0, 300.0, 1000.0], 125000), ([1.0, 12.0, 50.0, 70.0]
                                    "expectedClusters": Em, "expectedVoxels": float(EN), "beta": beta,
                                    "k05": k, "pAt": [[kk, pmax(kk)] for kk in [1, 10, 50, 200]]})
 
+# 5. tail probabilities and critical values (for src/model/threshold-statistic.ts)
+out["tails"] = {"zSf": [[u, float(stats.norm.sf(u))] for u in [1.0, 3.0, 5.0, 8.0, 12.0]],
+                "zIsf": [[p, float(stats.norm.isf(p))] for p in [0.05, 0.001, 1e-6, 1e-12]],
+                "tSf": [[u, nu, float(stats.t.sf(u, nu))] for u, nu in [(2, 10), (3, 20), (6, 40), (10, 100)]],
+                "tIsf": [[p, nu, float(stats.t.isf(p, nu))] for p, nu in [(0.001, 20), (1e-6, 40), (0.05, 5)]]}
+
 path = os.path.join(os.path.dirname(os.path.abspath(__file__)), "rft_fixture.json")
 with open(path + ".tmp", "w") as f:
     json.dump(out, f, indent=1)
