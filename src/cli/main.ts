@@ -5,12 +5,15 @@
  */
 import { Command } from 'commander';
 import { isBoldsweepError } from '../core/errors.js';
+import { registerLook } from './look-command.js';
 
 const program = new Command();
 program
   .name('boldsweep')
   .description('Choose fMRI preprocessing parameters from evidence in your own run.')
   .showHelpAfterError();
+
+registerLook(program);
 
 
 program.parseAsync(process.argv).catch((e: unknown) => {

@@ -15,6 +15,8 @@ export { maskSeries, type MaskSeries } from './mask-series.js';
 export { dvarsNullExpectation, standardisedDvars } from './standardised-dvars.js';
 export { steadyStateExcess, steadyStateModelCount, GREY_MATTER_T1_SEC_3T, type SteadyStateParams } from './steady-state-model.js';
 export { steadyStateOnset, type SteadyStateOnset } from './steady-state-onset.js';
+export { steadyStateFromFirstVolume, type PerVoxelSteadyState } from './steady-state-per-voxel.js';
+export { trimmedDvars } from './trimmed-dvars.js';
 export { volumeOutliers, type VolumeOutliers, type VolumeOutlier } from './volume-outliers.js';
 export { sliceOutliers, type SliceOutliers, type SliceOutlier } from './slice-outliers.js';
 export { voxelSpikes, type VoxelSpike } from './voxel-spikes.js';

@@ -11,6 +11,8 @@ import { sliceOutliers, type SliceOutliers } from './slice-outliers.js';
 import { dvarsNullExpectation, standardisedDvars } from './standardised-dvars.js';
 import { GREY_MATTER_T1_SEC_3T, steadyStateExcess, steadyStateModelCount } from './steady-state-model.js';
 import { steadyStateOnset, type SteadyStateOnset } from './steady-state-onset.js';
+import { steadyStateFromFirstVolume, type PerVoxelSteadyState } from './steady-state-per-voxel.js';
+import { trimmedDvars } from './trimmed-dvars.js';
 import { volumeOutliers, type VolumeOutliers } from './volume-outliers.js';
 import { voxelSpikes, type VoxelSpike } from './voxel-spikes.js';
 import { voxelTimeStats } from './voxel-time-stats.js';
@@ -76,7 +78,11 @@ export interface LookResult {
     /** Closed-form count at the same relative threshold, when TR and flip angle are known. */
     modelCount: number | null;
     model: { trSec: number; flipAngleDeg: number; t1Sec: number; t1Source: string; relativeThreshold: number; excessFirstVolume: number } | null;
+    /** The same approach fitted per voxel to the first volume (each voxel's own T1), 1 % rule, 99 % of mask voxels. */
+    perVoxel: PerVoxelSteadyState | null;
   };
+  /** DVARS-flagged volumes whose DVARS falls below the cutoff once a few voxels are left out: spikes, not whole-volume events. */
+  dvarsFromFewVoxels: Array<{ volume: number; dvarsZ: number; trimmedDvarsZ: number; voxels: number[] }>;
   volumeOutliers: VolumeOutliers;
   sliceOutliers: SliceOutliers;
   /** Every spike found in the kept, uncensored volumes. */
@@ -163,8 +169,20 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
       relativeThreshold, excessFirstVolume: steadyStateExcess(1, params),
     };
   }
+  let perVoxel: PerVoxelSteadyState | null = null;
+  if (trSec > 0 && flip !== undefined && flip > 0) {
+    // steady mean without the first few volumes, so their excess does not bias the reference
+    const h = Math.min(5, Math.floor(nt / 10));
+    const late = new Float64Array(n);
+    for (let v = 0; v < n; v++) {
+      let s = meanAll[v] * nt;
+      for (let t = 0; t < h; t++) s -= run.data[t * n + v];
+      late[v] = s / (nt - h);
+    }
+    perVoxel = steadyStateFromFirstVolume(run.data.subarray(0, n), late, mask.mask, { trSec, flipAngleDeg: flip });
+  }
   const auto = options.dropInitialVolumes === undefined || options.dropInitialVolumes === 'auto';
-  const drop = auto ? Math.max(onset.count, modelCount ?? 0) : (options.dropInitialVolumes as number);
+  const drop = auto ? Math.max(onset.count, perVoxel?.count ?? 0) : (options.dropInitialVolumes as number);
   if (!Number.isInteger(drop) || drop < 0 || nt - drop < LOOK_MIN_VOLUMES) {
     fail(auto ? 'TOO_FEW_VOLUMES' : 'INVALID_ARGUMENT', `dropping ${drop} initial volumes leaves ${nt - drop}; a look needs ${LOOK_MIN_VOLUMES}`);
   }
@@ -172,6 +190,20 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
   // 4. volume and slice outliers from the traces alone: their volumes stay out of the maps below
   const vol = volumeOutliers(traces.dvars, traces.globalMean, { firstVolume: drop, cutoffZ: volumeCutoffZ, detrendOrder });
   const sl = sliceOutliers(traces.sliceMean, nz, nt, { firstVolume: drop, cutoffZ: sliceCutoffZ, detrendOrder });
+  // a DVARS flag that disappears when the few most-changed voxels are left out is a voxel spike (it
+  // is found as such below), not a reason to censor the whole volume
+  const trimK = Math.max(10, Math.round(0.0005 * mask.voxels));
+  const dvarsFromFewVoxels: LookResult['dvarsFromFewVoxels'] = [];
+  if (mask.voxels > 4 * trimK && vol.dvarsScale > 0) {
+    vol.flagged = vol.flagged.filter((f) => {
+      if (f.reasons.length !== 1 || f.reasons[0] !== 'dvars-high') return true;
+      const trimmed = trimmedDvars(run, mask.mask, f.volume, trimK);
+      const trimmedZ = (trimmed.dvars - vol.dvarsMedian) / vol.dvarsScale;
+      if (trimmedZ > volumeCutoffZ) return true;
+      dvarsFromFewVoxels.push({ volume: f.volume, dvarsZ: f.dvarsZ, trimmedDvarsZ: trimmedZ, voxels: trimmed.left });
+      return false;
+    });
+  }
   const censor = new Set<number>();
   for (const f of vol.flagged) censor.add(f.volume);
   for (const f of sl.flagged) censor.add(f.volume);
@@ -214,7 +246,7 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
   // 6. findings
   const findings: Finding[] = [];
   if (nonFiniteCount > 0) findings.push(nonFiniteFinding(nonFinite, [nx, ny, nz]));
-  if (drop > 0) findings.push(steadyFinding(drop, auto, onset, modelCount, model, traces.globalMean));
+  if (drop > 0) findings.push(steadyFinding(drop, auto, onset, modelCount, model, perVoxel, traces.globalMean));
   findings.push(...volumeFindings(vol, traces.dvars, dvarsStd, traces.globalMean));
   findings.push(...sliceFindings(sl));
   const explainedVolume = new Set(sl.wholeVolumeEvents);
@@ -235,7 +267,8 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
       globalMean: traces.globalMean, dvars: traces.dvars, dvarsPercent, dvarsStandardised: dvarsStd, dvarsNullExpectation: nullE,
       sliceMean: traces.sliceMean, sliceZ: sl.z, dvarsZ: vol.dvarsZ, globalZ: vol.globalZ,
     },
-    steadyState: { dataCount: onset.count, onset, modelCount, model },
+    steadyState: { dataCount: onset.count, onset, modelCount, model, perVoxel },
+    dvarsFromFewVoxels,
     volumeOutliers: vol, sliceOutliers: sl, spikes,
     findings, verdicts: findings.map((f) => f.verdict),
     recommendation: { dropInitialVolumes: drop, censorVolumes, why },
@@ -260,7 +293,7 @@ function nonFiniteFinding(nonFinite: Uint8Array, dims: [number, number, number])
   };
 }
 
-function steadyFinding(drop: number, auto: boolean, onset: SteadyStateOnset, modelCount: number | null, model: LookResult['steadyState']['model'], g: Float64Array): Finding {
+function steadyFinding(drop: number, auto: boolean, onset: SteadyStateOnset, modelCount: number | null, model: LookResult['steadyState']['model'], perVoxel: PerVoxelSteadyState | null, g: Float64Array): Finding {
   const volumes = Array.from({ length: drop }, (_, i) => i);
   const excessPercent = volumes.map((t) => (100 * (g[t] - onset.level[t])) / onset.level[t]);
   const evidence: Finding['evidence'] = {
@@ -269,10 +302,13 @@ function steadyFinding(drop: number, auto: boolean, onset: SteadyStateOnset, mod
     referenceVolumes: `${onset.reference[0]}-${onset.reference[1] - 1}`,
   };
   if (model) Object.assign(evidence, { modelCount: modelCount ?? 0, trSec: model.trSec, flipAngleDeg: model.flipAngleDeg, t1Sec: model.t1Sec, t1Source: model.t1Source, relativeThreshold: model.relativeThreshold });
-  const modelText = model ? `; the spoiled-gradient-echo model (TR ${model.trSec} s, flip ${model.flipAngleDeg} deg, T1 ${model.t1Sec} s) predicts ${modelCount} above the same threshold` : '; no flip angle known, so no model check';
+  if (perVoxel) Object.assign(evidence, { perVoxelCount: perVoxel.count, perVoxelMedianT1Sec: round(perVoxel.medianT1Sec, 3), perVoxelFractionNeeding: perVoxel.fractionNeeding.map((f) => round(f, 4)) });
+  const modelText = model
+    ? `; the spoiled-gradient-echo approach (TR ${model.trSec} s, flip ${model.flipAngleDeg} deg) predicts ${modelCount} above the same threshold for grey matter (T1 ${model.t1Sec} s), and ${perVoxel?.count ?? 0} to bring ${Math.round(100 * (perVoxel?.coverage ?? 0.99))} % of brain voxels within 1 % when each voxel's T1 is fitted to its first-volume excess (median ${perVoxel ? perVoxel.medianT1Sec.toFixed(2) : '?'} s)`
+    : '; no flip angle known, so no model check';
   return {
     kind: 'non-steady-start', volumes, slices: [], voxels: [], evidence,
-    reason: `${auto ? `the first ${onset.count} volumes' global mean lies more than ${onset.cutoffZ} robust SDs above the steady level (${excessPercent.map((e) => signed(e, 2) + ' %').join(', ')})${modelText}` : `${drop} volumes dropped as requested (data count ${onset.count})`}`,
+    reason: `${auto ? `the global mean of the first ${onset.count} volumes lies more than ${onset.cutoffZ} robust SDs above the steady level (volumes 0-${drop - 1}: ${excessPercent.map((e) => signed(e, 2) + ' %').join(', ')})${modelText}` : `${drop} volumes dropped as requested (data count ${onset.count})`}`,
     advice: FINDING_ADVICE['non-steady-start'],
     verdict: `${drop} volume${drop === 1 ? '' : 's'} brighter than steady state: drop ${drop === 1 ? 'it' : 'them'}`,
   };

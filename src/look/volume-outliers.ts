@@ -22,6 +22,9 @@ export interface VolumeOutliers {
   globalZ: Float64Array;
   flagged: VolumeOutlier[];
   cutoffZ: number;
+  /** Median and robust SD of DVARS over the assessed volumes (signal units), to score other DVARS values. */
+  dvarsMedian: number;
+  dvarsScale: number;
 }
 
 /**
@@ -47,7 +50,8 @@ export function volumeOutliers(dvars: ArrayLike<number>, globalMean: ArrayLike<n
   const dvarsZ = new Float64Array(nt).fill(NaN);
   const globalZ = new Float64Array(nt).fill(NaN);
   const d = Float64Array.from({ length: nt - first - 1 }, (_, i) => dvars[first + 1 + i]);
-  robustZ(d).z.forEach((z, i) => { dvarsZ[first + 1 + i] = z; });
+  const dz = robustZ(d);
+  dz.z.forEach((z, i) => { dvarsZ[first + 1 + i] = z; });
   const g = Float64Array.from({ length: nt - first }, (_, i) => globalMean[first + i]);
   const gOrder = Math.min(order, g.length - 2);
   const resid = detrendSeries(g, orthonormalDrift(g.length, gOrder));
@@ -60,5 +64,5 @@ export function volumeOutliers(dvars: ArrayLike<number>, globalMean: ArrayLike<n
     if (globalZ[t] < -cutoffZ) reasons.push('global-low');
     if (reasons.length) flagged.push({ volume: t, dvarsZ: dvarsZ[t], globalZ: globalZ[t], reasons });
   }
-  return { dvarsZ, globalZ, flagged, cutoffZ };
+  return { dvarsZ, globalZ, flagged, cutoffZ, dvarsMedian: dz.median, dvarsScale: dz.scale };
 }
