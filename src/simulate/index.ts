@@ -5,3 +5,24 @@ export { blobProfile, blobWeight, blobSizeMm, blobSupportMm, checkBlobShape } fr
 export type { BlobShapeSpec, SparseProfile } from './plant-profile.js';
 export { placeCentres, interiorVoxels } from './plant-placement.js';
 export type { PlacementOptions } from './plant-placement.js';
+// digital phantom
+export { simulatePhantomRun } from './simulate-phantom-run.js';
+export { writePhantomRun, type PhantomRunFiles } from './write-phantom-run.js';
+export { defaultPhantomSpec, demoPhantomSpec, resolvePhantomSpec } from './phantom-spec.js';
+export type {
+  PhantomSpec, PhantomSpecInput, PhantomAcquisition, PhantomActivation, PhantomPhysio, PhantomDrift, PhantomSmoothNoise,
+  PhantomB0, PhantomSpikeSpec, PhantomDropoutSpec,
+} from './phantom-spec.js';
+export type { PhantomRun, PhantomTruth, PhantomSpike, TissueSteadyState } from './phantom-types.js';
+export { headAnatomy, headClassifier, DEFAULT_HEAD_GEOMETRY, type HeadGeometry, type HeadAnatomy, type Ellipsoid } from './head-anatomy.js';
+export { PHANTOM_TISSUES, TISSUE_LABEL, DEFAULT_TISSUE_PROPERTIES, type PhantomTissue, type TissueProperties } from './tissue-properties.js';
+export { spoiledGreSignal, mzBeforePulse, ernstAngleDeg, type GreTiming, type SpoiledGreSignal } from './spoiled-gre-signal.js';
+export { totalReadoutTimeSec, fieldMapShiftVoxels, distortAlongAxis } from './field-map-shift.js';
+export { sphereFieldMapHz, PROTON_HZ_PER_TESLA, type AirSphere } from './sphere-field-map-hz.js';
+export { intravoxelDephasing } from './intravoxel-dephasing.js';
+export { interleavedSliceTiming } from './interleaved-slice-timing.js';
+export { blockDesignEvents, type BlockDesign } from './block-design-events.js';
+export { blockResponseAt } from './block-response-at.js';
+export { physioTraces, type PhysioRates, type PhysioTraces } from './physio-traces.js';
+export { smoothGaussianField } from './smooth-gaussian-field.js';
+export { rigidMotionAffine, simulatedMotionTable, type MotionRow, type MotionJerk, type MotionSpec } from './rigid-motion.js';

@@ -1,0 +1,33 @@
+/**
+ * Writes the demo run (an invented digital phantom) into a folder:
+ *   node dist/scripts/make-demo-data.js data-demo
+ * The output is byte-for-byte reproducible: test/simulate/demo-data.test.ts regenerates it and
+ * compares every file with the committed data-demo/.
+ */
+import { statSync } from 'node:fs';
+import { demoPhantomSpec } from '../src/simulate/phantom-spec.js';
+import { simulatePhantomRun } from '../src/simulate/simulate-phantom-run.js';
+import { writePhantomRun } from '../src/simulate/write-phantom-run.js';
+
+/** File name stem of the demo run (BIDS-like: subject and task entities). */
+export const DEMO_BASE_NAME = 'sub-phantom01_task-flicker';
+
+async function main(): Promise<void> {
+  const dir = process.argv[2];
+  if (!dir) {
+    process.stderr.write('usage: node dist/scripts/make-demo-data.js OUTPUT_FOLDER\n');
+    process.exitCode = 2;
+    return;
+  }
+  const run = simulatePhantomRun(demoPhantomSpec());
+  const files = await writePhantomRun(dir, run, DEMO_BASE_NAME);
+  let total = 0;
+  for (const path of Object.values(files)) {
+    const bytes = statSync(path).size;
+    total += bytes;
+    process.stdout.write(`${path}\t${bytes} bytes\n`);
+  }
+  process.stdout.write(`total ${(total / 2 ** 20).toFixed(2)} MiB; dims ${run.volume.dims.join(' x ')}, TR ${run.volume.trSec} s\n`);
+}
+
+await main();

@@ -1,0 +1,252 @@
+import type { Vec3 } from '../core/affine.js';
+import { fail } from '../core/fail.js';
+import type { BlockDesign } from './block-design-events.js';
+import { DEFAULT_HEAD_GEOMETRY, type HeadGeometry } from './head-anatomy.js';
+import type { PhysioRates } from './physio-traces.js';
+import type { MotionSpec } from './rigid-motion.js';
+import { DEFAULT_TISSUE_PROPERTIES, PHANTOM_TISSUES, type PhantomTissue, type TissueProperties } from './tissue-properties.js';
+
+/** Acquisition of the simulated run (EPI, spoiled gradient echo). */
+export interface PhantomAcquisition {
+  /** Repetition time, seconds. __Default value:__ 2 */
+  trSec: number;
+  /** Echo time, seconds. __Default value:__ 0.03 (common practice at 3 T, no source) */
+  teSec: number;
+  /** Flip angle, degrees. __Default value:__ 77 (the Ernst angle of grey matter, T1 1.33 s, at TR 2 s) */
+  flipAngleDeg: number;
+  /** Effective echo spacing, seconds (sets the total readout time and so the field-map shift). __Default value:__ 0.00035 */
+  effectiveEchoSpacingSec: number;
+  /** Phase-encode axis and polarity (BIDS notation; the second image axis, front-back). __Default value:__ 'j' */
+  phaseEncodingDirection: 'j' | 'j-';
+  /** Main field strength, tesla. __Default value:__ 3 */
+  fieldStrengthT: number;
+}
+
+/** Where and how strongly grey matter responds to the task. */
+export interface PhantomActivation {
+  /** Centre of the responding patch, world mm. __Default value:__ (0, -66, 4), the occipital pole */
+  centreMm: Vec3;
+  /** Gaussian width of the patch, mm (cut off at 2.5 sigma). __Default value:__ 8 */
+  sigmaMm: number;
+  /** Signal change of pure grey matter at the patch centre on a sustained block's plateau, percent. __Default value:__ 2 */
+  amplitudePercent: number;
+}
+
+/** Cardiac and respiratory fluctuation, multiplying each tissue's signal. */
+export interface PhantomPhysio {
+  /** Rates and their wander. __Default value:__ 1.1 Hz, 0.3 Hz, 5 % wander */
+  rates: PhysioRates;
+  /** Amplitude of the cardiac fluctuation per tissue, percent of signal. __Default value:__ CSF 1.5, GM 0.5, WM 0.2, extracerebral 0.2 */
+  cardiacPercent: Partial<Record<PhantomTissue, number>>;
+  /** Amplitude of the respiratory fluctuation per tissue, percent of signal. __Default value:__ CSF 1, GM 0.5, WM 0.25, extracerebral 0.3 */
+  respirationPercent: Partial<Record<PhantomTissue, number>>;
+}
+
+/** Slow multiplicative drift over the run: Legendre polynomials of time, stronger towards the top of the grid. */
+export interface PhantomDrift {
+  /** Linear drift from run start to end (P1 amplitude), percent. __Default value:__ 1 */
+  linearPercent: number;
+  /** Quadratic drift (P2 amplitude), percent. __Default value:__ 0.5 */
+  quadraticPercent: number;
+  /** Relative change of the drift amplitude from the centre to the top/bottom slice. __Default value:__ 0.5 */
+  verticalGradient: number;
+}
+
+/** A smooth Gaussian random field per volume multiplying the signal (spatially correlated noise). */
+export interface PhantomSmoothNoise {
+  /** Smoothness, mm. __Default value:__ 12 */
+  fwhmMm: number;
+  /** Standard deviation, percent of signal. __Default value:__ 0.4 */
+  percent: number;
+}
+
+/** Field inhomogeneity from the air-filled sinus. */
+export interface PhantomB0 {
+  /** Susceptibility of air minus tissue, ppm. __Default value:__ 9.4 (from memory) */
+  susceptibilityDifferencePpm: number;
+  /** Signal loss from intravoxel dephasing. __Default value:__ true */
+  dephasing: boolean;
+  /** Geometric shift along the phase-encode axis. __Default value:__ true */
+  distortion: boolean;
+}
+
+/** A single-voxel spike. */
+export interface PhantomSpikeSpec {
+  /** Volume, 0-based. */
+  volume: number;
+  /** Value added to the voxel, signal units (pure grey matter at steady state = `greyMatterSignal`). */
+  amplitude: number;
+}
+
+/** A slice whose signal is lost in one volume. */
+export interface PhantomDropoutSpec {
+  /** Volume, 0-based. */
+  volume: number;
+  /** Slice index (third image axis), 0-based. */
+  slice: number;
+  /** Fraction of the signal kept (noise is added after). __Default value:__ 0.15 */
+  keptFraction: number;
+}
+
+/**
+ * Everything that defines a simulated run of the digital phantom. Same spec and seed -> the same
+ * run, to the byte. Components set to `null` (or empty lists) are left out.
+ */
+export interface PhantomSpec {
+  /** Seed of all random draws (noise, physiology, motion wander, spike positions). __Default value:__ 1 */
+  seed: number;
+  /** Voxels along x, y, z. __Default value:__ [44, 52, 34] */
+  dims: [number, number, number];
+  /** Voxel size, mm. __Default value:__ [3.5, 3.5, 3.5] */
+  spacingMm: [number, number, number];
+  /** Number of volumes. __Default value:__ 150 */
+  nVolumes: number;
+  acquisition: PhantomAcquisition;
+  /** Head shape and partial-volume sampling (points per voxel edge). __Default value:__ {@link DEFAULT_HEAD_GEOMETRY}, 3 */
+  anatomy: { geometry: HeadGeometry; supersample: number };
+  /** Tissue relaxation and density. __Default value:__ {@link DEFAULT_TISSUE_PROPERTIES} */
+  tissues: Record<PhantomTissue, TissueProperties>;
+  /** Noise-free steady-state value of a voxel of pure grey matter (sets the intensity scale). __Default value:__ 1000 */
+  greyMatterSignal: number;
+  /** Task timing. __Default value:__ 20 s 'flicker' blocks every 40 s from 20 s */
+  design: BlockDesign | null;
+  activation: PhantomActivation | null;
+  /**
+   * Standard deviation of the thermal noise in each of the real and imaginary channels, signal units.
+   * __Default value:__ 11 (image SNR about 90 in grey matter)
+   */
+  thermalNoiseSd: number;
+  /** Magnitude of complex noise (Rician) rather than additive Gaussian. __Default value:__ true */
+  rician: boolean;
+  physio: PhantomPhysio | null;
+  drift: PhantomDrift | null;
+  smoothNoise: PhantomSmoothNoise | null;
+  /** Head motion. __Default value:__ slow wander 0.01 mm and 0.01 deg per volume, no jerk */
+  motion: MotionSpec | null;
+  /** __Default value:__ null (no inhomogeneity) */
+  b0: PhantomB0 | null;
+  /** __Default value:__ [] */
+  spikes: PhantomSpikeSpec[];
+  /** __Default value:__ [] */
+  dropouts: PhantomDropoutSpec[];
+}
+
+/** A spec with any part left out (nested groups may be given in part too). */
+export type PhantomSpecInput = {
+  [K in keyof PhantomSpec]?: PhantomSpec[K] extends Array<unknown> ? PhantomSpec[K] : PhantomSpec[K] extends object | null ? Partial<NonNullable<PhantomSpec[K]>> | null : PhantomSpec[K];
+};
+
+/**
+ * The documented defaults: a clean run with steady-state approach, thermal, physiological, drift and
+ * smooth noise, slow head wander, and the occipital response to a flicker block design; no jerk,
+ * field inhomogeneity, spikes or dropout (see {@link demoPhantomSpec} for those).
+ * @returns a fresh spec
+ * @example const spec = defaultPhantomSpec(); spec.nVolumes = 40
+ */
+export function defaultPhantomSpec(): PhantomSpec {
+  return {
+    seed: 1,
+    dims: [44, 52, 34],
+    spacingMm: [3.5, 3.5, 3.5],
+    nVolumes: 150,
+    acquisition: { trSec: 2, teSec: 0.03, flipAngleDeg: 77, effectiveEchoSpacingSec: 0.00035, phaseEncodingDirection: 'j', fieldStrengthT: 3 },
+    anatomy: { geometry: structuredClone(DEFAULT_HEAD_GEOMETRY) as HeadGeometry, supersample: 3 },
+    tissues: structuredClone(DEFAULT_TISSUE_PROPERTIES) as Record<PhantomTissue, TissueProperties>,
+    greyMatterSignal: 1000,
+    design: { firstOnsetSec: 20, onSec: 20, offSec: 20, trialType: 'flicker' },
+    activation: { centreMm: [0, -66, 4], sigmaMm: 8, amplitudePercent: 2 },
+    thermalNoiseSd: 11,
+    rician: true,
+    physio: {
+      rates: { cardiacHz: 1.1, respirationHz: 0.3, rateWanderFraction: 0.05 },
+      cardiacPercent: { csf: 1.5, 'grey-matter': 0.5, 'white-matter': 0.2, extracerebral: 0.2 },
+      respirationPercent: { csf: 1, 'grey-matter': 0.5, 'white-matter': 0.25, extracerebral: 0.3 },
+    },
+    drift: { linearPercent: 1, quadraticPercent: 0.5, verticalGradient: 0.5 },
+    smoothNoise: { fwhmMm: 12, percent: 0.4 },
+    motion: { wanderStepMm: 0.01, wanderStepDeg: 0.01, jerk: null },
+    b0: null,
+    spikes: [],
+    dropouts: [],
+  };
+}
+
+/**
+ * The spec of the committed demo run (data-demo/): the defaults plus one head jerk at volume 83,
+ * field inhomogeneity around the sinus, three single-voxel spikes and one slice dropout.
+ * @returns a fresh spec
+ * @example const run = simulatePhantomRun(demoPhantomSpec())
+ */
+export function demoPhantomSpec(): PhantomSpec {
+  const spec = defaultPhantomSpec();
+  spec.seed = 20240611;
+  spec.motion = { wanderStepMm: 0.01, wanderStepDeg: 0.01, jerk: { volume: 83, shiftMm: [0.3, 0.8, 1.2], rotationDeg: [1.5, 0.2, -0.4] } };
+  spec.b0 = { susceptibilityDifferencePpm: 9.4, dephasing: true, distortion: true };
+  spec.spikes = [
+    { volume: 37, amplitude: 2500 },
+    { volume: 101, amplitude: 2000 },
+    { volume: 128, amplitude: 3000 },
+  ];
+  spec.dropouts = [{ volume: 112, slice: 17, keptFraction: 0.15 }];
+  return spec;
+}
+
+/**
+ * Fill a partial spec from the defaults (nested groups are merged one level deep; `null` turns a
+ * component off) and check every value.
+ * @param input - the parts to set
+ * @returns a complete, checked spec (the input is not modified)
+ * @throws BoldsweepError INVALID_ARGUMENT naming the first bad field
+ * @example resolvePhantomSpec({ nVolumes: 20, physio: null })
+ */
+export function resolvePhantomSpec(input: PhantomSpecInput = {}): PhantomSpec {
+  const d = defaultPhantomSpec() as unknown as Record<string, unknown>;
+  const out: Record<string, unknown> = { ...d };
+  for (const [key, value] of Object.entries(input)) {
+    if (value === undefined) continue;
+    if (!(key in d)) fail('INVALID_ARGUMENT', `phantom spec has no field '${key}' (fields: ${Object.keys(d).join(', ')})`);
+    const base = d[key];
+    if (value !== null && typeof value === 'object' && !Array.isArray(value) && base !== null && typeof base === 'object' && !Array.isArray(base)) {
+      out[key] = { ...(base as object), ...structuredClone(value as object) };
+    } else {
+      out[key] = structuredClone(value);
+    }
+  }
+  const spec = out as unknown as PhantomSpec;
+  checkPhantomSpec(spec);
+  return spec;
+}
+
+function checkPhantomSpec(s: PhantomSpec): void {
+  const bad = (field: string, why: string, got: unknown): never => fail('INVALID_ARGUMENT', `phantom spec ${field} ${why}, got ${JSON.stringify(got)}`);
+  if (!Number.isInteger(s.seed) || s.seed < 0 || s.seed >= 2 ** 32) bad('seed', 'must be an integer in [0, 2^32)', s.seed);
+  if (!Array.isArray(s.dims) || s.dims.length !== 3 || s.dims.some((n) => !Number.isInteger(n) || n < 2 || n > 512)) bad('dims', 'must be three integers in 2..512', s.dims);
+  if (!Array.isArray(s.spacingMm) || s.spacingMm.length !== 3 || s.spacingMm.some((v) => !(v > 0) || !Number.isFinite(v))) bad('spacingMm', 'must be three positive numbers', s.spacingMm);
+  if (!Number.isInteger(s.nVolumes) || s.nVolumes < 1 || s.nVolumes > 10000) bad('nVolumes', 'must be an integer in 1..10000', s.nVolumes);
+  const a = s.acquisition;
+  if (!(a.trSec > 0) || !Number.isFinite(a.trSec)) bad('acquisition.trSec', 'must be positive', a.trSec);
+  if (!(a.teSec > 0) || !(a.teSec < a.trSec)) bad('acquisition.teSec', 'must be positive and below trSec', a.teSec);
+  if (!(a.flipAngleDeg > 0) || !(a.flipAngleDeg <= 180)) bad('acquisition.flipAngleDeg', 'must be in (0, 180]', a.flipAngleDeg);
+  if (!(a.effectiveEchoSpacingSec > 0) || !(a.effectiveEchoSpacingSec < 0.01)) bad('acquisition.effectiveEchoSpacingSec', 'must be in (0, 0.01) s', a.effectiveEchoSpacingSec);
+  if (a.phaseEncodingDirection !== 'j' && a.phaseEncodingDirection !== 'j-') bad('acquisition.phaseEncodingDirection', "must be 'j' or 'j-'", a.phaseEncodingDirection);
+  if (!(a.fieldStrengthT > 0)) bad('acquisition.fieldStrengthT', 'must be positive', a.fieldStrengthT);
+  if (!Number.isInteger(s.anatomy.supersample) || s.anatomy.supersample < 1 || s.anatomy.supersample > 8) bad('anatomy.supersample', 'must be an integer in 1..8', s.anatomy.supersample);
+  for (const t of PHANTOM_TISSUES) {
+    const p = s.tissues[t];
+    if (!p || !(p.protonDensity >= 0) || !(p.t1Sec > 0) || !(p.t2StarSec > 0)) bad(`tissues.${t}`, 'needs protonDensity >= 0, t1Sec > 0 and t2StarSec > 0', p);
+  }
+  if (!(s.tissues['grey-matter'].protonDensity > 0)) bad("tissues['grey-matter'].protonDensity", 'must be positive (it sets the intensity scale)', s.tissues['grey-matter'].protonDensity);
+  if (!(s.greyMatterSignal > 0) || s.greyMatterSignal > 10000) bad('greyMatterSignal', 'must be in (0, 10000] (the written file is int16)', s.greyMatterSignal);
+  if (s.activation && (!(s.activation.sigmaMm > 0) || !Number.isFinite(s.activation.amplitudePercent))) bad('activation', 'needs sigmaMm > 0 and a finite amplitudePercent', s.activation);
+  if (!(s.thermalNoiseSd >= 0)) bad('thermalNoiseSd', 'must be >= 0', s.thermalNoiseSd);
+  if (s.smoothNoise && (!(s.smoothNoise.fwhmMm > 0) || !(s.smoothNoise.percent >= 0))) bad('smoothNoise', 'needs fwhmMm > 0 and percent >= 0', s.smoothNoise);
+  if (s.drift && ![s.drift.linearPercent, s.drift.quadraticPercent, s.drift.verticalGradient].every(Number.isFinite)) bad('drift', 'needs finite numbers', s.drift);
+  s.spikes.forEach((sp, i) => {
+    if (!Number.isInteger(sp.volume) || sp.volume < 0 || sp.volume >= s.nVolumes || !Number.isFinite(sp.amplitude)) bad(`spikes[${i}]`, `needs volume in 0..${s.nVolumes - 1} and a finite amplitude`, sp);
+  });
+  s.dropouts.forEach((dr, i) => {
+    if (!Number.isInteger(dr.volume) || dr.volume < 0 || dr.volume >= s.nVolumes || !Number.isInteger(dr.slice) || dr.slice < 0 || dr.slice >= s.dims[2] || !(dr.keptFraction >= 0 && dr.keptFraction <= 1)) {
+      bad(`dropouts[${i}]`, `needs volume in 0..${s.nVolumes - 1}, slice in 0..${s.dims[2] - 1} and keptFraction in [0, 1]`, dr);
+    }
+  });
+}
