@@ -1,0 +1,71 @@
+import { z } from 'zod';
+import { BOUNDARY_MODES, type BoundaryMode } from './boundary-index.js';
+import { dropInitialVolumesStep, type DropInitialVolumesParams } from './drop-initial-volumes.js';
+import { grandMeanScaleStep, type GrandMeanScaleParams } from './grand-mean-scale.js';
+import { percentSignalChangeStep, type PercentSignalChangeParams } from './percent-signal-change.js';
+import type { StepDefinition } from './registry.js';
+import { MAX_FWHM_MM, smoothStep, type SmoothStepParams } from './smooth-step.js';
+import { detrendStep, highpassStep, type DetrendParams, type HighpassParams } from './temporal-filter.js';
+
+// Schemas check types and fixed ranges; limits that depend on the run (FOV, number of volumes)
+// are checked by the steps themselves.
+const modes = BOUNDARY_MODES as unknown as [BoundaryMode, ...BoundaryMode[]];
+
+const smooth: StepDefinition<SmoothStepParams> = {
+  schema: z.object({
+    fwhmMm: z.number().finite().min(0).max(MAX_FWHM_MM),
+    mode: z.enum(modes).default('reflect'),
+    withinMask: z.boolean().default(false),
+  }).strict(),
+  apply: smoothStep,
+  describe: (p) => `smooth ${p.fwhmMm} mm${p.withinMask ? ' in mask' : ''}${p.mode && p.mode !== 'reflect' ? ` (${p.mode})` : ''}`,
+};
+
+const percentSignalChange: StepDefinition<PercentSignalChangeParams> = {
+  schema: z.object({
+    minMeanFraction: z.number().min(0).lt(1).default(0.1),
+    centred: z.boolean().default(false),
+  }).strict(),
+  apply: percentSignalChangeStep,
+  describe: (p) => `percent signal change${p.centred ? ' (centred)' : ''}`,
+};
+
+const grandMeanScale: StepDefinition<GrandMeanScaleParams> = {
+  schema: z.object({ target: z.number().finite().positive().default(10000) }).strict(),
+  apply: grandMeanScaleStep,
+  describe: (p) => `grand-mean scale to ${p.target}`,
+};
+
+const highpass: StepDefinition<HighpassParams> = {
+  schema: z.object({ cutoffSec: z.number().positive().default(128) }).strict(),
+  apply: highpassStep,
+  describe: (p) => `high-pass ${p.cutoffSec} s`,
+};
+
+const detrend: StepDefinition<DetrendParams> = {
+  schema: z.object({ order: z.number().int().min(0).default(2) }).strict(),
+  apply: detrendStep,
+  describe: (p) => `detrend order ${p.order}`,
+};
+
+const dropInitialVolumes: StepDefinition<DropInitialVolumesParams> = {
+  schema: z.object({ count: z.number().int().min(0) }).strict(),
+  apply: dropInitialVolumesStep,
+  describe: (p) => `drop ${p.count} volumes`,
+};
+
+/**
+ * Register the steps boldsweep ships with: smooth, percent-signal-change, grand-mean-scale,
+ * highpass, detrend, drop-initial-volumes (called once by the registry module).
+ * @param register - the registry's registerStep
+ * @returns nothing
+ * @example registerBuiltinSteps(registerStep)
+ */
+export function registerBuiltinSteps(register: <P>(name: string, definition: StepDefinition<P>) => void): void {
+  register('smooth', smooth);
+  register('percent-signal-change', percentSignalChange);
+  register('grand-mean-scale', grandMeanScale);
+  register('highpass', highpass);
+  register('detrend', detrend);
+  register('drop-initial-volumes', dropInitialVolumes);
+}
