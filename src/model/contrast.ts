@@ -68,8 +68,9 @@ export function contrastWeights(fit: Pick<GlmFit, 'design'>, contrast: Contrast)
  * - percent signal change (our definition): 100 * sum_j c_j beta_j h_j / m, where h_j is the peak
  *   height of column j (the largest |value| it takes over the run) and m the voxel's temporal mean.
  *   For a condition column this is the peak modelled response as a percentage of the mean signal.
- * - voxels not fitted, or whose variance is 0 (constant data), get t = z = effect = 0 and p = 1;
- *   percent signal change is 0 where the mean is not positive. Maps are Float32.
+ * - voxels not fitted get 0 in every map and p = 1; fitted voxels whose variance is 0 (noise-free
+ *   or constant data) keep their effect but get t = z = 0 and p = 1, so maps stay finite; percent
+ *   signal change is 0 where the mean is not positive. Maps are Float32.
  * @param fit - a GLM fit (OLS or AR(1))
  * @param contrast - weights (array of length p, or by column name)
  * @param options - name for the contrast
@@ -121,8 +122,6 @@ export function contrastMaps(fit: GlmFit, contrast: Contrast, options: { name?: 
       tMap[v] = t;
       pMap[v] = upperTailP(t, stat);
       zMap[v] = tToZ(t, fit.dof);
-    } else {
-      effect[v] = 0;
     }
   }
   const vol = (data: Float32Array): Volume => makeVolume({ dims: [nx, ny, nz, 1], spacingMm: [...fit.grid.spacingMm], trSec: fit.grid.trSec, affine: new Float64Array(fit.grid.affine), data });

@@ -79,8 +79,9 @@ export function eventRegressors(events: readonly BoldEvent[], nt: number, trSec:
   const lengthSec = options.hrfLengthSec ?? 32;
   const kernel = hrfKernel({ ...options.hrf, dtSec: dt, lengthSec, normalise: 'peak' });
   const dkernel = options.derivative ? hrfKernel({ ...options.hrf, dtSec: dt, lengthSec, normalise: 'peak', derivative: true }) : null;
-  // grid point n is time t0 + n dt; start early enough for events before the run
-  const minOnset = events.reduce((m, e) => Math.min(m, e.onsetSec), 0);
+  // grid point n is time t0 + n dt; start early enough for events before the run, but no earlier
+  // than one kernel length before time 0 (earlier stimulation cannot reach any volume)
+  const minOnset = Math.max(-lengthSec, events.reduce((m, e) => Math.min(m, e.onsetSec), 0));
   const n0 = Math.floor(minOnset / dt) - 1;
   const t0 = n0 * dt;
   const ngrid = Math.ceil((runSec - t0) / dt) + 2;

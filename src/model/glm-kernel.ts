@@ -100,42 +100,48 @@ export function projectPair(buf: Float64Array, ya: number, yb: number, proj: Flo
  */
 export function residualPair(buf: Float64Array, ya: number, yb: number, x: Float64Array, nt: number, p: number, b: Float64Array, rho: number, ea: Float64Array, eb: Float64Array, rss: Float64Array): void {
   const two = yb >= 0;
-  for (let t = 0; t < nt; t++) ea[t] = buf[ya + t];
-  if (two) for (let t = 0; t < nt; t++) eb[t] = buf[yb + t];
-  let j = 0;
-  for (; j + 2 < p; j += 3) {
-    const b0 = b[j], b1 = b[j + 1], b2 = b[j + 2];
+  // columns three at a time; the first group starts from y, the last group also sums squares when
+  // no whitening is needed, so the residual arrays are walked as few times as possible
+  const sumInLoop = rho === 0;
+  let ra = 0;
+  let rb = 0;
+  for (let j = 0; j < p; j += 3) {
+    const first = j === 0;
+    const last = j + 3 >= p;
+    const b0 = b[j], b1 = j + 1 < p ? b[j + 1] : 0, b2 = j + 2 < p ? b[j + 2] : 0;
+    // zero weights stand in for missing columns; their x index is clamped into the row
+    const k1 = j + 1 < p ? 1 : 0, k2 = j + 2 < p ? 2 : k1;
     if (two) {
-      const d0 = b[p + j], d1 = b[p + j + 1], d2 = b[p + j + 2];
+      const d0 = b[p + j], d1 = j + 1 < p ? b[p + j + 1] : 0, d2 = j + 2 < p ? b[p + j + 2] : 0;
       for (let t = 0, q = j; t < nt; t++, q += p) {
-        const x0 = x[q], x1 = x[q + 1], x2 = x[q + 2];
-        ea[t] -= x0 * b0 + x1 * b1 + x2 * b2;
-        eb[t] -= x0 * d0 + x1 * d1 + x2 * d2;
+        const x0 = x[q], x1 = x[q + k1], x2 = x[q + k2];
+        const fa = (first ? buf[ya + t] : ea[t]) - (x0 * b0 + x1 * b1 + x2 * b2);
+        const fb = (first ? buf[yb + t] : eb[t]) - (x0 * d0 + x1 * d1 + x2 * d2);
+        ea[t] = fa;
+        eb[t] = fb;
+        if (last && sumInLoop) {
+          ra += fa * fa;
+          rb += fb * fb;
+        }
       }
     } else {
-      for (let t = 0, q = j; t < nt; t++, q += p) ea[t] -= x[q] * b0 + x[q + 1] * b1 + x[q + 2] * b2;
+      for (let t = 0, q = j; t < nt; t++, q += p) {
+        const fa = (first ? buf[ya + t] : ea[t]) - (x[q] * b0 + x[q + k1] * b1 + x[q + k2] * b2);
+        ea[t] = fa;
+        if (last && sumInLoop) ra += fa * fa;
+      }
     }
   }
-  for (; j < p; j++) {
-    const b0 = b[j];
-    const d0 = two ? b[p + j] : 0;
-    for (let t = 0, q = j; t < nt; t++, q += p) {
-      ea[t] -= x[q] * b0;
-      if (two) eb[t] -= x[q] * d0;
-    }
-  }
-  if (rho !== 0) {
+  if (!sumInLoop) {
     whitenInPlace(ea, nt, rho);
-    if (two) whitenInPlace(eb, nt, rho);
+    for (let t = 0; t < nt; t++) ra += ea[t] * ea[t];
+    if (two) {
+      whitenInPlace(eb, nt, rho);
+      for (let t = 0; t < nt; t++) rb += eb[t] * eb[t];
+    }
   }
-  let ra = 0;
-  for (let t = 0; t < nt; t++) ra += ea[t] * ea[t];
   rss[0] = ra;
-  if (two) {
-    let rb = 0;
-    for (let t = 0; t < nt; t++) rb += eb[t] * eb[t];
-    rss[1] = rb;
-  }
+  if (two) rss[1] = rb;
 }
 
 /** Prais-Winsten AR(1) whitening of a series in place (walks backwards so no copy is needed). */

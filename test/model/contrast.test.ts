@@ -59,9 +59,9 @@ describe('contrastMaps', () => {
     expect(Math.abs(b.p.data[0] / 0.0035379494 - 1)).toBeLessThan(1e-7);
   });
 
-  it('zero-variance voxels get t = z = 0 and p = 1 (finite maps)', () => {
+  it('zero-variance voxels keep their effect but get t = z = 0 and p = 1 (finite maps)', () => {
     const m = contrastMaps(tinyFit([5, 1], [0, 4], 10), [1]);
-    expect([m.t.data[0], m.z.data[0], m.p.data[0], m.effect.data[0]]).toEqual([0, 0, 1, 0]);
+    expect([m.t.data[0], m.z.data[0], m.p.data[0], m.effect.data[0]]).toEqual([0, 0, 1, 5]);
     expect(m.t.data[1]).toBeCloseTo(0.5, 7);
   });
 

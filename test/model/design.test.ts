@@ -95,6 +95,13 @@ describe('eventRegressors: convolution with the HRF', () => {
     expect(Math.abs(r.columns[1][0] - hrfValues([5])[0] / peak)).toBeLessThan(1e-12);
   });
 
+  it('stimulation more than one kernel length before the run only matters through its overlap', () => {
+    const far = eventRegressors([ev(-1e6, 1e6 + 20)], 30, 2).columns[0];
+    const near = eventRegressors([ev(-40, 60)], 30, 2).columns[0];
+    // both are "on from before -32 s until 20 s": identical up to rounding of the cell overlaps
+    for (let t = 0; t < 30; t++) expect(Math.abs(far[t] - near[t])).toBeLessThan(1e-9);
+  });
+
   it('an event starting after the run fails with EVENTS_BEYOND_RUN; bad rows with EVENTS_INVALID', () => {
     expectThrowsCode(() => eventRegressors([ev(5, 1), ev(40, 1)], 20, 2), 'EVENTS_BEYOND_RUN');
     expectThrowsCode(() => eventRegressors([ev(5, -1)], 20, 2), 'EVENTS_INVALID');
