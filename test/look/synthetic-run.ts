@@ -36,7 +36,7 @@ export function syntheticRun(o: SyntheticRunOptions = {}): Volume {
     for (let z = 0; z < nz; z++) for (let y = 0; y < ny; y++) for (let x = 0; x < nx; x++) {
       const v = x + nx * (y + ny * z);
       const base = inside(x - shift, y, z) ? brain * (1 + 0.1 * Math.sin(x / 3 + y / 5)) : background;
-      data[t * n + v] = base * gain + rng.normal(0, noiseSd);
+      data[t * n + v] = base * gain + (noiseSd > 0 ? rng.normal(0, noiseSd) : 0);
     }
   }
   for (const s of o.spikes ?? []) data[s.volume * n + s.ijk[0] + nx * (s.ijk[1] + ny * s.ijk[2])] += s.size;
