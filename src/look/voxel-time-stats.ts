@@ -97,11 +97,13 @@ export function voxelTimeStats(run: Volume, options: { firstVolume?: number; det
         const a = r < 0 ? -r : r;
         if (a > mx) mx = a;
       }
-      const sdv = Math.sqrt(ss / (T - p));
+      // below Float32 resolution (6e-8 relative) any "variation" is rounding in the drift fit: call it 0
+      const raw = Math.sqrt(ss / (T - p));
+      const sdv = raw > 1e-9 * Math.abs(m) ? raw : 0;
       mean[v] = m;
       sd[v] = sdv;
       tsnr[v] = sdv > 0 ? m / sdv : 0;
-      lag1[v] = ss > 0 ? lag / ss : 0;
+      lag1[v] = sdv > 0 ? lag / ss : 0;
       maxAbs[v] = mx;
     }
   }
