@@ -5,6 +5,7 @@ export { blobProfile, blobWeight, blobSizeMm, blobSupportMm, checkBlobShape } fr
 export type { BlobShapeSpec, SparseProfile } from './plant-profile.js';
 export { placeCentres, interiorVoxels } from './plant-placement.js';
 export type { PlacementOptions } from './plant-placement.js';
+export { plantTimeCourse, type PlantTimeCourseOptions } from './plant-time-course.js';
 // digital phantom
 export { simulatePhantomRun } from './simulate-phantom-run.js';
 export { writePhantomRun, type PhantomRunFiles } from './write-phantom-run.js';
