@@ -164,14 +164,14 @@ export function scoreDetection(input: ScoreInput): ScoreRow {
     falseAlarmRate: brainVoxels > truthVoxels ? fp / (brainVoxels - truthVoxels) : NaN,
     blobs: truth.blobs.length,
     blobsDetected,
-    blobHitRate: blobsDetected / truth.blobs.length,
+    blobHitRate: truth.blobs.length > 0 ? blobsDetected / truth.blobs.length : NaN,
     clusters: clusters.clusters,
     falseClusters: clusters.falseClusters,
     dice: diceCoefficient(inBrainSurvivors, truth.mask, brain),
     rocAuc,
     peakSearchRadiusMm: radius,
     peakErrorMeanMm: mean(peaks.errorMm),
-    peakErrorMaxMm: peaks.errorMm.reduce((m, d) => (d > m || Number.isNaN(d) ? d : m), -Infinity),
+    peakErrorMaxMm: peaks.errorMm.length === 0 ? NaN : peaks.errorMm.reduce((m, d) => (d > m || Number.isNaN(d) ? d : m), -Infinity),
     peakStatisticMean: mean(peaks.peakValue),
     centreStatisticMean: mean(peaks.centreValue),
     effectEstimatedPct: bias?.estimatedPct ?? NaN,
@@ -184,6 +184,7 @@ export function scoreDetection(input: ScoreInput): ScoreRow {
 }
 
 function mean(a: Float64Array): number {
+  if (a.length === 0) return NaN;
   let s = 0;
   for (const x of a) s += x;
   return s / a.length;

@@ -144,6 +144,15 @@ describe('scoreDetection', () => {
     expect(row.falseClusters).toBe(0);
   });
 
+  it('scores a null planting (nothing planted): every survivor is a false alarm, per-blob measures undefined', () => {
+    const truth = { ...handTruth(), mask: new Uint8Array(100), profile: new Float32Array(100), centresMm: [], centresVoxel: [], blobs: [] };
+    const survivors = new Uint8Array(100);
+    survivors[at(4, 4)] = survivors[at(4, 5)] = survivors[at(8, 1)] = 1;
+    const row = scoreDetection({ statistic: Float32Array.from(survivors), survivors, truth, brainMask: new Uint8Array(100).fill(1) });
+    expect([row.falsePositiveVoxels, row.falseAlarmRate, row.clusters, row.falseClusters, row.dice]).toEqual([3, 3 / 100, 2, 2, 0]);
+    for (const k of ['hitRate', 'blobHitRate', 'rocAuc', 'peakErrorMeanMm', 'peakErrorMaxMm', 'centreStatisticMean'] as const) expect(row[k], k).toBeNaN();
+  });
+
   it('refuses maps on another grid', () => {
     const truth = handTruth();
     const codeOf = (f: () => unknown) => { try { f(); } catch (e) { return isBoldsweepError(e) ? e.code : 'other'; } return 'none'; };
