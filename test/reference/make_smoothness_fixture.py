@@ -44,17 +44,20 @@ def mean_cos(rho, nu):
 
 rng = np.random.default_rng(20240601)
 out["finiteDof"] = []
-r = rho1(kernel(2.0))
-for nu in [6, 10, 40]:
-    exact = 2 - 2 * mean_cos(r, nu)
-    N = 400000
-    a = rng.standard_normal((N, nu)); w = rng.standard_normal((N, nu))
-    b = r * a + math.sqrt(1 - r * r) * w
-    c = (a * b).sum(1) / np.sqrt((a * a).sum(1) * (b * b).sum(1))
-    sim = float(np.mean(2 - 2 * c)); se = float(np.std(2 - 2 * c) / math.sqrt(N))
-    assert abs(sim - exact) < 5 * se, (nu, sim, exact, se)
-    out["finiteDof"].append({"sigmaVoxels": 2.0, "rho1": r, "dof": nu, "rawLambda": exact,
-                             "correctedLambda": exact * (nu - 2) / (nu - 1), "simulatedRawLambda": sim, "simulationSe": se})
+for sigma, dofs in [(2.0, [6, 10, 40]), (8 / FWHM_PER_SIGMA / 2, [7])]:
+    r = rho1(kernel(sigma))
+    for nu in dofs:
+        exact = 2 - 2 * mean_cos(r, nu)
+        N = 400000
+        a = rng.standard_normal((N, nu)); w = rng.standard_normal((N, nu))
+        b = r * a + math.sqrt(1 - r * r) * w
+        c = (a * b).sum(1) / np.sqrt((a * a).sum(1) * (b * b).sum(1))
+        sim = float(np.mean(2 - 2 * c)); se = float(np.std(2 - 2 * c) / math.sqrt(N))
+        assert abs(sim - exact) < 5 * se, (nu, sim, exact, se)
+        corrected = exact * (nu - 2) / (nu - 1)
+        out["finiteDof"].append({"sigmaVoxels": sigma, "rho1": r, "dof": nu, "rawLambda": exact, "correctedLambda": corrected,
+                                 "fwhmVoxelsDerivative": math.sqrt(4 * math.log(2) / corrected),
+                                 "simulatedRawLambda": sim, "simulationSe": se})
 
 path = os.path.join(os.path.dirname(os.path.abspath(__file__)), "smoothness_fixture.json")
 with open(path + ".tmp", "w") as f:
