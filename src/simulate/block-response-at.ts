@@ -1,11 +1,11 @@
 import { fail } from '../core/fail.js';
 import type { BoldEvent } from '../io/run-types.js';
-import { hrfKernel } from '../model/hrf.js';
+import { hrfValues } from '../model/hrf.js';
 
 /**
  * The expected BOLD response to a set of events, at arbitrary times: the events' boxcar (height =
- * modulation) sampled every `dtSec`, convolved with the Glover (1999) HRF scaled to unit sum (so a
- * sustained block reaches a plateau of 1), and read at each requested time by linear interpolation.
+ * modulation) sampled every `dtSec`, convolved with the Glover (1999) HRF (src/model/hrf.ts) scaled
+ * to unit sum (so a sustained block reaches a plateau of 1), and read at each requested time by linear interpolation.
  * @param events - onsets and durations, seconds
  * @param timesSec - times to read the response at (e.g. each slice's acquisition time), seconds
  * @param dtSec - fine time step of the convolution, seconds. __Default value:__ 0.05
@@ -26,7 +26,13 @@ export function blockResponseAt(events: readonly BoldEvent[], timesSec: ArrayLik
       box[s] += e.modulation * (Math.min(b, s + 1) - Math.max(a, s));
     }
   }
-  const h = hrfKernel({ shape: 'glover', dtSec, normalise: 'sum' });
+  // fine sample s holds the input over [s dt, (s+1) dt), centred at (s + 1/2) dt, so its effect u
+  // steps later is h((u - 1/2) dt); the kernel spans 32 s and is scaled to unit sum
+  const nKernel = Math.ceil(32 / dtSec) + 1;
+  const h = hrfValues(Float64Array.from({ length: nKernel }, (_, u) => (u - 0.5) * dtSec), { shape: 'glover' });
+  let hSum = 0;
+  for (let u = 0; u < nKernel; u++) hSum += h[u];
+  for (let u = 0; u < nKernel; u++) h[u] /= hSum;
   const resp = new Float64Array(n);
   for (let s = 0; s < n; s++) {
     if (box[s] === 0) continue;

@@ -76,7 +76,8 @@ export function simulatedMotionTable(nVolumes: number, spec: MotionSpec, rng: Rn
   const rows: MotionRow[] = [];
   for (let v = 0; v < nVolumes; v++) {
     if (v > 0) {
-      for (let a = 0; a < 6; a++) p[a] += rng.normal(0, a < 3 ? spec.wanderStepMm : spec.wanderStepDeg);
+      // a standard draw scaled (stdlib returns NaN for a zero standard deviation)
+      for (let a = 0; a < 6; a++) p[a] += (a < 3 ? spec.wanderStepMm : spec.wanderStepDeg) * rng.normal();
     }
     const step = jerk && v >= jerk.volume ? [...jerk.shiftMm, ...jerk.rotationDeg] : [0, 0, 0, 0, 0, 0];
     // rounded to 1e-6 mm / deg so the written table and the applied transform agree exactly
