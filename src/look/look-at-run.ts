@@ -258,7 +258,7 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
   for (const [t, k] of spikesPerVolume) if (k >= SPIKE_VOXELS_FOR_CENSOR) censor.add(t);
   const censorVolumes = [...censor].sort((a, b) => a - b);
   const why: string[] = [];
-  if (drop > 0) why.push(`drop ${drop}: ${auto ? `steady state reached at volume ${drop} (data: ${onset.count}${modelCount !== null ? `, model: ${modelCount}` : ''})` : 'as requested'}`);
+  if (drop > 0) why.push(`drop ${drop}: ${auto ? `steady state reached at volume ${drop} (global mean: ${onset.count}${modelCount !== null ? `, grey-matter model: ${modelCount}` : ''}${perVoxel ? `, per-voxel model: ${perVoxel.count}` : ''})` : 'as requested'}`);
   if (censorVolumes.length) why.push(`censor ${describeVolumes(censorVolumes)}: flagged by DVARS, global mean, slice means or many simultaneous spikes`);
 
   return {
