@@ -1,4 +1,5 @@
 import { boundaryIndex, type BoundaryMode } from './boundary-index.js';
+import { convKernels, type ConvKernels } from './conv-wasm.js';
 
 /**
  * Everything the separable smoothing kernel needs, computed once per grid and width and reused
@@ -17,39 +18,51 @@ export interface SmoothPlan {
   maskWeights: Float64Array | null;
 }
 
-/** Reusable Float64 working memory for {@link applySmoothPlan} (one per thread). */
+/**
+ * Working memory for {@link applySmoothPlan}: byte addresses inside the WebAssembly memory of the
+ * convolution kernels (one memory per thread and set of radii). Layout: weights, tap offsets, a
+ * zero region ('constant' mode points missing rows and planes there), Float32 input/output, and two
+ * Float64 volumes whose rows are padded by the x radius on both sides.
+ */
 export interface SmoothScratch {
-  /** One volume after the x and y passes, plus a plane of zeros at the end ('constant' mode reads it). */
-  volume: Float64Array;
-  /** One plane after the x pass, plus a row of zeros at the end. */
-  planeX: Float64Array;
-  /** One plane after the z pass. */
-  planeZ: Float64Array;
-  /** One row extended past both ends by the x radius. */
-  line: Float64Array;
-  /** Row offsets of the taps of the row being computed. */
-  offsets: Int32Array;
+  kernels: ConvKernels;
+  /** Padded row length nx + 2 rx. */
+  px: number;
+  rx: number;
+  weights: number;
+  offsets: number;
+  zero: number;
+  io: number;
+  p: number;
+  a: number;
 }
 
+const align16 = (n: number): number => Math.ceil(n / 16) * 16;
+
 /**
- * Working memory for a plan: one Float64 volume, two planes, one extended line.
+ * Reserve (and grow, if needed) the WebAssembly memory a plan needs.
  * @param plan - the plan
- * @returns scratch buffers sized for it
+ * @returns the layout for {@link applySmoothPlan}
  * @example const s = makeSmoothScratch(plan)
  */
 export function makeSmoothScratch(plan: Pick<SmoothPlan, 'dims' | 'kernels'>): SmoothScratch {
   const [nx, ny, nz] = plan.dims;
-  const rx = (plan.kernels[0].length - 1) / 2;
-  const nxy = nx * ny;
-  // the zero tails let 'constant' mode point missing rows/planes inside the same array, so the
-  // inner loops read a single array (V8 compiles that much better than choosing arrays per tap)
-  return {
-    volume: new Float64Array(nxy * nz + nxy),
-    planeX: new Float64Array(nxy + nx),
-    planeZ: new Float64Array(nxy),
-    line: new Float64Array(nx + 2 * rx),
-    offsets: new Int32Array(Math.max(...plan.kernels.map((k) => k.length))),
-  };
+  const radii = plan.kernels.map((k) => (k.length - 1) / 2);
+  const rmax = Math.max(...radii);
+  const rx = radii[0];
+  const px = nx + 2 * rx;
+  const plane = px * ny;
+  const kernels = convKernels(radii);
+  const weights = 0;
+  const offsets = align16(weights + 3 * (rmax + 1) * 8);
+  const zero = align16(offsets + Math.max(1, 2 * rmax) * 4);
+  const io = align16(zero + plane * 8);
+  const p = align16(io + nx * ny * nz * 4);
+  const a = align16(p + plane * nz * 8);
+  const bytes = a + plane * nz * 8 + 64;
+  const pages = Math.ceil(bytes / 65536) - kernels.memory.buffer.byteLength / 65536;
+  if (pages > 0) kernels.memory.grow(pages);
+  return { kernels, px, rx, weights, offsets, zero, io, p, a };
 }
 
 /**
@@ -68,7 +81,9 @@ export function makeSmoothPlan(dims: [number, number, number], kernels: [Float64
     const ones = new Float32Array(n);
     for (let i = 0; i < n; i++) ones[i] = mask[i] ? 1 : 0;
     const weights = new Float64Array(n);
-    separablePasses(ones, null, plan, makeSmoothScratch(plan), null, weights);
+    const scratch = makeSmoothScratch(plan);
+    separablePasses(ones, null, plan, scratch);
+    readResult(plan, scratch, weights);
     plan.mask = mask;
     plan.maskWeights = weights;
   }
@@ -76,9 +91,9 @@ export function makeSmoothPlan(dims: [number, number, number], kernels: [Float64
 }
 
 /**
- * Smooth one volume with a plan: x, y and z passes in Float64, result rounded once to Float32.
- * With a mask: out = smooth(data*mask) / smooth(mask) inside, 0 outside. `out` may be `src`
- * (the source is fully read before the output is written).
+ * Smooth one volume with a plan: x, y and z passes in Float64 (WebAssembly SIMD, see conv-wasm.ts),
+ * result rounded once to Float32. With a mask: out = smooth(data*mask) / smooth(mask) inside, 0
+ * outside. `out` may be `src` (the source is fully read before the output is written).
  * @param plan - from {@link makeSmoothPlan}
  * @param src - one volume, length nx*ny*nz
  * @param out - where to write, same length
@@ -87,140 +102,112 @@ export function makeSmoothPlan(dims: [number, number, number], kernels: [Float64
  * @example applySmoothPlan(plan, volumeData, new Float32Array(volumeData.length), makeSmoothScratch(plan))
  */
 export function applySmoothPlan(plan: SmoothPlan, src: Float32Array, out: Float32Array, scratch: SmoothScratch): Float32Array {
+  separablePasses(src, plan.mask, plan, scratch);
+  const [nx, ny, nz] = plan.dims;
+  const { kernels, px, rx, io, a } = scratch;
   const mask = plan.mask;
   const weights = plan.maskWeights;
-  separablePasses(src, mask, plan, scratch, out, null);
+  const n = nx * ny * nz;
+  if (mask && weights) {
+    const f64 = new Float64Array(kernels.memory.buffer);
+    for (let q = 0; q < ny * nz; q++) {
+      const row = a / 8 + q * px + rx;
+      const o = q * nx;
+      for (let i = 0; i < nx; i++) out[o + i] = mask[o + i] ? f64[row + i] / weights[o + i] : 0;
+    }
+  } else {
+    kernels.narrow(io, a + rx * 8, ny * nz, nx, px);
+    out.set(new Float32Array(kernels.memory.buffer, io, n));
+  }
   return out;
 }
 
-/**
- * The weighted sum at the heart of every pass, for one output row of `len` values:
- * dst[dOff + i] = w0 src[c + i] + w1 (src[m1 + i] + src[p1 + i]) + ... + wr (src[mr + i] + src[pr + i])
- * with offsets = [c, m1, p1, m2, p2, ...]. Summed left to right in Float64 in one fixed order, so every
- * caller (main thread or worker) gets the same bits. Up to three taps go in the first sweep and two
- * per later sweep: unrolled loops over a single array are what V8 compiles well.
- */
-function weightedRows(dst: Float64Array, dOff: number, len: number, src: Float64Array, offsets: Int32Array, w: Float64Array, r: number): void {
-  const c = offsets[0];
-  const w0 = w[0];
-  if (r === 0) {
-    for (let i = 0; i < len; i++) dst[dOff + i] = w0 * src[c + i];
-    return;
-  }
-  const m1 = offsets[1], p1 = offsets[2], w1 = w[1];
-  if (r === 1) {
-    for (let i = 0; i < len; i++) dst[dOff + i] = w0 * src[c + i] + w1 * (src[m1 + i] + src[p1 + i]);
-    return;
-  }
-  const m2 = offsets[3], p2 = offsets[4], w2 = w[2];
-  if (r === 2) {
-    for (let i = 0; i < len; i++) dst[dOff + i] = w0 * src[c + i] + w1 * (src[m1 + i] + src[p1 + i]) + w2 * (src[m2 + i] + src[p2 + i]);
-    return;
-  }
-  const m3 = offsets[5], p3 = offsets[6], w3 = w[3];
-  for (let i = 0; i < len; i++) {
-    dst[dOff + i] = w0 * src[c + i] + w1 * (src[m1 + i] + src[p1 + i]) + w2 * (src[m2 + i] + src[p2 + i]) + w3 * (src[m3 + i] + src[p3 + i]);
-  }
-  for (let d = 4; d <= r; d += 2) {
-    const ma = offsets[2 * d - 1], pa = offsets[2 * d], wa = w[d];
-    if (d === r) {
-      for (let i = 0; i < len; i++) dst[dOff + i] = dst[dOff + i] + wa * (src[ma + i] + src[pa + i]);
-      break;
-    }
-    const mb = offsets[2 * d + 1], pb = offsets[2 * d + 2], wb = w[d + 1];
-    for (let i = 0; i < len; i++) dst[dOff + i] = dst[dOff + i] + wa * (src[ma + i] + src[pa + i]) + wb * (src[mb + i] + src[pb + i]);
-  }
-}
-
-/** Right half of a symmetric kernel: w[d] = k[r + d], d = 0..r. */
-function halfKernel(k: Float64Array): Float64Array {
-  const r = (k.length - 1) / 2;
-  return k.slice(r);
-}
-
-/** Fill `offsets` with the row offsets of the taps around row j of nAxis rows of `inner` values from `base`. */
-function tapOffsets(offsets: Int32Array, base: number, j: number, nAxis: number, inner: number, r: number, mode: BoundaryMode, zeroOffset: number): void {
-  offsets[0] = base + j * inner;
-  for (let d = 1; d <= r; d++) {
-    const jm = boundaryIndex(j - d, nAxis, mode);
-    const jp = boundaryIndex(j + d, nAxis, mode);
-    offsets[2 * d - 1] = jm < 0 ? zeroOffset : base + jm * inner;
-    offsets[2 * d] = jp < 0 ? zeroOffset : base + jp * inner;
-  }
-}
-
-/** y pass of one plane: rows of `inner` values of `src` (from 0) combined into `dst` from `dstBase`. */
-function axisPass(src: Float64Array, dst: Float64Array, dstBase: number, nAxis: number, inner: number, w: Float64Array, mode: BoundaryMode, offsets: Int32Array, zeroOffset: number): void {
-  const r = w.length - 1;
-  for (let j = 0; j < nAxis; j++) {
-    tapOffsets(offsets, 0, j, nAxis, inner, r, mode, zeroOffset);
-    weightedRows(dst, dstBase + j * inner, inner, src, offsets, w, r);
-  }
-}
-
-/** z pass for output plane k: planes of `inner` values of `src` combined into `dst` (from 0). */
-function axisPlane(src: Float64Array, dst: Float64Array, k: number, nAxis: number, inner: number, w: Float64Array, mode: BoundaryMode, offsets: Int32Array, zeroOffset: number): void {
-  const r = w.length - 1;
-  tapOffsets(offsets, 0, k, nAxis, inner, r, mode, zeroOffset);
-  weightedRows(dst, 0, inner, src, offsets, w, r);
-}
-
-/**
- * The three separable passes. Plane by plane: x (each row copied, times the mask, into an extended
- * line, then combined) and y (rows of the plane combined) into `scratch.volume`; then z: whole planes
- * combined into one plane, which is stored (Float32, with the normalised-convolution division when a
- * mask is given) or, for the mask weights, kept in Float64. Every step walks memory in order.
- */
-function separablePasses(src: Float32Array, mask: Uint8Array | null, plan: SmoothPlan | Pick<SmoothPlan, 'dims' | 'kernels' | 'mode'>, scratch: SmoothScratch, out: Float32Array | null, outF64: Float64Array | null): void {
+/** Copy the Float64 result rows (valid part) of the last passes into `out`. */
+function readResult(plan: Pick<SmoothPlan, 'dims'>, scratch: SmoothScratch, out: Float64Array): void {
   const [nx, ny, nz] = plan.dims;
-  const { volume, planeX, planeZ, line, offsets } = scratch;
-  const nxy = nx * ny;
-  const n = nxy * nz;
-  const wx = halfKernel(plan.kernels[0]);
-  const wy = halfKernel(plan.kernels[1]);
-  const wz = halfKernel(plan.kernels[2]);
-  const rx = wx.length - 1;
-  const ext = new Int32Array(nx + 2 * rx);
-  for (let t = 0; t < ext.length; t++) ext[t] = boundaryIndex(t - rx, nx, plan.mode);
-  const xOffsets = new Int32Array(2 * rx + 1);
-  xOffsets[0] = rx;
+  const f64 = new Float64Array(scratch.kernels.memory.buffer);
+  for (let q = 0; q < ny * nz; q++) {
+    const row = scratch.a / 8 + q * scratch.px + scratch.rx;
+    out.set(f64.subarray(row, row + nx), q * nx);
+  }
+}
+
+/**
+ * The three separable passes, leaving the result in the padded Float64 volume at `scratch.a`.
+ * x: rows are widened to Float64 with the boundary extension written into their padding, then one
+ * kernel call sweeps the whole padded volume. y and z: each block of interior rows (planes) is one
+ * call with neighbours at a fixed distance; the r rows (planes) at each edge get their own offsets
+ * from {@link boundaryIndex}.
+ */
+function separablePasses(src: Float32Array, mask: Uint8Array | null, plan: Pick<SmoothPlan, 'dims' | 'kernels' | 'mode'>, scratch: SmoothScratch): void {
+  const [nx, ny, nz] = plan.dims;
+  const { kernels, px, rx, weights, offsets, zero, io, p, a } = scratch;
+  const buf = kernels.memory.buffer;
+  const f64 = new Float64Array(buf);
+  const i32 = new Int32Array(buf);
+  const n = nx * ny * nz;
+  const rows = ny * nz;
+  const plane = px * ny;
+  const radii = plan.kernels.map((k) => (k.length - 1) / 2);
+  const stride = Math.max(...radii) + 1;
+  plan.kernels.forEach((k, axis) => {
+    const r = radii[axis];
+    for (let d = 0; d <= r; d++) f64[weights / 8 + axis * stride + d] = k[r + d];
+  });
+  const wAddr = (axis: number) => weights + axis * stride * 8;
+  // the memory is shared by every plan with these radii in this thread: re-zero what 'constant' reads
+  if (plan.mode === 'constant') f64.fill(0, zero / 8, zero / 8 + plane);
+
+  // x pass: src -> p (padded Float64 rows) -> a
+  new Float32Array(buf, io, n).set(src);
+  kernels.widen(p + rx * 8, io, rows, nx, px);
+  const ext: number[] = [];
+  for (let t = 0; t < rx; t++) ext.push(boundaryIndex(t - rx, nx, plan.mode));
+  for (let t = 0; t < rx; t++) ext.push(boundaryIndex(nx + t, nx, plan.mode));
+  for (let q = 0; q < rows; q++) {
+    const row = p / 8 + q * px;
+    const o = q * nx;
+    if (mask) for (let i = 0; i < nx; i++) if (!mask[o + i]) f64[row + rx + i] = 0;
+    for (let t = 0; t < 2 * rx; t++) {
+      const idx = ext[t];
+      const v = idx < 0 || (mask && !mask[o + idx]) ? 0 : src[o + idx];
+      f64[row + (t < rx ? t : nx + t)] = v;
+    }
+  }
   for (let d = 1; d <= rx; d++) {
-    xOffsets[2 * d - 1] = rx - d;
-    xOffsets[2 * d] = rx + d;
+    i32[offsets / 4 + 2 * (d - 1)] = -8 * d;
+    i32[offsets / 4 + 2 * (d - 1) + 1] = 8 * d;
   }
+  kernels.conv.get(rx)!(a, p, plane * nz, offsets, wAddr(0));
 
-  for (let k = 0; k < nz; k++) {
-    // x pass: plane k of src -> planeX
-    for (let j = 0; j < ny; j++) {
-      const base = k * nxy + j * nx;
-      if (mask) {
-        for (let t = 0; t < ext.length; t++) {
-          const q = ext[t];
-          line[t] = q < 0 ? 0 : mask[base + q] ? src[base + q] : 0;
-        }
-      } else {
-        for (let t = 0; t < ext.length; t++) {
-          const q = ext[t];
-          line[t] = q < 0 ? 0 : src[base + q];
-        }
-      }
-      weightedRows(planeX, j * nx, nx, line, xOffsets, wx, rx);
+  // y pass: a -> p; z pass: p -> a
+  for (let k = 0; k < nz; k++) axisPass(kernels, radii[1], p + k * plane * 8, a + k * plane * 8, ny, px, plan.mode, offsets, zero, wAddr(1), i32);
+  axisPass(kernels, radii[2], a, p, nz, plane, plan.mode, offsets, zero, wAddr(2), i32);
+}
+
+/**
+ * One pass along an axis of `nAxis` rows of `inner` Float64 values each (y: rows of a plane; z:
+ * planes of the volume), from byte address `src` to `dst`.
+ */
+function axisPass(kernels: ConvKernels, r: number, dst: number, src: number, nAxis: number, inner: number, mode: BoundaryMode, offsets: number, zero: number, w: number, i32: Int32Array): void {
+  const conv = kernels.conv.get(r)!;
+  const step = inner * 8;
+  if (nAxis > 2 * r) {
+    for (let d = 1; d <= r; d++) {
+      i32[offsets / 4 + 2 * (d - 1)] = -step * d;
+      i32[offsets / 4 + 2 * (d - 1) + 1] = step * d;
     }
-    // y pass: planeX -> plane k of volume
-    axisPass(planeX, volume, k * nxy, ny, nx, wy, plan.mode, offsets, nxy);
+    conv(dst + r * step, src + r * step, (nAxis - 2 * r) * inner, offsets, w);
   }
-
-  // z pass: volume -> planeZ, one output plane at a time, then store it
-  const weights = 'maskWeights' in plan ? plan.maskWeights : null;
-  for (let k = 0; k < nz; k++) {
-    axisPlane(volume, planeZ, k, nz, nxy, wz, plan.mode, offsets, n);
-    const o = k * nxy;
-    if (outF64) {
-      for (let p = 0; p < nxy; p++) outF64[o + p] = planeZ[p];
-    } else if (out && mask && weights) {
-      for (let p = 0; p < nxy; p++) out[o + p] = mask[o + p] ? planeZ[p] / weights[o + p] : 0;
-    } else if (out) {
-      for (let p = 0; p < nxy; p++) out[o + p] = planeZ[p];
+  for (let j = 0; j < nAxis; j++) {
+    if (j >= r && j < nAxis - r) continue;
+    const here = src + j * step;
+    for (let d = 1; d <= r; d++) {
+      const jm = boundaryIndex(j - d, nAxis, mode);
+      const jp = boundaryIndex(j + d, nAxis, mode);
+      i32[offsets / 4 + 2 * (d - 1)] = jm < 0 ? zero - here : (jm - j) * step;
+      i32[offsets / 4 + 2 * (d - 1) + 1] = jp < 0 ? zero - here : (jp - j) * step;
     }
+    conv(dst + j * step, here, inner, offsets, w);
   }
 }

@@ -57,14 +57,20 @@ export async function smoothRun(volume: Volume, options: SmoothRunOptions): Prom
     return makeVolume({ ...like, data: output });
   }
 
-  const input = volume.data.buffer instanceof SharedArrayBuffer ? volume.data : sharedCopy(volume.data);
+  const alreadyShared = volume.data.buffer instanceof SharedArrayBuffer;
+  const input = alreadyShared ? volume.data : new Float32Array(new SharedArrayBuffer(total * 4));
   const output = new Float32Array(new SharedArrayBuffer(total * 4));
   const shared = { ...base, mask: plan.mask && sharedCopy(plan.mask), maskWeights: plan.maskWeights && sharedCopy(plan.maskWeights) };
   const pool = sharedWorkerPool<SmoothVolumesTask, number>(new URL('./smooth-worker.js', import.meta.url), workers);
-  // several chunks per worker so a slow thread does not hold up the end
+  // several chunks per worker so a slow thread does not hold up the end; each chunk is copied into
+  // shared memory just before it is queued, so workers start while the rest is still being copied
   const chunk = Math.max(1, Math.ceil(nt / (workers * 4)));
   const jobs: Promise<number>[] = [];
-  for (let t = 0; t < nt; t += chunk) jobs.push(pool.run({ ...shared, input, output, tStart: t, tEnd: Math.min(nt, t + chunk) }));
+  for (let t = 0; t < nt; t += chunk) {
+    const tEnd = Math.min(nt, t + chunk);
+    if (!alreadyShared) input.set(volume.data.subarray(t * n, tEnd * n), t * n);
+    jobs.push(pool.run({ ...shared, input, output, tStart: t, tEnd }));
+  }
   await Promise.all(jobs);
   return makeVolume({ ...like, data: output });
 }

@@ -1,0 +1,197 @@
+import { fail } from '../core/fail.js';
+
+/**
+ * A symmetric 1-D convolution kernel compiled to WebAssembly SIMD (two Float64 lanes), generated
+ * here byte by byte for each radius r with the taps unrolled. For i = 0..len-1 it computes
+ *   dst[i] = w0 src[i] + w1 (src[i + m1] + src[i + p1]) + ... + wr (src[i + mr] + src[i + pr])
+ * summed left to right in Float64 (WebAssembly never fuses multiply-add, so every thread and lane
+ * gives the same bits as the scalar expression). Offsets are relative, in bytes, so one call can sweep
+ * a whole block of rows or planes whose neighbours lie at a fixed distance.
+ *
+ * Call signature of `conv[r]`: (dst, src, len, offs, w) with dst/src byte addresses in `memory`,
+ * len the number of Float64 values, offs the address of 2r Int32 byte offsets [m1, p1, m2, p2, ...]
+ * and w the address of r + 1 Float64 weights [w0 .. wr].
+ */
+export interface ConvKernels {
+  memory: WasmMemory;
+  conv: Map<number, (dst: number, src: number, len: number, offs: number, w: number) => void>;
+  /** Float32 rows (stride nx values) -> Float64 rows (stride px values): (dst, src, rows, nx, px). */
+  widen: (dst: number, src: number, rows: number, nx: number, px: number) => void;
+  /** Float64 rows (stride px values) -> Float32 rows (stride nx values), rounded to nearest: (dst, src, rows, nx, px). */
+  narrow: (dst: number, src: number, rows: number, nx: number, px: number) => void;
+}
+
+/** The part of WebAssembly.Memory used here (the project's TypeScript lib has no WebAssembly types). */
+export interface WasmMemory {
+  readonly buffer: ArrayBuffer;
+  grow(pages: number): number;
+}
+interface WasmApi {
+  Module: new (bytes: Uint8Array) => object;
+  Instance: new (module: object) => { exports: Record<string, unknown> };
+}
+const wasm = (globalThis as unknown as { WebAssembly: WasmApi }).WebAssembly;
+
+// opcodes (WebAssembly core spec 1.0 and the fixed-width SIMD proposal)
+const OP = {
+  block: 0x02, loop: 0x03, if: 0x04, end: 0x0b, br: 0x0c, brIf: 0x0d, void: 0x40,
+  localGet: 0x20, localSet: 0x21, i32Load: 0x28, f64Load: 0x2b, f64Store: 0x39, i32Const: 0x41,
+  i32GeU: 0x4f, i32Add: 0x6a, i32Mul: 0x6c, i32And: 0x71, i32Shl: 0x74, f64Add: 0xa0, f64Mul: 0xa2, simd: 0xfd,
+  f32Load: 0x2a, f32Store: 0x38, f32DemoteF64: 0xb6, f64PromoteF32: 0xbb,
+} as const;
+const SIMD = { v128Load: 0x00, v128Store: 0x0b, f64x2Splat: 0x14, f64x2Add: 0xf0, f64x2Mul: 0xf2 } as const;
+const T = { i32: 0x7f, f64: 0x7c, v128: 0x7b, func: 0x60 } as const;
+
+function uleb(n: number): number[] {
+  const out: number[] = [];
+  do {
+    let b = n & 0x7f;
+    n >>>= 7;
+    if (n !== 0) b |= 0x80;
+    out.push(b);
+  } while (n !== 0);
+  return out;
+}
+function sleb(n: number): number[] {
+  const out: number[] = [];
+  for (;;) {
+    const b = n & 0x7f;
+    n >>= 7;
+    if ((n === 0 && (b & 0x40) === 0) || (n === -1 && (b & 0x40) !== 0)) { out.push(b); return out; }
+    out.push(b | 0x80);
+  }
+}
+const str = (s: string): number[] => [...uleb(s.length), ...Array.from(s, (c) => c.charCodeAt(0))];
+const section = (id: number, body: number[]): number[] => [id, ...uleb(body.length), ...body];
+const vec = (items: number[][]): number[] => [...uleb(items.length), ...items.flat()];
+const simd = (op: number, ...rest: number[]): number[] => [OP.simd, ...uleb(op), ...rest];
+
+/** Body of conv for radius r (see {@link ConvKernels}). */
+function convBody(r: number): number[] {
+  // params: 0 dst, 1 src, 2 len, 3 offs, 4 w; locals: 5 i, 6 end2, then bases, vector and scalar weights
+  const I = 5, END = 6;
+  const bm = (d: number) => 7 + 2 * (d - 1);
+  const bp = (d: number) => 8 + 2 * (d - 1);
+  const wv = (d: number) => 7 + 2 * r + d;
+  const ws = (d: number) => 8 + 3 * r + d;
+  const get = (l: number) => [OP.localGet, ...uleb(l)];
+  const set = (l: number) => [OP.localSet, ...uleb(l)];
+  const code: number[] = [];
+  // prologue: absolute tap bases (src + offset) and weights
+  for (let d = 1; d <= r; d++) {
+    code.push(...get(1), ...get(3), OP.i32Load, 2, ...uleb(8 * (d - 1)), OP.i32Add, ...set(bm(d)));
+    code.push(...get(1), ...get(3), OP.i32Load, 2, ...uleb(8 * (d - 1) + 4), OP.i32Add, ...set(bp(d)));
+  }
+  for (let d = 0; d <= r; d++) {
+    code.push(...get(4), OP.f64Load, 3, ...uleb(8 * d), ...set(ws(d)));
+    code.push(...get(ws(d)), ...simd(SIMD.f64x2Splat), ...set(wv(d)));
+  }
+  // end2 = (len & ~1) * 8 bytes
+  code.push(...get(2), OP.i32Const, ...sleb(-2), OP.i32And, OP.i32Const, 3, OP.i32Shl, ...set(END));
+  code.push(OP.i32Const, 0, ...set(I));
+  // vector loop, two values per step
+  code.push(OP.block, OP.void, OP.loop, OP.void);
+  code.push(...get(I), ...get(END), OP.i32GeU, OP.brIf, 1);
+  code.push(...get(0), ...get(I), OP.i32Add); // store address
+  code.push(...get(1), ...get(I), OP.i32Add, ...simd(SIMD.v128Load, 3, 0), ...get(wv(0)), ...simd(SIMD.f64x2Mul));
+  for (let d = 1; d <= r; d++) {
+    code.push(...get(bm(d)), ...get(I), OP.i32Add, ...simd(SIMD.v128Load, 3, 0));
+    code.push(...get(bp(d)), ...get(I), OP.i32Add, ...simd(SIMD.v128Load, 3, 0));
+    code.push(...simd(SIMD.f64x2Add), ...get(wv(d)), ...simd(SIMD.f64x2Mul), ...simd(SIMD.f64x2Add));
+  }
+  code.push(...simd(SIMD.v128Store, 3, 0));
+  code.push(...get(I), OP.i32Const, 16, OP.i32Add, ...set(I), OP.br, 0, OP.end, OP.end);
+  // odd tail: one scalar value at i = end2
+  code.push(...get(2), OP.i32Const, 1, OP.i32And, OP.if, OP.void);
+  code.push(...get(0), ...get(END), OP.i32Add);
+  code.push(...get(1), ...get(END), OP.i32Add, OP.f64Load, 3, 0, ...get(ws(0)), OP.f64Mul);
+  for (let d = 1; d <= r; d++) {
+    code.push(...get(bm(d)), ...get(END), OP.i32Add, OP.f64Load, 3, 0);
+    code.push(...get(bp(d)), ...get(END), OP.i32Add, OP.f64Load, 3, 0);
+    code.push(OP.f64Add, ...get(ws(d)), OP.f64Mul, OP.f64Add);
+  }
+  code.push(OP.f64Store, 3, 0, OP.end);
+  code.push(OP.end);
+  const locals = vec([[...uleb(2 + 2 * r), T.i32], [...uleb(r + 1), T.v128], [...uleb(r + 1), T.f64]]);
+  const body = [...locals, ...code];
+  return [...uleb(body.length), ...body];
+}
+
+/**
+ * Body of a row copy with type change: params dst, src, rows, nx, px (Float64 rows have stride px,
+ * Float32 rows stride nx); `widen` reads Float32 and writes Float64, `narrow` the reverse.
+ */
+function copyRowsBody(widen: boolean): number[] {
+  const Q = 5, I = 6, DP = 7, SP = 8;
+  const get = (l: number) => [OP.localGet, l];
+  const set = (l: number) => [OP.localSet, l];
+  const [dstShift, srcShift] = widen ? [3, 2] : [2, 3];
+  const code: number[] = [
+    ...get(0), ...set(DP), ...get(1), ...set(SP), OP.i32Const, 0, ...set(Q),
+    OP.block, OP.void, OP.loop, OP.void,
+    ...get(Q), ...get(2), OP.i32GeU, OP.brIf, 1,
+    OP.i32Const, 0, ...set(I),
+    OP.block, OP.void, OP.loop, OP.void,
+    ...get(I), ...get(3), OP.i32GeU, OP.brIf, 1,
+    ...get(DP), ...get(I), OP.i32Const, dstShift, OP.i32Shl, OP.i32Add,
+    ...get(SP), ...get(I), OP.i32Const, srcShift, OP.i32Shl, OP.i32Add,
+    ...(widen ? [OP.f32Load, 2, 0, OP.f64PromoteF32, OP.f64Store, 3, 0] : [OP.f64Load, 3, 0, OP.f32DemoteF64, OP.f32Store, 2, 0]),
+    ...get(I), OP.i32Const, 1, OP.i32Add, ...set(I), OP.br, 0, OP.end, OP.end,
+    // next row: Float64 side advances px values, Float32 side nx values
+    ...get(DP), ...get(widen ? 4 : 3), OP.i32Const, dstShift, OP.i32Shl, OP.i32Add, ...set(DP),
+    ...get(SP), ...get(widen ? 3 : 4), OP.i32Const, srcShift, OP.i32Shl, OP.i32Add, ...set(SP),
+    ...get(Q), OP.i32Const, 1, OP.i32Add, ...set(Q), OP.br, 0, OP.end, OP.end,
+    OP.end,
+  ];
+  const body = [...vec([[4, T.i32]]), ...code];
+  return [...uleb(body.length), ...body];
+}
+
+/**
+ * Bytes of a WebAssembly module exporting `memory`, one function `conv<r>` per radius, `widen` and `narrow`.
+ * @param radii - distinct kernel radii (0 allowed)
+ * @returns the module bytes
+ * @example new WebAssembly.Module(convModuleBytes([3]))
+ */
+export function convModuleBytes(radii: readonly number[]): Uint8Array {
+  const type = [T.func, ...vec([[T.i32], [T.i32], [T.i32], [T.i32], [T.i32]]), 0];
+  const bytes = [
+    0x00, 0x61, 0x73, 0x6d, 0x01, 0x00, 0x00, 0x00,
+    ...section(1, vec([type])),
+    ...section(3, vec([...radii.map(() => [0]), [0], [0]])),
+    ...section(5, vec([[0x00, 1]])), // one memory, at least one 64 KiB page, grown on demand
+    ...section(7, vec([
+      [...str('memory'), 0x02, 0],
+      ...radii.map((r, k) => [...str(`conv${r}`), 0x00, ...uleb(k)]),
+      [...str('widen'), 0x00, ...uleb(radii.length)],
+      [...str('narrow'), 0x00, ...uleb(radii.length + 1)],
+    ])),
+    ...section(10, vec([...radii.map((r) => convBody(r)), copyRowsBody(true), copyRowsBody(false)])),
+  ];
+  return Uint8Array.from(bytes);
+}
+
+const cache = new Map<string, ConvKernels>();
+
+/**
+ * The convolution kernels for a set of radii, compiled once per thread and cached.
+ * @param radii - kernel radii needed (e.g. [rx, ry, rz])
+ * @returns memory and one function per radius
+ * @throws BoldsweepError INVALID_ARGUMENT when the radius is not a small non-negative integer
+ * @example const k = convKernels([3, 3, 2]); k.conv.get(3)!(dst, src, len, offs, w)
+ */
+export function convKernels(radii: readonly number[]): ConvKernels {
+  const distinct = [...new Set(radii)].sort((a, b) => a - b);
+  for (const r of distinct) if (!Number.isInteger(r) || r < 0 || r > 4096) fail('INVALID_ARGUMENT', `kernel radius must be an integer in 0..4096, got ${r}`);
+  const key = distinct.join(',');
+  let k = cache.get(key);
+  if (!k) {
+    const instance = new wasm.Instance(new wasm.Module(convModuleBytes(distinct)));
+    const conv = new Map<number, (dst: number, src: number, len: number, offs: number, w: number) => void>();
+    for (const r of distinct) conv.set(r, instance.exports[`conv${r}`] as (dst: number, src: number, len: number, offs: number, w: number) => void);
+    type RowCopy = (dst: number, src: number, rows: number, nx: number, px: number) => void;
+    k = { memory: instance.exports.memory as WasmMemory, conv, widen: instance.exports.widen as RowCopy, narrow: instance.exports.narrow as RowCopy };
+    cache.set(key, k);
+  }
+  return k;
+}
