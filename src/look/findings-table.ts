@@ -13,5 +13,5 @@ export function findingsTable(result: Pick<LookResult, 'findings'>): dfd.DataFra
   const rows = result.findings.map((f) => [
     f.kind, f.volumes.join(' '), f.slices.join(' '), f.voxels.length, f.verdict, f.reason, f.advice, JSON.stringify(f.evidence),
   ]);
-  return rows.length ? new dfd.DataFrame(rows, { columns }) : new dfd.DataFrame(Object.fromEntries(columns.map((c) => [c, [] as string[]])));
+  return new dfd.DataFrame(rows, { columns });
 }

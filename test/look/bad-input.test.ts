@@ -69,3 +69,12 @@ describe('look on bad input', () => {
     expectCode(() => checkUserMask(mask, run), 'GRID_MISMATCH');
   });
 });
+
+describe('findings table', () => {
+  it('is an empty table with the same columns when nothing was found', async () => {
+    const { findingsTable } = await import('../../src/look/findings-table.js');
+    const t = findingsTable({ findings: [] });
+    expect(t.shape).toEqual([0, 8]);
+    expect(t.columns).toContain('verdict');
+  });
+});
