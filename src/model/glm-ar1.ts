@@ -23,7 +23,7 @@ export interface GlmAr1Options extends GlmOptions {
  * 2. voxels are grouped into bins of rho (width 0.01 by default, common practice, no source) and each
  *    bin gets its own Prais-Winsten whitened design W X (rho = the bin centre);
  * 3. each voxel is refitted with its bin's design (the whitening of y is folded into the bin's
- *    projector, so the run is still read block by block without a whitened copy); residual
+ *    projector, so the run is read in place, never copied whitened); residual
  *    variance comes from the whitened residuals.
  * No spatial smoothing of the rho map. Degrees of freedom: nt - p - 1, counting the estimated
  * autocorrelation as one fitted parameter (a conservative convention, common practice, no source).

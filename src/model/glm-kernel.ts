@@ -1,52 +1,36 @@
 /*
  * Inner loops of the voxelwise GLM, shared by OLS and AR(1) fits. Private to src/model (not exported
  * from the barrel). Layout choices, all for speed in plain JavaScript (no SIMD):
- * - the run is read once per block of voxels: volume t of the block is contiguous in the run, so a
- *   block is gathered (transposed) into a small voxel-major Float64 buffer that stays in cache;
- * - projectors are stored t-major (nt x p) so the loop over t walks both arrays forward;
+ * - a voxel's series is read straight from the Float32 run (stride nvox per volume), two voxels at a
+ *   time; consecutive voxels share cache lines, so the ~nt lines a pair touches are reused by the
+ *   next pairs and the run streams through the cache once (a gathered copy of each block was tried
+ *   and was slower);
+ * - projectors are stored t-major (nt x p) so the loop over t walks them forward;
  * - two voxels share each projector load, and columns go three at a time into six scalar
- *   accumulators (registers), so the hot loop does no stores.
+ *   accumulators (registers), so the hot loop does no stores; Float64 accumulation throughout.
  */
-
-/**
- * Copy voxels idx[v0..v0+n) of every volume into buf, voxel-major (voxel i at buf[i*nt .. i*nt+nt)),
- * converting Float32 to Float64.
- * @param data - run data, nt volumes of nvox voxels
- * @param nvox - voxels per volume
- * @param nt - volumes
- * @param idx - voxel indices to read
- * @param v0 - first position in idx
- * @param n - number of voxels
- * @param buf - output, length >= n*nt
- * @example gatherBlock(run.data, nvox, nt, idx, 0, 64, buf)
- */
-export function gatherBlock(data: Float32Array, nvox: number, nt: number, idx: Int32Array, v0: number, n: number, buf: Float64Array): void {
-  for (let t = 0; t < nt; t++) {
-    const o = t * nvox;
-    for (let i = 0; i < n; i++) buf[i * nt + t] = data[o + idx[v0 + i]];
-  }
-}
 
 /**
  * Betas of one or two voxels: beta_j = sum_t proj[t, j] y_t, with proj t-major (nt x p) at offset po.
- * @param buf - voxel-major block buffer
- * @param ya - offset of the first voxel's series in buf
- * @param yb - offset of the second voxel's series, or -1 for one voxel only
+ * @param data - run data (nt volumes of nvox voxels)
+ * @param nvox - voxels per volume
+ * @param ya - index of the first voxel within a volume
+ * @param yb - index of the second voxel, or -1 for one voxel only
  * @param proj - projector(s), t-major
  * @param po - offset of this projector in proj
  * @param nt - volumes
  * @param p - columns
  * @param out - betas: first voxel at out[0..p), second at out[p..2p)
- * @example projectPair(buf, 0, nt, proj, 0, nt, p, b)
+ * @example projectPair(run.data, nvox, 10, 11, proj, 0, nt, p, b)
  */
-export function projectPair(buf: Float64Array, ya: number, yb: number, proj: Float64Array, po: number, nt: number, p: number, out: Float64Array): void {
+export function projectPair(data: Float32Array, nvox: number, ya: number, yb: number, proj: Float64Array, po: number, nt: number, p: number, out: Float64Array): void {
   let j = 0;
   if (yb >= 0) {
     for (; j + 2 < p; j += 3) {
       let a0 = 0, a1 = 0, a2 = 0, c0 = 0, c1 = 0, c2 = 0;
-      for (let t = 0, q = po + j; t < nt; t++, q += p) {
-        const y1 = buf[ya + t];
-        const y2 = buf[yb + t];
+      for (let t = 0, q = po + j, o = 0; t < nt; t++, q += p, o += nvox) {
+        const y1 = data[o + ya];
+        const y2 = data[o + yb];
         const w0 = proj[q], w1 = proj[q + 1], w2 = proj[q + 2];
         a0 += w0 * y1; a1 += w1 * y1; a2 += w2 * y1;
         c0 += w0 * y2; c1 += w1 * y2; c2 += w2 * y2;
@@ -56,9 +40,9 @@ export function projectPair(buf: Float64Array, ya: number, yb: number, proj: Flo
     }
     for (; j < p; j++) {
       let a0 = 0, c0 = 0;
-      for (let t = 0, q = po + j; t < nt; t++, q += p) {
-        a0 += proj[q] * buf[ya + t];
-        c0 += proj[q] * buf[yb + t];
+      for (let t = 0, q = po + j, o = 0; t < nt; t++, q += p, o += nvox) {
+        a0 += proj[q] * data[o + ya];
+        c0 += proj[q] * data[o + yb];
       }
       out[j] = a0;
       out[p + j] = c0;
@@ -67,27 +51,28 @@ export function projectPair(buf: Float64Array, ya: number, yb: number, proj: Flo
   }
   for (; j + 2 < p; j += 3) {
     let a0 = 0, a1 = 0, a2 = 0;
-    for (let t = 0, q = po + j; t < nt; t++, q += p) {
-      const y1 = buf[ya + t];
+    for (let t = 0, q = po + j, o = 0; t < nt; t++, q += p, o += nvox) {
+      const y1 = data[o + ya];
       a0 += proj[q] * y1; a1 += proj[q + 1] * y1; a2 += proj[q + 2] * y1;
     }
     out[j] = a0; out[j + 1] = a1; out[j + 2] = a2;
   }
   for (; j < p; j++) {
     let a0 = 0;
-    for (let t = 0, q = po + j; t < nt; t++, q += p) a0 += proj[q] * buf[ya + t];
+    for (let t = 0, q = po + j, o = 0; t < nt; t++, q += p, o += nvox) a0 += proj[q] * data[o + ya];
     out[j] = a0;
   }
 }
 
 /**
  * Residuals e = y - X b of one or two voxels, optionally AR(1)-whitened (e~_0 = sqrt(1-rho^2) e_0,
- * e~_t = e_t - rho e_{t-1}), returning the residual sums of squares; the residuals themselves are
- * written into ea / eb (length nt each). A second pass over the data rather than y'y - b'X'y: see
- * fitGlm for why.
- * @param buf - voxel-major block buffer
- * @param ya - offset of the first voxel
- * @param yb - offset of the second voxel, or -1
+ * e~_t = e_t - rho e_{t-1}); the residuals are written into ea / eb (length nt each), and
+ * out = [RSS of first, RSS of second, sum of y of first, sum of y of second]. A second pass over the
+ * data rather than y'y - b'X'y: see fitGlm for why.
+ * @param data - run data (nt volumes of nvox voxels)
+ * @param nvox - voxels per volume
+ * @param ya - index of the first voxel within a volume
+ * @param yb - index of the second voxel, or -1
  * @param x - design, row-major nt x p
  * @param nt - volumes
  * @param p - columns
@@ -95,40 +80,59 @@ export function projectPair(buf: Float64Array, ya: number, yb: number, proj: Flo
  * @param rho - AR(1) coefficient used for whitening (0: none)
  * @param ea - residual output for the first voxel
  * @param eb - residual output for the second voxel
- * @param rss - output [rss of first, rss of second]
- * @example residualPair(buf, 0, -1, x, nt, p, b, 0, ea, eb, rss)
+ * @param out - output, length 4
+ * @example residualPair(run.data, nvox, 10, -1, x, nt, p, b, 0, ea, eb, out)
  */
-export function residualPair(buf: Float64Array, ya: number, yb: number, x: Float64Array, nt: number, p: number, b: Float64Array, rho: number, ea: Float64Array, eb: Float64Array, rss: Float64Array): void {
+export function residualPair(data: Float32Array, nvox: number, ya: number, yb: number, x: Float64Array, nt: number, p: number, b: Float64Array, rho: number, ea: Float64Array, eb: Float64Array, out: Float64Array): void {
   const two = yb >= 0;
-  // columns three at a time; the first group starts from y, the last group also sums squares when
-  // no whitening is needed, so the residual arrays are walked as few times as possible
+  // columns three at a time (missing columns get weight 0 and a clamped x index); the first group
+  // reads the data, later groups update e, and the last group sums squares when no whitening follows
   const sumInLoop = rho === 0;
-  let ra = 0;
-  let rb = 0;
+  let ra = 0, rb = 0, sa = 0, sb = 0;
   for (let j = 0; j < p; j += 3) {
-    const first = j === 0;
     const last = j + 3 >= p;
-    const b0 = b[j], b1 = j + 1 < p ? b[j + 1] : 0, b2 = j + 2 < p ? b[j + 2] : 0;
-    // zero weights stand in for missing columns; their x index is clamped into the row
-    const k1 = j + 1 < p ? 1 : 0, k2 = j + 2 < p ? 2 : k1;
+    const k1 = j + 1 < p ? 1 : 0;
+    const k2 = j + 2 < p ? 2 : k1;
+    const b0 = b[j], b1 = k1 ? b[j + 1] : 0, b2 = j + 2 < p ? b[j + 2] : 0;
+    const sq = last && sumInLoop;
     if (two) {
-      const d0 = b[p + j], d1 = j + 1 < p ? b[p + j + 1] : 0, d2 = j + 2 < p ? b[p + j + 2] : 0;
-      for (let t = 0, q = j; t < nt; t++, q += p) {
-        const x0 = x[q], x1 = x[q + k1], x2 = x[q + k2];
-        const fa = (first ? buf[ya + t] : ea[t]) - (x0 * b0 + x1 * b1 + x2 * b2);
-        const fb = (first ? buf[yb + t] : eb[t]) - (x0 * d0 + x1 * d1 + x2 * d2);
-        ea[t] = fa;
-        eb[t] = fb;
-        if (last && sumInLoop) {
-          ra += fa * fa;
-          rb += fb * fb;
+      const d0 = b[p + j], d1 = k1 ? b[p + j + 1] : 0, d2 = j + 2 < p ? b[p + j + 2] : 0;
+      if (j === 0) {
+        for (let t = 0, q = 0, o = 0; t < nt; t++, q += p, o += nvox) {
+          const x0 = x[q], x1 = x[q + k1], x2 = x[q + k2];
+          const y1 = data[o + ya];
+          const y2 = data[o + yb];
+          sa += y1;
+          sb += y2;
+          const fa = y1 - (x0 * b0 + x1 * b1 + x2 * b2);
+          const fb = y2 - (x0 * d0 + x1 * d1 + x2 * d2);
+          ea[t] = fa;
+          eb[t] = fb;
+          if (sq) { ra += fa * fa; rb += fb * fb; }
         }
+      } else {
+        for (let t = 0, q = j; t < nt; t++, q += p) {
+          const x0 = x[q], x1 = x[q + k1], x2 = x[q + k2];
+          const fa = ea[t] - (x0 * b0 + x1 * b1 + x2 * b2);
+          const fb = eb[t] - (x0 * d0 + x1 * d1 + x2 * d2);
+          ea[t] = fa;
+          eb[t] = fb;
+          if (sq) { ra += fa * fa; rb += fb * fb; }
+        }
+      }
+    } else if (j === 0) {
+      for (let t = 0, q = 0, o = 0; t < nt; t++, q += p, o += nvox) {
+        const y1 = data[o + ya];
+        sa += y1;
+        const fa = y1 - (x[q] * b0 + x[q + k1] * b1 + x[q + k2] * b2);
+        ea[t] = fa;
+        if (sq) ra += fa * fa;
       }
     } else {
       for (let t = 0, q = j; t < nt; t++, q += p) {
-        const fa = (first ? buf[ya + t] : ea[t]) - (x[q] * b0 + x[q + k1] * b1 + x[q + k2] * b2);
+        const fa = ea[t] - (x[q] * b0 + x[q + k1] * b1 + x[q + k2] * b2);
         ea[t] = fa;
-        if (last && sumInLoop) ra += fa * fa;
+        if (sq) ra += fa * fa;
       }
     }
   }
@@ -140,8 +144,10 @@ export function residualPair(buf: Float64Array, ya: number, yb: number, x: Float
       for (let t = 0; t < nt; t++) rb += eb[t] * eb[t];
     }
   }
-  rss[0] = ra;
-  if (two) rss[1] = rb;
+  out[0] = ra;
+  out[1] = rb;
+  out[2] = sa;
+  out[3] = sb;
 }
 
 /** Prais-Winsten AR(1) whitening of a series in place (walks backwards so no copy is needed). */
@@ -179,68 +185,56 @@ export interface VoxelSweep {
   residuals: Float32Array | null;
 }
 
-/** Voxels per gathered block: 64 x nt Float64 values stay in L2 for nt up to a few hundred. */
-const BLOCK = 64;
-
 /**
- * Fit every voxel of `s.idx`: betas by projection, then residuals in a second pass over the cached
- * block. Voxels are paired when they share a group.
+ * Fit every voxel of `s.idx`: betas by projection, then residuals in a second pass (the pair's
+ * cache lines are still warm). Neighbouring voxels are paired when they share a group.
  * @param s - inputs and outputs
  * @example sweepVoxels({ data, nvox, nt, p, idx, x, proj, group: null, rhoOfGroup: null, betas, rss, mean: null, lag1: null, residuals: null })
  */
 export function sweepVoxels(s: VoxelSweep): void {
   const { data, nvox, nt, p, idx, x, proj, group, rhoOfGroup, betas, rss, mean, lag1, residuals } = s;
   const n = idx.length;
-  const buf = new Float64Array(BLOCK * nt);
   const b = new Float64Array(2 * p);
   const ea = new Float64Array(nt);
   const eb = new Float64Array(nt);
-  const r = new Float64Array(2);
+  const r = new Float64Array(4);
   const size = nt * p;
-  for (let v0 = 0; v0 < n; v0 += BLOCK) {
-    const m = Math.min(BLOCK, n - v0);
-    gatherBlock(data, nvox, nt, idx, v0, m, buf);
-    let i = 0;
-    while (i < m) {
-      const g = group ? group[v0 + i] : 0;
-      const pair = i + 1 < m && (group === null || group[v0 + i + 1] === g);
-      const ya = i * nt;
-      const yb = pair ? ya + nt : -1;
-      projectPair(buf, ya, yb, proj, g * size, nt, p, b);
-      const rho = rhoOfGroup ? rhoOfGroup[g] : 0;
-      if (lag1) {
-        // unwhitened residuals first, for the autocorrelation, then whitened RSS
-        residualPair(buf, ya, yb, x, nt, p, b, 0, ea, eb, r);
-        lag1[v0 + i] = lagProduct(ea, nt);
-        if (pair) lag1[v0 + i + 1] = lagProduct(eb, nt);
-        if (rho !== 0) {
-          whitenInPlace(ea, nt, rho);
-          r[0] = sumSquares(ea, nt);
-          if (pair) {
-            whitenInPlace(eb, nt, rho);
-            r[1] = sumSquares(eb, nt);
-          }
-        }
-      } else {
-        residualPair(buf, ya, yb, x, nt, p, b, rho, ea, eb, r);
-      }
-      for (let k = 0, c = pair ? 2 : 1; k < c; k++) {
-        const at = v0 + i + k;
-        for (let j = 0; j < p; j++) betas[j * n + at] = b[k * p + j];
-        rss[at] = r[k];
-        if (mean) {
-          let sum = 0;
-          for (let t = 0, o = ya + k * nt; t < nt; t++) sum += buf[o + t];
-          mean[at] = sum / nt;
-        }
-        if (residuals) {
-          const e = k === 0 ? ea : eb;
-          const vox = idx[at];
-          for (let t = 0; t < nt; t++) residuals[t * nvox + vox] = e[t];
+  let i = 0;
+  while (i < n) {
+    const g = group ? group[i] : 0;
+    const pair = i + 1 < n && (group === null || group[i + 1] === g);
+    const ya = idx[i];
+    const yb = pair ? idx[i + 1] : -1;
+    projectPair(data, nvox, ya, yb, proj, g * size, nt, p, b);
+    const rho = rhoOfGroup ? rhoOfGroup[g] : 0;
+    if (lag1) {
+      // unwhitened residuals first, for the autocorrelation, then whitened RSS
+      residualPair(data, nvox, ya, yb, x, nt, p, b, 0, ea, eb, r);
+      lag1[i] = lagProduct(ea, nt);
+      if (pair) lag1[i + 1] = lagProduct(eb, nt);
+      if (rho !== 0) {
+        whitenInPlace(ea, nt, rho);
+        r[0] = sumSquares(ea, nt);
+        if (pair) {
+          whitenInPlace(eb, nt, rho);
+          r[1] = sumSquares(eb, nt);
         }
       }
-      i += pair ? 2 : 1;
+    } else {
+      residualPair(data, nvox, ya, yb, x, nt, p, b, rho, ea, eb, r);
     }
+    for (let k = 0, c = pair ? 2 : 1; k < c; k++) {
+      const at = i + k;
+      for (let j = 0; j < p; j++) betas[j * n + at] = b[k * p + j];
+      rss[at] = r[k];
+      if (mean) mean[at] = r[2 + k] / nt;
+      if (residuals) {
+        const e = k === 0 ? ea : eb;
+        const vox = idx[at];
+        for (let t = 0; t < nt; t++) residuals[t * nvox + vox] = e[t];
+      }
+    }
+    i += pair ? 2 : 1;
   }
 }
 

@@ -6,15 +6,15 @@ import { sweepVoxels } from './glm-kernel.js';
 
 /**
  * Ordinary least squares GLM for every voxel at once. One pseudo-inverse (X'X)^-1 X' (from an SVD of
- * the design) serves all voxels; the run is read block by block (64 voxels x all volumes gathered
- * into a cached buffer), Float32 data with Float64 accumulators, so memory stays one copy of the run
- * plus p x voxels betas.
+ * the design) serves all voxels; each voxel's series is read straight from the Float32 run, two
+ * neighbouring voxels at a time, with Float64 accumulators, so memory stays one copy of the run plus
+ * p x voxels betas (see glm-kernel.ts for the loop layout).
  *
- * Residual sum of squares: computed from the residuals themselves in a second pass over the cached
- * block, not as y'y - beta'X'y. The shortcut subtracts two numbers of the size of sum y^2; with an
- * fMRI baseline ~100 times the noise, they agree in their first ~4 digits, and a near-perfect fit
- * can even give a negative RSS. The second pass costs about as much as the first but reads the
- * block from cache.
+ * Residual sum of squares: computed from the residuals themselves in a second pass over the voxel
+ * pair, not as y'y - beta'X'y. The shortcut subtracts two numbers of the size of sum y^2; with an
+ * fMRI baseline ~100 times the noise they agree in their first ~4 digits, and a near-perfect fit can
+ * even give a negative RSS. The second pass costs about as much as the first, but the pair's cache
+ * lines are still warm.
  * @param run - the run (not modified)
  * @param design - design with one row per volume
  * @param options - mask, keepResiduals
