@@ -171,27 +171,28 @@ export function convModuleBytes(radii: readonly number[]): Uint8Array {
   return Uint8Array.from(bytes);
 }
 
-const cache = new Map<string, ConvKernels>();
+let current: { maxRadius: number; kernels: ConvKernels } | null = null;
 
 /**
- * The convolution kernels for a set of radii, compiled once per thread and cached.
+ * The convolution kernels for radii 0..R (R at least the largest requested and at least 8),
+ * compiled once per thread. One module (and one memory) serves every plan of the thread; a larger
+ * radius replaces it, so memory does not pile up across a sweep of widths.
  * @param radii - kernel radii needed (e.g. [rx, ry, rz])
- * @returns memory and one function per radius
- * @throws BoldsweepError INVALID_ARGUMENT when the radius is not a small non-negative integer
+ * @returns memory, one function per radius 0..R, widen and narrow
+ * @throws BoldsweepError INVALID_ARGUMENT when a radius is not an integer in 0..4096
  * @example const k = convKernels([3, 3, 2]); k.conv.get(3)!(dst, src, len, offs, w)
  */
 export function convKernels(radii: readonly number[]): ConvKernels {
-  const distinct = [...new Set(radii)].sort((a, b) => a - b);
-  for (const r of distinct) if (!Number.isInteger(r) || r < 0 || r > 4096) fail('INVALID_ARGUMENT', `kernel radius must be an integer in 0..4096, got ${r}`);
-  const key = distinct.join(',');
-  let k = cache.get(key);
-  if (!k) {
-    const instance = new wasm.Instance(new wasm.Module(convModuleBytes(distinct)));
+  for (const r of radii) if (!Number.isInteger(r) || r < 0 || r > 4096) fail('INVALID_ARGUMENT', `kernel radius must be an integer in 0..4096, got ${r}`);
+  const need = Math.max(0, ...radii);
+  if (!current || current.maxRadius < need) {
+    const maxRadius = Math.max(8, need);
+    const all = Array.from({ length: maxRadius + 1 }, (_, r) => r);
+    const instance = new wasm.Instance(new wasm.Module(convModuleBytes(all)));
     const conv = new Map<number, (dst: number, src: number, len: number, offs: number, w: number) => void>();
-    for (const r of distinct) conv.set(r, instance.exports[`conv${r}`] as (dst: number, src: number, len: number, offs: number, w: number) => void);
+    for (const r of all) conv.set(r, instance.exports[`conv${r}`] as (dst: number, src: number, len: number, offs: number, w: number) => void);
     type RowCopy = (dst: number, src: number, rows: number, nx: number, px: number) => void;
-    k = { memory: instance.exports.memory as WasmMemory, conv, widen: instance.exports.widen as RowCopy, narrow: instance.exports.narrow as RowCopy };
-    cache.set(key, k);
+    current = { maxRadius, kernels: { memory: instance.exports.memory as WasmMemory, conv, widen: instance.exports.widen as RowCopy, narrow: instance.exports.narrow as RowCopy } };
   }
-  return k;
+  return current.kernels;
 }
