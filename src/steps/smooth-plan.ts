@@ -20,7 +20,7 @@ export interface SmoothPlan {
 
 /**
  * Working memory for {@link applySmoothPlan}: byte addresses inside the WebAssembly memory of the
- * convolution kernels (one memory per thread and set of radii). Layout: weights, tap offsets, a
+ * convolution kernels (one memory per thread, see conv-wasm.ts). Layout: weights, tap offsets, a
  * zero region ('constant' mode points missing rows and planes there), Float32 input/output, and two
  * Float64 volumes whose rows are padded by the x radius on both sides.
  */
