@@ -43,8 +43,10 @@ export const highpassStep: StepFunction<HighpassParams> = (volume, params) => {
       params: { cutoffSec },
       summary: `High-pass filter, cutoff ${cutoffSec} s (${k - 1} cosine regressors removed, mean kept)`,
       diagnostics: { cutoffSec, cutoffHz, cosineRegressors: k - 1, regressorsWithConstant: k, runDurationSec: nt * volume.trSec },
-      methodsText: `Slow signal drifts were removed with a high-pass filter of ${cutoffSec} s cutoff (${cutoffHz.toFixed(4)} Hz): each voxel's least-squares fit on ` +
-        `${k - 1} discrete cosine regressors (periods from ${(2 * nt * volume.trSec).toFixed(0)} s down to ${((2 * nt * volume.trSec) / Math.max(1, k - 1)).toFixed(0)} s) was subtracted and its mean kept.`,
+      methodsText: k === 1
+        ? `No drift was removed: a ${cutoffSec} s high-pass cutoff is longer than twice the run (${(2 * nt * volume.trSec).toFixed(0)} s), so no cosine regressor fits below it.`
+        : `Slow signal drifts were removed with a high-pass filter of ${cutoffSec} s cutoff (${cutoffHz.toFixed(4)} Hz): each voxel's least-squares fit on ` +
+          `${k - 1} discrete cosine regressors (periods from ${(2 * nt * volume.trSec).toFixed(0)} s down to ${((2 * nt * volume.trSec) / (k - 1)).toFixed(0)} s) was subtracted and its mean kept.`,
       citations: [],
     },
   };
