@@ -4,8 +4,9 @@
  * the same seeded 64 x 64 x 36 x 200 float32 run reshaped (200, voxels) and the same 6-column design
  * (two event conditions, linear and quadratic drift, intercept, plus one nuisance column). Both fit
  * every voxel, no mask. Ours: one warm-up call, then the median of 5; numpy: median of 3.
- * Prints
- *   bench glm-seconds <s> s, bench numpy-lstsq-seconds <s> s, ratio glm-vs-numpy <ours / numpy>,
+ * Also times fitGlmAr1 (OLS pass, Worsley-corrected rho, 0.01 bins, refit) on the same run, median
+ * of 3, for information (numpy has no counterpart). Prints
+ *   bench glm-seconds <s> s, bench glm-ar1-seconds <s> s, bench numpy-lstsq-seconds <s> s, ratio glm-vs-numpy <ours / numpy>,
  *   bench glm-max-rel-beta-diff-vs-numpy <d> value
  * numpy's time depends on its BLAS/LAPACK build (and on OPENBLAS_CORETYPE if that is OpenBLAS);
  * the backend numpy reports is printed as `bench numpy-blas <name> name`.
@@ -21,6 +22,7 @@ import { makeVolume, type Volume } from '../src/core/volume.js';
 import type { BoldEvent } from '../src/io/run-types.js';
 import { buildDesign } from '../src/model/design.js';
 import type { DesignMatrix } from '../src/model/design-matrix.js';
+import { fitGlmAr1 } from '../src/model/glm-ar1.js';
 import { fitGlm } from '../src/model/glm-ols.js';
 
 const DIMS: [number, number, number, number] = [64, 64, 36, 200];
@@ -85,6 +87,12 @@ export async function main(): Promise<void> {
     times.push(Number(process.hrtime.bigint() - t0) / 1e9);
   }
   const oursSec = median(times);
+  const ar1Times: number[] = [];
+  for (let r = 0; r < 3; r++) {
+    const t0 = process.hrtime.bigint();
+    fitGlmAr1(run, design);
+    ar1Times.push(Number(process.hrtime.bigint() - t0) / 1e9);
+  }
 
   const dir = mkdtempSync(join(tmpdir(), 'boldsweep-bench-glm-'));
   try {
@@ -104,6 +112,7 @@ export async function main(): Promise<void> {
     let maxRel = 0;
     for (let i = 0; i < ref.length; i++) maxRel = Math.max(maxRel, Math.abs(ref[i] - fit.betas[i]) / Math.max(1, Math.abs(ref[i])));
     console.log(`bench glm-seconds ${oursSec.toFixed(4)} s`);
+    console.log(`bench glm-ar1-seconds ${median(ar1Times).toFixed(4)} s`);
     console.log(`bench numpy-lstsq-seconds ${numpySec.toFixed(4)} s`);
     console.log(`bench numpy-blas ${blas} name`);
     console.log(`ratio glm-vs-numpy ${(oursSec / numpySec).toFixed(3)}`);

@@ -65,6 +65,45 @@ export function projectPair(data: Float32Array, nvox: number, ya: number, yb: nu
 }
 
 /**
+ * Betas of two voxels with different projectors (AR(1) bins): like {@link projectPair} but the
+ * second voxel uses the projector at offset pb.
+ * @param data - run data (nt volumes of nvox voxels)
+ * @param nvox - voxels per volume
+ * @param ya - index of the first voxel within a volume
+ * @param yb - index of the second voxel
+ * @param proj - projectors, t-major
+ * @param pa - offset of the first voxel's projector
+ * @param pb - offset of the second voxel's projector
+ * @param nt - volumes
+ * @param p - columns
+ * @param out - betas: first voxel at out[0..p), second at out[p..2p)
+ * @example projectPairMixed(run.data, nvox, 10, 11, proj, 0, nt * p, nt, p, b)
+ */
+export function projectPairMixed(data: Float32Array, nvox: number, ya: number, yb: number, proj: Float64Array, pa: number, pb: number, nt: number, p: number, out: Float64Array): void {
+  let j = 0;
+  for (; j + 2 < p; j += 3) {
+    let a0 = 0, a1 = 0, a2 = 0, c0 = 0, c1 = 0, c2 = 0;
+    for (let t = 0, q = pa + j, r = pb + j, o = 0; t < nt; t++, q += p, r += p, o += nvox) {
+      const y1 = data[o + ya];
+      const y2 = data[o + yb];
+      a0 += proj[q] * y1; a1 += proj[q + 1] * y1; a2 += proj[q + 2] * y1;
+      c0 += proj[r] * y2; c1 += proj[r + 1] * y2; c2 += proj[r + 2] * y2;
+    }
+    out[j] = a0; out[j + 1] = a1; out[j + 2] = a2;
+    out[p + j] = c0; out[p + j + 1] = c1; out[p + j + 2] = c2;
+  }
+  for (; j < p; j++) {
+    let a0 = 0, c0 = 0;
+    for (let t = 0, q = pa + j, r = pb + j, o = 0; t < nt; t++, q += p, r += p, o += nvox) {
+      a0 += proj[q] * data[o + ya];
+      c0 += proj[r] * data[o + yb];
+    }
+    out[j] = a0;
+    out[p + j] = c0;
+  }
+}
+
+/**
  * Residuals e = y - X b of one or two voxels, optionally AR(1)-whitened (e~_0 = sqrt(1-rho^2) e_0,
  * e~_t = e_t - rho e_{t-1}); the residuals are written into ea / eb (length nt each), and
  * out = [RSS of first, RSS of second, sum of y of first, sum of y of second]. A second pass over the
@@ -77,17 +116,18 @@ export function projectPair(data: Float32Array, nvox: number, ya: number, yb: nu
  * @param nt - volumes
  * @param p - columns
  * @param b - betas (first voxel [0,p), second [p,2p))
- * @param rho - AR(1) coefficient used for whitening (0: none)
+ * @param rhoA - AR(1) coefficient for whitening the first voxel's residuals (0: none)
+ * @param rhoB - the same for the second voxel
  * @param ea - residual output for the first voxel
  * @param eb - residual output for the second voxel
  * @param out - output, length 4
- * @example residualPair(run.data, nvox, 10, -1, x, nt, p, b, 0, ea, eb, out)
+ * @example residualPair(run.data, nvox, 10, -1, x, nt, p, b, 0, 0, ea, eb, out)
  */
-export function residualPair(data: Float32Array, nvox: number, ya: number, yb: number, x: Float64Array, nt: number, p: number, b: Float64Array, rho: number, ea: Float64Array, eb: Float64Array, out: Float64Array): void {
+export function residualPair(data: Float32Array, nvox: number, ya: number, yb: number, x: Float64Array, nt: number, p: number, b: Float64Array, rhoA: number, rhoB: number, ea: Float64Array, eb: Float64Array, out: Float64Array): void {
   const two = yb >= 0;
   // columns three at a time (missing columns get weight 0 and a clamped x index); the first group
   // reads the data, later groups update e, and the last group sums squares when no whitening follows
-  const sumInLoop = rho === 0;
+  const sumInLoop = rhoA === 0 && rhoB === 0;
   let ra = 0, rb = 0, sa = 0, sb = 0;
   for (let j = 0; j < p; j += 3) {
     const last = j + 3 >= p;
@@ -137,10 +177,10 @@ export function residualPair(data: Float32Array, nvox: number, ya: number, yb: n
     }
   }
   if (!sumInLoop) {
-    whitenInPlace(ea, nt, rho);
+    whitenInPlace(ea, nt, rhoA);
     for (let t = 0; t < nt; t++) ra += ea[t] * ea[t];
     if (two) {
-      whitenInPlace(eb, nt, rho);
+      whitenInPlace(eb, nt, rhoB);
       for (let t = 0; t < nt; t++) rb += eb[t] * eb[t];
     }
   }
@@ -187,7 +227,8 @@ export interface VoxelSweep {
 
 /**
  * Fit every voxel of `s.idx`: betas by projection, then residuals in a second pass (the pair's
- * cache lines are still warm). Neighbouring voxels are paired when they share a group.
+ * cache lines are still warm). Neighbouring voxels go in pairs, sharing projector loads when they
+ * share a group.
  * @param s - inputs and outputs
  * @example sweepVoxels({ data, nvox, nt, p, idx, x, proj, group: null, rhoOfGroup: null, betas, rss, mean: null, lag1: null, residuals: null })
  */
@@ -201,27 +242,30 @@ export function sweepVoxels(s: VoxelSweep): void {
   const size = nt * p;
   let i = 0;
   while (i < n) {
-    const g = group ? group[i] : 0;
-    const pair = i + 1 < n && (group === null || group[i + 1] === g);
+    const pair = i + 1 < n;
+    const ga = group ? group[i] : 0;
+    const gb = group && pair ? group[i + 1] : ga;
     const ya = idx[i];
     const yb = pair ? idx[i + 1] : -1;
-    projectPair(data, nvox, ya, yb, proj, g * size, nt, p, b);
-    const rho = rhoOfGroup ? rhoOfGroup[g] : 0;
+    if (ga === gb) projectPair(data, nvox, ya, yb, proj, ga * size, nt, p, b);
+    else projectPairMixed(data, nvox, ya, yb, proj, ga * size, gb * size, nt, p, b);
+    const rhoA = rhoOfGroup ? rhoOfGroup[ga] : 0;
+    const rhoB = rhoOfGroup ? rhoOfGroup[gb] : 0;
     if (lag1) {
       // unwhitened residuals first, for the autocorrelation, then whitened RSS
-      residualPair(data, nvox, ya, yb, x, nt, p, b, 0, ea, eb, r);
+      residualPair(data, nvox, ya, yb, x, nt, p, b, 0, 0, ea, eb, r);
       lag1[i] = lagProduct(ea, nt);
       if (pair) lag1[i + 1] = lagProduct(eb, nt);
-      if (rho !== 0) {
-        whitenInPlace(ea, nt, rho);
+      if (rhoA !== 0) {
+        whitenInPlace(ea, nt, rhoA);
         r[0] = sumSquares(ea, nt);
-        if (pair) {
-          whitenInPlace(eb, nt, rho);
-          r[1] = sumSquares(eb, nt);
-        }
+      }
+      if (pair && rhoB !== 0) {
+        whitenInPlace(eb, nt, rhoB);
+        r[1] = sumSquares(eb, nt);
       }
     } else {
-      residualPair(data, nvox, ya, yb, x, nt, p, b, rho, ea, eb, r);
+      residualPair(data, nvox, ya, yb, x, nt, p, b, rhoA, rhoB, ea, eb, r);
     }
     for (let k = 0, c = pair ? 2 : 1; k < c; k++) {
       const at = i + k;
