@@ -6,10 +6,11 @@
  * every voxel, no mask. Ours: one warm-up call, then the median of 5; numpy: median of 3.
  * Also times fitGlmAr1 (OLS pass, Worsley-corrected rho, 0.01 bins, refit) on the same run, median
  * of 3, for information (numpy has no counterpart). Prints
- *   bench glm-seconds <s> s, bench glm-ar1-seconds <s> s, bench numpy-lstsq-seconds <s> s, ratio glm-vs-numpy <ours / numpy>,
- *   bench glm-max-rel-beta-diff-vs-numpy <d> value
+ *   bench glm-seconds <s> s, bench glm-ar1-seconds <s> s, bench numpy-lstsq-seconds <s> s,
+ *   ratio glm-vs-numpy <ours / numpy>, bench glm-max-rel-beta-diff-vs-numpy <d> value
  * numpy's time depends on its BLAS/LAPACK build (and on OPENBLAS_CORETYPE if that is OpenBLAS);
- * the backend numpy reports is printed as `bench numpy-blas <name> name`.
+ * the backend (Debian's libblas alternative, here OpenBLAS) and OPENBLAS_CORETYPE are printed on a
+ * `# numpy backend: ...` comment line.
  */
 import { execFileSync } from 'node:child_process';
 import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
@@ -107,6 +108,7 @@ export async function main(): Promise<void> {
     if (!m) throw new Error(`glm_numpy.py printed no timing: ${stdout}`);
     const numpySec = Number(m[1]);
     const blas = /blas (\S+)/.exec(stdout)?.[1] ?? 'unknown';
+    const coretype = /coretype (\S+)/.exec(stdout)?.[1] ?? 'unknown';
     const buf = readFileSync(rawBetas);
     const ref = new Float64Array(buf.buffer, buf.byteOffset, buf.byteLength / 8);
     let maxRel = 0;
@@ -114,7 +116,7 @@ export async function main(): Promise<void> {
     console.log(`bench glm-seconds ${oursSec.toFixed(4)} s`);
     console.log(`bench glm-ar1-seconds ${median(ar1Times).toFixed(4)} s`);
     console.log(`bench numpy-lstsq-seconds ${numpySec.toFixed(4)} s`);
-    console.log(`bench numpy-blas ${blas} name`);
+    console.log(`# numpy backend: ${blas}, OPENBLAS_CORETYPE ${coretype}`);
     console.log(`ratio glm-vs-numpy ${(oursSec / numpySec).toFixed(3)}`);
     console.log(`bench glm-max-rel-beta-diff-vs-numpy ${maxRel.toExponential(2)} value`);
   } finally {

@@ -7,8 +7,10 @@ array; DESIGN holds the float64 little-endian design, row-major (NT, P). Times
 numpy.linalg.lstsq(X, Y, rcond=None) (betas, residual sums of squares, rank, singular values) three
 times and prints the median: "seconds <s>". With OUT_BETAS the betas (P, NVOX) are written there as
 float64 so the caller can compare values. numpy's LAPACK/BLAS backend (and OPENBLAS_CORETYPE, when
-OpenBLAS is the backend) affects this time; it is printed as "blas <name>".
+OpenBLAS is the backend: it pins the CPU kernel OpenBLAS uses) affects this time; they are printed
+as "blas <name>" and "coretype <value>".
 """
+import os
 import sys
 import time
 
@@ -28,11 +30,13 @@ def main():
         times.append(time.perf_counter() - t0)
     if len(sys.argv) > 6:
         np.ascontiguousarray(betas, dtype="<f8").tofile(sys.argv[6])
-    try:
-        libs = np.__config__.blas_opt_info.get("libraries", ["?"])  # numpy 1.24 keeps this dict
-    except AttributeError:
-        libs = ["?"]
-    print("blas %s" % ",".join(libs))
+    # Debian's numpy links the generic libblas/liblapack; the alternatives system picks the real one
+    blas = "unknown"
+    for cand in ("/usr/lib/x86_64-linux-gnu/libblas.so.3", "/usr/lib/aarch64-linux-gnu/libblas.so.3"):
+        if os.path.exists(cand):
+            blas = os.path.basename(os.path.dirname(os.path.realpath(cand)))
+    print("blas %s" % blas)
+    print("coretype %s" % os.environ.get("OPENBLAS_CORETYPE", "unset"))
     print("seconds %.6f" % sorted(times)[1])
 
 
