@@ -10,6 +10,7 @@ export { fitGlmAr1, type GlmAr1Options } from './glm-ar1.js';
 export { fittedVoxels, type GlmFit, type GlmOptions } from './glm-fit.js';
 export { lag1Autocorrelation, ar1BiasTraces, correctAr1, prewhitenAr1 } from './ar1.js';
 export { contrastMaps, contrastWeights, type Contrast, type ContrastMaps } from './contrast.js';
+export { betaMap } from './beta-map.js';
 export { tToZ, Z_LIMIT } from './t-to-z.js';
 // smoothness, resels and thresholds
 export { estimateSmoothness, type SmoothnessEstimate, type SmoothnessOptions, type SmoothnessMethod } from './smoothness.js';

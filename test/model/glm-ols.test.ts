@@ -3,6 +3,7 @@ import { describe, expect, it } from 'vitest';
 import { identityAffine } from '../../src/core/affine.js';
 import { isBoldsweepError } from '../../src/core/errors.js';
 import { makeVolume, type Volume } from '../../src/core/volume.js';
+import { betaMap } from '../../src/model/beta-map.js';
 import { contrastMaps } from '../../src/model/contrast.js';
 import { makeDesignMatrix, type DesignMatrix } from '../../src/model/design-matrix.js';
 import { fitGlm } from '../../src/model/glm-ols.js';
@@ -63,6 +64,10 @@ describe('fitGlm (OLS) against numpy.linalg.lstsq(rcond=None)', () => {
     }
     const maps = contrastMaps(fit, fx.ols.contrast);
     expect(maps.t.data[1]).toBe(0); // not fitted
+    const box = betaMap(fit, 'box');
+    // float32 map of a float64 beta
+    expect(Math.abs(box.data[3] - fx.ols.betas[2 * nvox + 3])).toBeLessThan(1e-6 * Math.max(1, Math.abs(fx.ols.betas[2 * nvox + 3])));
+    expect(box.data[4]).toBe(0);
     expect(maps.p.data[1]).toBe(1);
     expect(Array.from(maps.mask)).toEqual(Array.from(mask));
   });
