@@ -17,6 +17,12 @@ export interface SmoothRunOptions {
   truncate?: number;
   /** Worker threads. __Default value:__ the number of cores (os.availableParallelism()); 1 = main thread only. */
   workers?: number;
+  /**
+   * Where to write the smoothed run (length nx*ny*nz*nt), e.g. a buffer reused across a sweep.
+   * Workers write into it directly when it lives in a SharedArrayBuffer; otherwise the result is
+   * copied into it once at the end. __Default value:__ a new array.
+   */
+  out?: Float32Array;
 }
 
 /**
@@ -34,8 +40,8 @@ export const SMOOTH_RUN_IN_THREAD_BELOW = 2_000_000;
  * main-thread paths run the same code and give identical bytes. Small runs stay in the main thread
  * (see {@link SMOOTH_RUN_IN_THREAD_BELOW}).
  * @param volume - the run (not modified)
- * @param options - fwhmMm, mode, mask, truncate, workers
- * @returns a new volume with the same grid, TR and affine
+ * @param options - fwhmMm, mode, mask, truncate, workers, out
+ * @returns a new volume with the same grid, TR and affine (its data is `out` when given)
  * @throws BoldsweepError INVALID_ARGUMENT for bad widths or worker counts; GRID_MISMATCH for a mask of another size;
  *   WORKER_SCRIPT_MISSING when workers are needed but the package is not built
  * @example const smoothed = await smoothRun(run.volume, { fwhmMm: 6, mask })
@@ -52,15 +58,18 @@ export async function smoothRun(volume: Volume, options: SmoothRunOptions): Prom
   };
   const like = { dims: [nx, ny, nz, nt] as Volume['dims'], spacingMm: [...volume.spacingMm] as Volume['spacingMm'], trSec: volume.trSec, affine: new Float64Array(volume.affine) };
 
+  if (options.out && options.out.length !== total) fail('INVALID_ARGUMENT', `out has ${options.out.length} values, the run has ${total}`);
+  if (options.out === volume.data) fail('INVALID_ARGUMENT', 'out must not be the input run (the input is never modified)');
   if (workers === 1 || nt < 2 || total < SMOOTH_RUN_IN_THREAD_BELOW) {
-    const output = new Float32Array(total);
+    const output = options.out ?? new Float32Array(total);
     smoothVolumesTask({ ...base, input: volume.data, output, tStart: 0, tEnd: nt });
     return makeVolume({ ...like, data: output });
   }
 
   const alreadyShared = volume.data.buffer instanceof SharedArrayBuffer;
   const input = alreadyShared ? volume.data : new Float32Array(new SharedArrayBuffer(total * 4));
-  const output = new Float32Array(new SharedArrayBuffer(total * 4));
+  const outShared = options.out !== undefined && options.out.buffer instanceof SharedArrayBuffer;
+  const output = outShared ? (options.out as Float32Array) : new Float32Array(new SharedArrayBuffer(total * 4));
   const shared = { ...base, mask: plan.mask && sharedCopy(plan.mask), maskWeights: plan.maskWeights && sharedCopy(plan.maskWeights) };
   const pool = sharedWorkerPool<SmoothVolumesTask, number>(new URL('./smooth-worker.js', import.meta.url), workers);
   // several chunks per worker so a slow thread does not hold up the end; each chunk is copied into
@@ -73,6 +82,10 @@ export async function smoothRun(volume: Volume, options: SmoothRunOptions): Prom
     jobs.push(pool.run({ ...shared, input, output, tStart: t, tEnd }));
   }
   await Promise.all(jobs);
+  if (options.out && !outShared) {
+    options.out.set(output);
+    return makeVolume({ ...like, data: options.out });
+  }
   return makeVolume({ ...like, data: output });
 }
 

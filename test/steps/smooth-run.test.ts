@@ -52,6 +52,18 @@ describe('smoothRun', () => {
     const two = await smoothRun(big, { fwhmMm: 8, mode: 'nearest', mask, workers: 2 });
     expect(sameBytes(one.data, two.data)).toBe(true);
   });
+  it('writes into a given out array (shared: in place by the workers; plain: copied once)', async () => {
+    const ref = await smoothRun(big, { fwhmMm: 6, workers: 1 });
+    const shared = new Float32Array(new SharedArrayBuffer(big.data.length * 4));
+    const a = await smoothRun(big, { fwhmMm: 6, workers: 2, out: shared });
+    expect(a.data).toBe(shared);
+    expect(sameBytes(shared, ref.data)).toBe(true);
+    const plain = new Float32Array(big.data.length);
+    const b = await smoothRun(big, { fwhmMm: 6, workers: 2, out: plain });
+    expect(b.data).toBe(plain);
+    expect(sameBytes(plain, ref.data)).toBe(true);
+    await expect(smoothRun(big, { fwhmMm: 6, out: big.data })).rejects.toSatisfy((e) => isBoldsweepError(e, 'INVALID_ARGUMENT'));
+  });
   it('equals smoothVolume3d applied volume by volume', async () => {
     const small = randomRun([12, 10, 8, 5], 3);
     const res = await smoothRun(small, { fwhmMm: 7 });
