@@ -1,3 +1,4 @@
+import { isMainThread } from 'node:worker_threads';
 import { fail } from '../core/fail.js';
 import { makeVolume, voxelsPerVolume, type Volume } from '../core/volume.js';
 import { defaultWorkerCount, sharedWorkerPool } from '../core/worker-pool.js';
@@ -15,7 +16,11 @@ export interface SmoothRunOptions {
   mask?: Uint8Array;
   /** Standard deviations kept each side. __Default value:__ 4. */
   truncate?: number;
-  /** Worker threads. __Default value:__ the number of cores (os.availableParallelism()); 1 = main thread only. */
+  /**
+   * Worker threads; 1 = the calling thread only. __Default value:__ the number of cores
+   * (os.availableParallelism()) from the main thread, 1 inside a worker thread (a sweep's workers
+   * must not each start their own).
+   */
   workers?: number;
   /**
    * Where to write the smoothed run (length nx*ny*nz*nt), e.g. a buffer reused across a sweep.
@@ -48,7 +53,7 @@ export const SMOOTH_RUN_IN_THREAD_BELOW = 2_000_000;
  */
 export async function smoothRun(volume: Volume, options: SmoothRunOptions): Promise<Volume> {
   const [nx, ny, nz, nt] = volume.dims;
-  const workers = options.workers ?? defaultWorkerCount();
+  const workers = options.workers ?? (isMainThread ? defaultWorkerCount() : 1);
   if (!Number.isInteger(workers) || workers < 1) fail('INVALID_ARGUMENT', `workers must be a positive integer, got ${workers}`);
   const plan = planGaussianSmooth([nx, ny, nz], volume.spacingMm, options.fwhmMm, options);
   const n = voxelsPerVolume(volume);

@@ -1,4 +1,3 @@
-import { isMainThread } from 'node:worker_threads';
 import { fail } from '../core/fail.js';
 import type { Volume } from '../core/volume.js';
 import { BOUNDARY_MODES, type BoundaryMode } from './boundary-index.js';
@@ -47,8 +46,8 @@ const MODE_TEXT: Record<BoundaryMode, string> = {
  * Preprocessing step: 3D Gaussian smoothing of every volume (see smoothRun). With `withinMask`,
  * smoothing is restricted to the brain mask by normalised convolution (Knutsson & Westin 1993):
  * smooth(data*mask) / smooth(mask), so voxels near the mask edge keep their level. Runs in worker
- * threads from the main thread and in the calling thread when already inside a worker (a sweep's
- * workers must not each start their own).
+ * threads from the main thread and in the calling thread when already inside a worker (smoothRun's
+ * default).
  * @param volume - the run (not modified)
  * @param params - fwhmMm, mode, withinMask
  * @param context - needs `mask` when withinMask is true
@@ -67,7 +66,7 @@ export const smoothStep: StepFunction<SmoothStepParams> = async (volume, params,
   if (!BOUNDARY_MODES.includes(mode)) fail('INVALID_ARGUMENT', `smooth: mode must be one of ${BOUNDARY_MODES.join(', ')}, got ${String(mode)}`);
   let mask: Uint8Array | undefined;
   if (withinMask) mask = requireMask(volume, context, 'smooth (withinMask)');
-  const out = await smoothRun(volume, { fwhmMm, mode, mask, workers: isMainThread ? undefined : 1 });
+  const out = await smoothRun(volume, { fwhmMm, mode, mask });
 
   const sv = sigmaVoxels(fwhmMm, volume.spacingMm);
   const taps = sv.map((s) => gaussianKernel1d(s).length);
