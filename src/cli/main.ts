@@ -6,6 +6,9 @@
 import { Command } from 'commander';
 import { isBoldsweepError } from '../core/errors.js';
 import { registerLook } from './look-command.js';
+import { registerSweepCommand, registerGatherCommand } from './sweep-command.js';
+import { registerReportCommand } from './report-command.js';
+import { registerDemoCommand } from './demo-command.js';
 
 const program = new Command();
 program
@@ -14,6 +17,9 @@ program
   .showHelpAfterError();
 
 registerLook(program);
+registerSweepCommand(program); registerGatherCommand(program);
+registerReportCommand(program);
+registerDemoCommand(program);
 
 
 program.parseAsync(process.argv).catch((e: unknown) => {

@@ -21,6 +21,9 @@ interface SweepCliOptions {
   maskValues: number[];
   placement?: string;
   placementValues: number[];
+  exclude?: string;
+  excludeAbove?: number;
+  excludeGrow?: number;
   progress: boolean;
 }
 
@@ -44,6 +47,9 @@ export function registerSweepCommand(program: Command): Command {
     .option('--mask-values <list>', 'values of --mask that count as brain', numberList, [1])
     .option('--placement <file>', 'image on the run\'s grid where planted blobs may be centred, e.g. a grey-matter label map (default: the brain mask)')
     .option('--placement-values <list>', 'values of --placement that allow a blob centre', numberList, [1])
+    .option('--exclude <file>', 'image on the run\'s grid marking voxels that already respond to the task (known activation); they get no blob and are left out of scoring')
+    .option('--exclude-above <value>', 'voxels of --exclude above this value are excluded', Number, 0)
+    .option('--exclude-grow <voxels>', 'grow the --exclude region by this many voxels (smoothing spreads a response beyond its edge)', positiveInt)
     .option('--no-progress', 'do not draw the progress bar')
     .addHelpText('after', `
 Example:
@@ -53,16 +59,18 @@ Example:
       const spec = readSweepSpec(o.spec);
       let run = await openRun(runPath);
       run = { ...run, volume: shareVolume(run.volume) };
-      const masks: { brain: MaskSource; placement: MaskSource } = {
-        brain: o.mask ? await maskFromFile(o.mask, o.maskValues) : { kind: 'otsu-mean' },
-        placement: o.placement ? await maskFromFile(o.placement, o.placementValues) : { kind: 'brain' },
+      const masks: { brain: MaskSource; placement: MaskSource; exclude: MaskSource | null } = {
+        brain: o.mask ? await maskFromFile(o.mask, { values: o.maskValues }) : { kind: 'otsu-mean' },
+        placement: o.placement ? await maskFromFile(o.placement, { values: o.placementValues }) : { kind: 'brain' },
+        exclude: o.exclude ? await maskFromFile(o.exclude, { above: o.excludeAbove ?? 0, growVoxels: o.excludeGrow }) : null,
       };
       const brainMask = await buildMask(masks.brain, run.volume);
       const placementMask = await buildMask(masks.placement, run.volume, { brain: brainMask });
+      const excludeMask = masks.exclude ? await buildMask(masks.exclude, run.volume) : undefined;
       const bar = o.progress ? terminalProgress() : null;
       let result;
       try {
-        result = await runSweep(run, spec, { workers: o.workers, shard: o.shard ?? null, cacheDir: o.cache ?? join(o.out, 'cache'), brainMask, placementMask, onProgress: bar?.update });
+        result = await runSweep(run, spec, { workers: o.workers, shard: o.shard ?? null, cacheDir: o.cache ?? join(o.out, 'cache'), brainMask, placementMask, excludeMask, onProgress: bar?.update });
       } finally {
         bar?.stop();
       }

@@ -30,7 +30,8 @@ export interface DecisionRecord {
     /** SHA-256 of the masks and events used. */
     contextHash: string;
   };
-  masks: { brain: MaskSource; placement: MaskSource };
+  /** How the masks were made; `exclude` holds voxels left out of planting and scoring (known activation). */
+  masks: { brain: MaskSource; placement: MaskSource; exclude: MaskSource | null };
   run: { dims: [number, number, number, number]; spacingMm: [number, number, number]; trSec: number; trSource: string; summary: string };
   /** BIDS sidecar fields the sweep used, with their values. */
   sidecarFieldsUsed: Record<string, unknown>;

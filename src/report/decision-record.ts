@@ -36,7 +36,7 @@ export interface DecisionInputs {
   recommendation: Recommendation;
   /** Facts of the run as opened (its file paths and TR source are recorded). */
   run: RunFacts;
-  masks: { brain: MaskSource; placement: MaskSource };
+  masks: { brain: MaskSource; placement: MaskSource; exclude: MaskSource | null };
   /** Name of the scorecard file beside the record. __Default value:__ 'scorecard.tsv' */
   scorecardFile?: string;
   /** Sidecar fields the analysis used. __Default value:__ ['RepetitionTime'] when the TR came from the sidecar */
@@ -66,7 +66,7 @@ export async function buildDecisionRecord(d: DecisionInputs): Promise<DecisionRe
   const fieldNames = d.sidecarFields ?? (run.trSource === 'sidecar' ? ['RepetitionTime'] : []);
   const sidecarFieldsUsed: Record<string, unknown> = {};
   for (const f of fieldNames) if (run.sidecar && run.sidecar[f] !== undefined) sidecarFieldsUsed[f] = run.sidecar[f];
-  const masks = { brain: relMask(d.masks.brain, rel), placement: relMask(d.masks.placement, rel) };
+  const masks = { brain: relMask(d.masks.brain, rel), placement: relMask(d.masks.placement, rel), exclude: d.masks.exclude ? relMask(d.masks.exclude, rel) : null };
   const sum = (m: { n: number; mean: number; se: number; low: number; high: number }): MetricSummary => ({ n: m.n, mean: orNull(m.mean), se: orNull(m.se), low: orNull(m.low), high: orNull(m.high) });
   return {
     format: 'boldsweep-decision-record',
@@ -121,13 +121,13 @@ const fileFactsSchema = z.object({ path: z.string(), sha256: z.string().regex(/^
 const maskSchema = z.union([
   z.object({ kind: z.literal('otsu-mean') }),
   z.object({ kind: z.literal('brain') }),
-  z.object({ kind: z.literal('file'), file: fileFactsSchema, values: z.array(z.number()) }),
+  z.object({ kind: z.literal('file'), file: fileFactsSchema, values: z.array(z.number()).optional(), above: z.number().optional(), growVoxels: z.number().int().nonnegative().optional() }),
 ]);
 const recordSchema = z.object({
   format: z.literal('boldsweep-decision-record'),
   version: z.literal(1),
   inputs: z.object({ image: fileFactsSchema.nullable(), sidecar: fileFactsSchema.nullable(), events: fileFactsSchema.nullable(), runHash: z.string(), contextHash: z.string() }),
-  masks: z.object({ brain: maskSchema, placement: maskSchema }),
+  masks: z.object({ brain: maskSchema, placement: maskSchema, exclude: maskSchema.nullable() }),
   sweepSpec: z.object({}).passthrough(),
   scorecard: z.object({ sha256: z.string(), sweepKey: z.string() }).passthrough(),
   choice: z.object({ setting: z.record(z.unknown()) }).passthrough(),
@@ -198,7 +198,8 @@ export async function rerunRecord(record: DecisionRecord, options: Pick<SweepOpt
   const run = await openRun(at(image.path), { sidecar: record.inputs.sidecar ? at(record.inputs.sidecar.path) : null, events: record.inputs.events ? at(record.inputs.events.path) : null });
   const brainMask = await buildMask(record.masks.brain, run.volume, { baseDir: base });
   const placementMask = await buildMask(record.masks.placement, run.volume, { baseDir: base, brain: brainMask });
-  const result = await runSweep(run, record.sweepSpec, { brainMask, placementMask, workers: options.workers, cacheDir: options.cacheDir ?? null, onProgress: options.onProgress });
+  const excludeMask = record.masks.exclude ? await buildMask(record.masks.exclude, run.volume, { baseDir: base }) : undefined;
+  const result = await runSweep(run, record.sweepSpec, { brainMask, placementMask, excludeMask, workers: options.workers, cacheDir: options.cacheDir ?? null, onProgress: options.onProgress });
   const tsv = scorecardToTsv(result.scorecard);
   const sha256 = textSha256(tsv);
   return { result, tsv, sha256, recordedSha256: record.scorecard.sha256, reproduced: sha256 === record.scorecard.sha256 };

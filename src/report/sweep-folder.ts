@@ -19,7 +19,7 @@ import type { RunFacts } from './run-facts.js';
 export interface SweepFolder {
   result: SweepResult;
   run: RunFacts;
-  masks: { brain: MaskSource; placement: MaskSource };
+  masks: { brain: MaskSource; placement: MaskSource; exclude: MaskSource | null };
 }
 
 interface SweepJson extends Omit<SweepResult, 'scorecard' | 'curves'> {

@@ -18,6 +18,8 @@ import { readGroupStage, writeCachedCell, writeGroupStage, type GroupStage } fro
 import { fail } from '../core/fail.js';
 import type { CellPlan, CellGroup } from './plan.js';
 import type { CellResult, SweepContext, SweepTask } from './sweep-task.js';
+import type { BoldEvent } from '../io/run-types.js';
+import { randomBlockEvents } from './random-block-events.js';
 
 /*
  * One task of a sweep, in a worker thread or in the main thread (same code, same bytes):
@@ -49,10 +51,17 @@ function emptyTruth(v: Volume, seed: number, nt: number): PlantTruth {
   };
 }
 
+/** The task events of a group: the run's own, or this repeat's random null design. */
+function groupEvents(ctx: SweepContext, group: CellGroup): BoldEvent[] {
+  if (group.events.kind === 'run') return ctx.events;
+  return randomBlockEvents(group.eventsSeed, ctx.run.dims[3] * ctx.run.trSec, group.events);
+}
+
 /** Trial type the planted activation follows and the contrast tests. */
-function conditionOf(ctx: SweepContext, trialType: string | null): string {
+function conditionOf(events: readonly BoldEvent[], group: CellGroup, trialType: string | null): string {
+  if (group.events.kind === 'random-blocks') return group.events.trialType;
   if (trialType !== null) return trialType;
-  const types = [...new Set(ctx.events.map((e) => e.trialType))].sort();
+  const types = [...new Set(events.map((e) => e.trialType))].sort();
   if (types.length !== 1) fail('SPEC_INVALID', `the events have ${types.length} trial types (${types.join(', ')}): set model.trialType to the one to plant and test`);
   return types[0];
 }
@@ -67,10 +76,11 @@ function conditionOf(ctx: SweepContext, trialType: string | null): string {
 async function computeGroupStage(ctx: SweepContext, group: CellGroup, trialType: string): Promise<GroupStage> {
   const raw = sharedRunVolume(ctx);
   const nt = raw.dims[3];
+  const events = groupEvents(ctx, group);
   let volume: Volume;
   let truth: PlantTruth;
   if (group.plant.count > 0) {
-    const timeCourse = plantTimeCourse(ctx.events, nt, raw.trSec, { condition: trialType });
+    const timeCourse = plantTimeCourse(events, nt, raw.trSec, { condition: trialType });
     const size = group.plant.shape === 'gaussian' ? { fwhmMm: group.plant.sizeMm } : { radiusMm: group.plant.sizeMm / 2 };
     ({ volume, truth } = plantActivations(raw, {
       count: group.plant.count, shape: group.plant.shape, ...size, amplitudePct: group.plant.amplitudePct,
@@ -80,7 +90,7 @@ async function computeGroupStage(ctx: SweepContext, group: CellGroup, trialType:
     volume = raw;
     truth = emptyTruth(raw, group.plantSeed, nt);
   }
-  let context: StepContext = { sidecar: ctx.sidecar, events: ctx.events, mask: ctx.brainMask };
+  let context: StepContext = { sidecar: ctx.sidecar, events, mask: ctx.brainMask };
   const notes: StepNote[] = [];
   for (const step of group.prefix) {
     const r = await runRecipeStep(step, volume, context);
@@ -117,10 +127,16 @@ function modelAndScore(volume: Volume, context: StepContext, truth: PlantTruth, 
   for (let v = 0; v < n; v++) if (brain[v] && Number.isFinite(stats.tsnr[v])) inMask.push(stats.tsnr[v]);
   const tsnrMedian = inMask.length ? medianOf(inMask) : NaN;
 
-  const events = context.events ?? ctx.events;
+  const events = context.events!;
+  const nt = volume.dims[3];
+  // censored volumes are indexed in the run as opened; steps may only have removed initial volumes
+  const offset = ctx.run.dims[3] - nt;
+  const nuisance = [...new Set(cell.model.censorVolumes)].sort((a, b) => a - b).map((c) => c - offset).filter((c) => c >= 0 && c < nt)
+    .map((c) => ({ name: `censor_${c + offset}`, values: Float64Array.from({ length: nt }, (_, t) => (t === c ? 1 : 0)) }));
   const design = buildDesign(events, {
-    nt: volume.dims[3], trSec: volume.trSec,
+    nt, trSec: volume.trSec,
     drift: cell.model.highpassCutoffSec ? { kind: 'dct', cutoffSec: cell.model.highpassCutoffSec } : { kind: 'none' },
+    nuisance,
   });
   const fit = cell.model.ar1 ? fitGlmAr1(volume, design, { mask: brain, keepResiduals: true }) : fitGlm(volume, design, { mask: brain, keepResiduals: true });
   const maps = contrastMaps(fit, { [trialType]: 1 }, { name: trialType });
@@ -128,8 +144,8 @@ function modelAndScore(volume: Volume, context: StepContext, truth: PlantTruth, 
   const smooth = estimateSmoothness(res.data, res.dims, brain, volume.spacingMm, { dof: fit.dof });
   fit.residuals = null;
   const thr = applyThresholdRule(maps.t.data, brain, [volume.dims[0], volume.dims[1], volume.dims[2]], ctx.threshold, { kind: 't', dof: maps.dof }, smooth.fwhmMm, volume.spacingMm);
-  const score = scoreDetection({ statistic: maps.t, survivors: thr.survivors, truth, brainMask: brain, effectPct: maps.percentSignalChange, threshold: thr.threshold, thresholdMethod: thr.rule });
-  const tpr = score.truthVoxels > 0 ? (() => { const c = rocCurve(maps.t.data, truth.mask, brain); return tprAtFpr(c.fpr, c.tpr, DEFAULT_FPR_GRID); })() : [];
+  const score = scoreDetection({ statistic: maps.t, survivors: thr.survivors, truth, brainMask: ctx.scoreMask, effectPct: maps.percentSignalChange, threshold: thr.threshold, thresholdMethod: thr.rule });
+  const tpr = score.truthVoxels > 0 ? (() => { const c = rocCurve(maps.t.data, truth.mask, ctx.scoreMask); return tprAtFpr(c.fpr, c.tpr, DEFAULT_FPR_GRID); })() : [];
   const [fx, fy, fz] = smooth.fwhmMm;
   const metrics: Record<string, number | null> = {};
   for (const [k, v] of Object.entries(score)) if (typeof v === 'number') metrics[k] = finite(v);
@@ -153,7 +169,7 @@ function modelAndScore(volume: Volume, context: StepContext, truth: PlantTruth, 
  */
 export async function runSweepTask(task: SweepTask, onCell?: (done: number) => void): Promise<CellResult[]> {
   const ctx = task.context;
-  const trialType = conditionOf(ctx, task.cells[0]?.model.trialType ?? null);
+  const trialType = conditionOf(groupEvents(ctx, task.group), task.group, task.cells[0]?.model.trialType ?? null);
   const out: CellResult[] = [];
   let held: GroupStage | null = null;
   for (const cell of task.cells) {

@@ -4,6 +4,7 @@ import { fail } from '../core/fail.js';
 import { assertSameGrid, voxelsPerVolume, type Volume } from '../core/volume.js';
 import { hashFile } from '../io/hash-file.js';
 import { readNifti } from '../io/nifti-read.js';
+import { dilateMask } from '../look/binary-morphology.js';
 import { brainMaskFromMean } from '../look/brain-mask.js';
 import { meanImage } from '../look/mean-image.js';
 
@@ -18,12 +19,14 @@ export interface FileFacts {
  * How a mask is made, so a re-run can make it again:
  * - 'otsu-mean': the look module's automatic brain mask of the run's mean image;
  * - 'brain': the same voxels as the brain mask (for the placement mask);
- * - 'file': voxels of a NIfTI image (same grid) whose value is one of `values` (e.g. a tissue label).
+ * - 'file': voxels of a NIfTI image (same grid) whose value is one of `values` (e.g. a tissue
+ *   label) or, when `above` is given, greater than it (e.g. a map of known activation in percent);
+ *   `growVoxels` then grows the mask by that many steps of the 6-neighbour cross (a margin).
  */
 export type MaskSource =
   | { kind: 'otsu-mean' }
   | { kind: 'brain' }
-  | { kind: 'file'; file: FileFacts; values: number[] };
+  | { kind: 'file'; file: FileFacts; values?: number[]; above?: number; growVoxels?: number };
 
 /**
  * Facts about a file for a decision record.
@@ -38,14 +41,20 @@ export async function fileFacts(path: string): Promise<FileFacts> {
 }
 
 /**
- * A mask source reading labels from a NIfTI file.
+ * A mask source reading a NIfTI file: voxels whose (rounded) value is one of `values`, or whose value
+ * is greater than `above`.
  * @param path - image on the run's grid
- * @param values - voxel values counted as inside. __Default value:__ [1]
+ * @param rule - values (labels) counted as inside, or a threshold; growVoxels: margin in voxel steps.
+ *   __Default value:__ { values: [1] }
  * @returns the source (with the file's hash)
- * @example const grey = await maskFromFile('data-demo/tissue.nii.gz', [1])
+ * @example const grey = await maskFromFile('data-demo/sub-phantom01_task-flicker_truth-tissue.nii.gz', { values: [3] })
  */
-export async function maskFromFile(path: string, values: number[] = [1]): Promise<MaskSource> {
-  return { kind: 'file', file: await fileFacts(path), values };
+export async function maskFromFile(path: string, rule: { values?: number[]; above?: number; growVoxels?: number } = { values: [1] }): Promise<MaskSource> {
+  return {
+    kind: 'file', file: await fileFacts(path),
+    ...(rule.above !== undefined ? { above: rule.above } : { values: rule.values ?? [1] }),
+    ...(rule.growVoxels ? { growVoxels: rule.growVoxels } : {}),
+  };
 }
 
 /**
@@ -72,10 +81,17 @@ export async function buildMask(source: MaskSource, volume: Volume, options: { b
   const { volume: img } = await readNifti(path);
   assertSameGrid(img, volume, ['mask image', 'run']);
   const n = voxelsPerVolume(volume);
-  const wanted = new Set(source.values);
   const out = new Uint8Array(n);
   let count = 0;
-  for (let v = 0; v < n; v++) if (wanted.has(Math.round(img.data[v]))) { out[v] = 1; count++; }
-  if (count === 0) fail('INVALID_ARGUMENT', `mask file ${path} has no voxel with value ${source.values.join(' or ')}`);
-  return out;
+  if (source.above !== undefined) {
+    for (let v = 0; v < n; v++) if (img.data[v] > source.above) { out[v] = 1; count++; }
+    if (count === 0) fail('INVALID_ARGUMENT', `mask file ${path} has no voxel above ${source.above}`);
+  } else {
+    const wanted = new Set(source.values ?? [1]);
+    for (let v = 0; v < n; v++) if (wanted.has(Math.round(img.data[v]))) { out[v] = 1; count++; }
+    if (count === 0) fail('INVALID_ARGUMENT', `mask file ${path} has no voxel with value ${[...wanted].join(' or ')}`);
+  }
+  let grown = out;
+  for (let k = 0; k < (source.growVoxels ?? 0); k++) grown = dilateMask(grown, volume.dims.slice(0, 3));
+  return grown;
 }

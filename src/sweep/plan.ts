@@ -26,6 +26,9 @@ export interface CellGroup {
   repeat: number;
   /** Seed of this planting's random blob positions (shared by every setting of the repeat). */
   plantSeed: number;
+  /** Task timing rule and the seed of this repeat's random design (unused for the run's events). */
+  events: SweepSpec['events'];
+  eventsSeed: number;
   /** Recipe steps run before the varied step (identical for every setting). */
   prefix: RecipeStep[];
   /** Cache key of the group's output (hash of run, mask, planting and prefix steps). */
@@ -90,9 +93,10 @@ export function planSweep(spec: SweepSpec, inputs: PlanInputs): SweepPlan {
   for (let p = 0; p < plants.length; p++) {
     for (let r = 0; r < spec.repeats; r++) {
       const plantSeed = childSeed(spec.seed, 'plant', r);
+      const eventsSeed = childSeed(spec.seed, 'events', r);
       const g: CellGroup = {
-        index: groups.length, plantIndex: p, plant: plants[p], repeat: r, plantSeed, prefix,
-        key: stableHash({ format: CACHE_FORMAT, stage: 'group', inputs, plant: plants[p], plantSeed, prefix, model: { trialType: spec.model.trialType } }),
+        index: groups.length, plantIndex: p, plant: plants[p], repeat: r, plantSeed, prefix, events: spec.events, eventsSeed,
+        key: stableHash({ format: CACHE_FORMAT, stage: 'group', inputs, plant: plants[p], plantSeed, prefix, model: { trialType: spec.model.trialType }, events: spec.events, eventsSeed: spec.events.kind === 'run' ? null : eventsSeed }),
       };
       groups.push(g);
       settings.forEach((setting, s) => {

@@ -52,6 +52,12 @@ export interface SweepOptions {
   brainMask?: Uint8Array;
   /** Where blobs may be centred (1 = allowed), e.g. grey matter. __Default value:__ the brain mask */
   placementMask?: Uint8Array;
+  /**
+   * Voxels where the run already responds to the task (known activation): no blob is placed there
+   * and they are left out of scoring, so they count neither as hits nor as false alarms. They stay
+   * in the model and in the threshold's search region. __Default value:__ none
+   */
+  excludeMask?: Uint8Array;
   /** Called as cells finish. */
   onProgress?: (p: SweepProgress) => void;
   /** Keep group stages on disk after their cells are done. __Default value:__ false */
@@ -85,6 +91,14 @@ export interface SweepResult {
   inputs: { runHash: string; contextHash: string };
   shard: Shard | null;
   stats: SweepStats;
+}
+
+/** mask AND NOT exclude (a copy), or the mask itself when nothing is excluded. */
+function without(mask: Uint8Array, exclude: Uint8Array | null): Uint8Array {
+  if (!exclude) return mask;
+  const out = new Uint8Array(mask.length);
+  for (let v = 0; v < mask.length; v++) out[v] = mask[v] && !exclude[v] ? 1 : 0;
+  return out;
 }
 
 /**
@@ -125,17 +139,21 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
   const volume = run.volume;
   if (volume.dims[3] < 2) fail('NOT_4D', `a sweep needs a 4D run, got ${volume.dims[3]} volume`);
   if (!(volume.trSec > 0)) fail('TR_MISSING', 'the run has no repetition time');
-  const events = run.events;
-  if (!events || events.length === 0) fail('EVENTS_INVALID', 'a sweep needs the run\'s events (task timing) to plant activations and build the model; none were given');
+  const events = run.events ?? [];
+  if (spec.events.kind === 'run' && events.length === 0) fail('EVENTS_INVALID', 'a sweep needs the run\'s events (task timing) to plant activations and build the model; none were given (or set the spec\'s events to a random block design)');
 
   // 2. masks and hashes
   const n = voxelsPerVolume(volume);
   const brainMask = options.brainMask ?? brainMaskFromMean(meanImage(volume), volume.dims.slice(0, 3)).mask;
-  const placementMask = options.placementMask ?? brainMask;
   if (brainMask.length !== n) fail('GRID_MISMATCH', `brain mask has ${brainMask.length} voxels, the run has ${n} per volume`);
+  const exclude = options.excludeMask ?? null;
+  if (exclude && exclude.length !== n) fail('GRID_MISMATCH', `exclusion mask has ${exclude.length} voxels, the run has ${n} per volume`);
+  const placementMask = without(options.placementMask ?? brainMask, exclude);
   if (placementMask.length !== n) fail('GRID_MISMATCH', `placement mask has ${placementMask.length} voxels, the run has ${n} per volume`);
+  const scoreMask = without(brainMask, exclude);
   const runHash = volumeHash(volume);
-  const contextHash = stableHash({ brain: createHash('sha256').update(brainMask).digest('hex'), placement: createHash('sha256').update(placementMask).digest('hex'), events });
+  const sha = (a: Uint8Array) => createHash('sha256').update(a).digest('hex');
+  const contextHash = stableHash({ brain: sha(brainMask), placement: sha(placementMask), score: sha(scoreMask), events });
 
   // 3. plan and shard
   const plan = planSweep(spec, { runHash, contextHash });
@@ -177,6 +195,7 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
     run: { dims: [...volume.dims], spacingMm: [...volume.spacingMm], trSec: volume.trSec, affine: Array.from(volume.affine), data: volume.data },
     brainMask: useThreads ? sharedBytes(brainMask) : brainMask,
     placementMask: useThreads ? sharedBytes(placementMask) : placementMask,
+    scoreMask: useThreads ? sharedBytes(scoreMask) : scoreMask,
     events, sidecar: run.sidecar, threshold: spec.threshold, cacheDir, stageMode, progress,
   });
   const reuse = options.reuseStages ?? true;

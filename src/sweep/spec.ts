@@ -48,7 +48,21 @@ export interface ModelOptions {
   highpassCutoffSec: number | null;
   /** Trial type whose events form the tested regressor; null uses every event. __Default value:__ null */
   trialType: string | null;
+  /**
+   * Volumes to censor, 0-based in the run as opened: each gets its own indicator regressor (so it no
+   * longer informs the effect or the noise), e.g. the volumes a look flags. Volumes removed by
+   * drop-initial-volumes are skipped and the rest re-indexed. __Default value:__ []
+   */
+  censorVolumes: number[];
 }
+
+/**
+ * Which task timing plants and models use: the run's own events, or a new random block design per
+ * repeat (a null task for measuring false alarms on data without that task, such as a rest run).
+ */
+export type EventsRule =
+  | { kind: 'run' }
+  | { kind: 'random-blocks'; onSec: number; offMinSec: number; offMaxSec: number; trialType: string };
 
 /** A whole sweep. */
 export interface SweepSpec {
@@ -66,6 +80,8 @@ export interface SweepSpec {
   threshold: ThresholdRule;
   /** Model fitted in every cell. */
   model: ModelOptions;
+  /** Task timing. __Default value:__ { kind: 'run' } */
+  events: EventsRule;
   /** Seed of every random choice (blob positions); the same seed gives the same scorecard. */
   seed: number;
   /** Worker threads. __Default value:__ 2 */
@@ -96,7 +112,12 @@ export const sweepSpecSchema = z.object({
     ar1: z.boolean().default(true),
     highpassCutoffSec: z.number().positive().nullable().default(128),
     trialType: z.string().nullable().default(null),
+    censorVolumes: z.array(z.number().int().nonnegative()).default([]),
   }).strict().default({}),
+  events: z.discriminatedUnion('kind', [
+    z.object({ kind: z.literal('run') }).strict(),
+    z.object({ kind: z.literal('random-blocks'), onSec: z.number().positive(), offMinSec: z.number().nonnegative(), offMaxSec: z.number().positive(), trialType: z.string().min(1).default('null-task') }).strict(),
+  ]).default({ kind: 'run' }),
   seed: z.number().int().nonnegative().lt(2 ** 32),
   workers: z.number().int().min(1).max(256).default(2),
 }).strict();
@@ -119,6 +140,7 @@ export function parseSweepSpecShape(input: unknown): SweepSpec {
     fail('SPEC_INVALID', `the sweep spec has ${fields.length} problem(s): ${fields.join('; ')}`, { details: { fields } });
   }
   const spec = r.data as SweepSpec;
+  if (spec.events.kind === 'random-blocks' && spec.events.offMaxSec < spec.events.offMinSec) fail('SPEC_INVALID', `events.offMaxSec (${spec.events.offMaxSec} s) must be at least events.offMinSec (${spec.events.offMinSec} s)`, { details: { fields: ['events.offMaxSec'] } });
   for (const [key, values] of Object.entries(spec.vary)) {
     if (!/^[A-Za-z][\w-]*\.[A-Za-z]\w*$/.test(key)) fail('SPEC_INVALID', `vary key "${key}" must look like "<step>.<parameter>", e.g. "smooth.fwhmMm"`, { details: { fields: [`vary.${key}`] } });
     const seen = new Set(values.map((v) => JSON.stringify(v)));

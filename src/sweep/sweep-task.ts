@@ -20,6 +20,8 @@ export interface SweepContext {
   brainMask: Uint8Array;
   /** Where planted blobs may be centred (1 = allowed). */
   placementMask: Uint8Array;
+  /** Voxels scored (the brain mask without voxels known to respond to the task already). */
+  scoreMask: Uint8Array;
   events: BoldEvent[];
   sidecar: Sidecar | null;
   threshold: SweepSpec['threshold'];
