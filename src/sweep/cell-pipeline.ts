@@ -84,7 +84,8 @@ async function computeGroupStage(ctx: SweepContext, group: CellGroup, trialType:
     const size = group.plant.shape === 'gaussian' ? { fwhmMm: group.plant.sizeMm } : { radiusMm: group.plant.sizeMm / 2 };
     ({ volume, truth } = plantActivations(raw, {
       count: group.plant.count, shape: group.plant.shape, ...size, amplitudePct: group.plant.amplitudePct,
-      timeCourse, placementMask: ctx.placementMask, seed: group.plantSeed,
+      timeCourse, placementMask: ctx.placementMask, seed: group.plantSeed, separation: group.plant.separation,
+      ...(group.plant.marginMm === null ? {} : { marginMm: group.plant.marginMm }),
     }));
   } else {
     volume = raw;

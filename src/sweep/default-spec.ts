@@ -14,6 +14,8 @@ export interface DefaultSmoothingOptions {
   amplitudePct?: number;
   /** Blobs per planting. __Default value:__ 6 */
   count?: number;
+  /** Centre margin inside the placement mask, mm; null: half the blob size. __Default value:__ null */
+  marginMm?: number | null;
   /** Repeated plantings per setting. __Default value:__ 20 */
   repeats?: number;
   /** Seed. __Default value:__ 1 */
@@ -41,7 +43,7 @@ export function defaultSmoothingSpec(o: DefaultSmoothingOptions = {}): SweepSpec
       { step: 'smooth', params: { fwhmMm: fwhms[0], mode: 'reflect', withinMask: false } },
     ],
     vary: { 'smooth.fwhmMm': fwhms },
-    plant: { shape: 'gaussian', sizesFwhmMm: o.sizesFwhmMm ?? [8], amplitudesPct: [o.amplitudePct ?? 1.5], count: o.count ?? 6 },
+    plant: { shape: 'gaussian', sizesFwhmMm: o.sizesFwhmMm ?? [8], amplitudesPct: [o.amplitudePct ?? 1.5], count: o.count ?? 6, marginMm: o.marginMm ?? null, separation: 2 },
     repeats: o.repeats ?? 20,
     threshold: { kind: 'fwe-rft', alpha: 0.05, q: 0.05, clusterFormingP: 0.001 },
     model: { ar1: true, highpassCutoffSec: 128, trialType: null, censorVolumes: o.censorVolumes ?? [] },

@@ -12,6 +12,8 @@ export interface PlantCondition {
   sizeMm: number;
   amplitudePct: number;
   count: number;
+  marginMm: number | null;
+  separation: number;
 }
 
 /**
@@ -81,9 +83,10 @@ export interface PlanInputs {
  */
 export function planSweep(spec: SweepSpec, inputs: PlanInputs): SweepPlan {
   const settings = settingsGrid(spec.vary);
-  const plants: PlantCondition[] = spec.plant.count === 0
-    ? [{ shape: spec.plant.shape, sizeMm: 0, amplitudePct: 0, count: 0 }]
-    : spec.plant.sizesFwhmMm.flatMap((sizeMm) => spec.plant.amplitudesPct.map((amplitudePct) => ({ shape: spec.plant.shape, sizeMm, amplitudePct, count: spec.plant.count })));
+  const { shape, count, marginMm, separation } = spec.plant;
+  const plants: PlantCondition[] = count === 0
+    ? [{ shape, sizeMm: 0, amplitudePct: 0, count: 0, marginMm, separation }]
+    : spec.plant.sizesFwhmMm.flatMap((sizeMm) => spec.plant.amplitudesPct.map((amplitudePct) => ({ shape, sizeMm, amplitudePct, count, marginMm, separation })));
   const splitAt = firstVariedStep(spec);
   const prefix = spec.recipe.slice(0, splitAt);
   const { workers: _workers, ...determining } = spec;

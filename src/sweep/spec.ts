@@ -26,6 +26,13 @@ export interface PlantSpec {
   amplitudesPct: number[];
   /** Blobs per planting; 0 plants nothing (a null sweep that measures false alarms only). */
   count: number;
+  /**
+   * How far (mm) blob centres stay inside the placement mask's edge; null takes half the blob size.
+   * Use 0 for a thin placement mask such as grey matter. __Default value:__ null
+   */
+  marginMm: number | null;
+  /** Smallest centre-to-centre distance as a multiple of the blob size. __Default value:__ 2 */
+  separation: number;
 }
 
 /** How a statistic map is thresholded before scoring. */
@@ -100,6 +107,8 @@ export const sweepSpecSchema = z.object({
     sizesFwhmMm: z.array(z.number().positive().max(100)).min(1),
     amplitudesPct: z.array(z.number().nonnegative().max(100)).min(1),
     count: z.number().int().nonnegative().max(1000),
+    marginMm: z.number().nonnegative().nullable().default(null),
+    separation: z.number().nonnegative().default(2),
   }).strict(),
   repeats: z.number().int().min(1).max(100000),
   threshold: z.object({
