@@ -1,3 +1,5 @@
+import { parameterName, parameterUnit } from '../sweep/settings-grid.js';
+
 /**
  * Axis labels with units for scorecard columns and varied parameters. Units come from the name
  * suffix (fwhmMm -> mm, cutoffSec -> s, ...), as every boldsweep option carries its unit in its name.
@@ -31,30 +33,20 @@ export function metricLabel(metric: string): string {
 }
 
 /**
- * The unit implied by a parameter name's suffix.
- * @param name - e.g. 'smooth.fwhmMm'
- * @returns 'mm', 's', '%', 'deg' or '' when the name carries no unit
- * @example unitOf('highpass.cutoffSec') // 's'
+ * An axis title for a varied parameter: "smooth.fwhmMm" -> "smoothing FWHM (mm)".
+ * @param key - "<step>.<param>"
+ * @returns the title
+ * @example parameterLabel('highpass.cutoffSec') // 'high-pass cutoff (s)'
  */
-export function unitOf(name: string): string {
-  if (/Mm$/.test(name)) return 'mm';
-  if (/Sec$/.test(name)) return 's';
-  if (/Pct$/.test(name)) return '%';
-  if (/Deg$/.test(name)) return 'deg';
-  return '';
+export function parameterLabel(key: string): string {
+  const unit = parameterUnit(key);
+  return `${parameterName(key)}${unit ? ` (${unit})` : ''}`;
 }
 
 /**
- * An axis title for a varied parameter: "smooth.fwhmMm" -> "smooth: fwhm (mm)".
- * @param key - "<step>.<param>"
- * @returns the title
- * @example parameterLabel('smooth.fwhmMm') // 'smooth: fwhm (mm)'
+ * The unit implied by a parameter name's suffix.
+ * @param name - e.g. 'smooth.fwhmMm'
+ * @returns 'mm', 's', '%', 'deg' or ''
+ * @example unitOf('highpass.cutoffSec') // 's'
  */
-export function parameterLabel(key: string): string {
-  const unit = unitOf(key);
-  const dot = key.indexOf('.');
-  const step = key.slice(0, dot);
-  const param = key.slice(dot + 1).replace(/(Mm|Sec|Pct|Deg)$/, '');
-  const words = param.replace(/([a-z])([A-Z])/g, '$1 $2').toLowerCase();
-  return `${step}: ${words}${unit ? ` (${unit})` : ''}`;
-}
+export const unitOf = parameterUnit;

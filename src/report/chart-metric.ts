@@ -41,8 +41,8 @@ export function metricChart(card: Scorecard, metric: string, options: MetricChar
   const y = { field: 'mean', type: 'quantitative' as const, title: metricLabel(metric), ...(options.yDomain ? { scale: { domain: options.yDomain } } : {}) };
   const color = { field: 'plant', type: 'ordinal' as const, title: 'Planted', sort: { field: 'plantSizeMm' }, scale: { scheme: { name: SIZE_SCHEME, extent: [0.05, 0.8] } } };
   const layers: object[] = [];
-  if (numeric) layers.push({ mark: { type: 'area', opacity: 0.15 }, encoding: { x, y: { field: 'low', type: 'quantitative' }, y2: { field: 'high' }, color } });
-  layers.push({ mark: { type: 'rule', strokeWidth: 1.5 }, encoding: { x, y: { field: 'low', type: 'quantitative', title: metricLabel(metric) }, y2: { field: 'high' }, color } });
+  if (numeric) layers.push({ mark: { type: 'area', opacity: 0.15, clip: true }, encoding: { x, y: { field: 'low', type: 'quantitative' }, y2: { field: 'high' }, color } });
+  layers.push({ mark: { type: 'rule', strokeWidth: 1.5, clip: true }, encoding: { x, y: { field: 'low', type: 'quantitative', title: metricLabel(metric) }, y2: { field: 'high' }, color } });
   layers.push({
     mark: { type: 'line', point: { filled: true, size: 40 }, strokeWidth: 2 },
     encoding: {
@@ -52,7 +52,7 @@ export function metricChart(card: Scorecard, metric: string, options: MetricChar
   });
   if (options.mark !== undefined) {
     layers.push({ data: { values: [{ x: options.mark, label: 'recommended' }] }, mark: { type: 'rule', strokeDash: [4, 3], color: '#333' }, encoding: { x: { field: 'x', type: x.type } } });
-    layers.push({ data: { values: [{ x: options.mark, label: 'recommended' }] }, mark: { type: 'text', align: 'left', dx: 4, dy: -4, baseline: 'top', color: '#333', fontSize: 10 }, encoding: { x: { field: 'x', type: x.type }, y: { value: 0 }, text: { field: 'label' } } });
+    layers.push({ data: { values: [{ x: options.mark, label: 'recommended' }] }, mark: { type: 'text', align: 'right', dx: -4, dy: 4, baseline: 'top', color: '#333', fontSize: 10 }, encoding: { x: { field: 'x', type: x.type }, y: { value: 0 }, text: { field: 'label' } } });
   }
   const title = { text: options.title ?? `${metricLabel(metric).replace(/ \(.*\)$/, '')} vs ${xTitle}`, ...(options.subtitle ? { subtitle: options.subtitle } : { subtitle: 'mean across repeats; bars and band: 95 % t-interval' }) };
   const panel = { width: options.width ?? CHART_WIDTH, height: options.height ?? CHART_HEIGHT, layer: layers };

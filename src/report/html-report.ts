@@ -1,6 +1,6 @@
 import type { Recommendation } from '../sweep/recommend.js';
 import type { SettingSummary } from '../sweep/summarise-scorecard.js';
-import { settingLabel } from '../sweep/settings-grid.js';
+import { settingText } from '../sweep/settings-grid.js';
 import { RESEARCH_CAUTION } from './caution.js';
 import { escapeHtml } from './html-escape.js';
 import { metricLabel } from './chart-labels.js';
@@ -42,7 +42,7 @@ function summaryTable(parts: ReportParts): string {
     const isChoice = s.settingIndex === chosen.chosen.settingIndex && s.plantSizeMm === chosen.plantSizeMm && s.plantAmplitudePct === chosen.plantAmplitudePct;
     const cells = [
       s.plantSizeMm > 0 ? `${s.plantSizeMm} mm, ${s.plantAmplitudePct} %` : 'nothing planted',
-      settingLabel(s.setting) + (isChoice ? ' (recommended)' : ''),
+      settingText(s.setting) + (isChoice ? ' (recommended)' : ''),
       String(s.repeats),
       ...parts.tableMetrics.map((m) => {
         const v = s.metrics[m];

@@ -1,6 +1,7 @@
 import type { DecisionRecord } from './decision-record-types.js';
-import { settingLabel } from '../sweep/settings-grid.js';
-import { parameterLabel, unitOf } from './chart-labels.js';
+import { parameterName, settingLabel, settingText } from '../sweep/settings-grid.js';
+import { metricWords } from '../sweep/recommend.js';
+import { unitOf } from './chart-labels.js';
 import { RESEARCH_CAUTION } from './caution.js';
 
 /** A methods section: paragraphs of plain scientific English and the references they cite. */
@@ -30,11 +31,6 @@ export const METHOD_REFERENCES = {
 } as const;
 
 const num = (x: number | null | undefined, d = 2) => (x === null || x === undefined || !Number.isFinite(x) ? 'n/a' : x.toFixed(d));
-
-function valueText(key: string, v: unknown): string {
-  const unit = unitOf(key);
-  return `${v}${unit ? ` ${unit}` : ''}`;
-}
 
 function thresholdSentence(r: DecisionRecord, cite: (ref: string) => string): string {
   const t = r.sweepSpec.threshold;
@@ -95,8 +91,8 @@ export function methodsText(r: DecisionRecord): MethodsText {
 
   // 3. how the choice was made
   const varied = Object.keys(spec.vary);
-  const candidates = varied.map((k) => `${parameterLabel(k)}: ${spec.vary[k].join(', ')}`).join('; ');
-  const chosenWhat = varied.length ? varied.map((k) => `${parameterLabel(k).replace(/ \(.*\)$/, '')} of ${valueText(k, choice.setting[k])}`).join(' and ') : 'the recipe';
+  const candidates = varied.map((k) => `${parameterName(k)} ${spec.vary[k].join(', ')}${unitOf(k) ? ` ${unitOf(k)}` : ''}`).join('; ');
+  const chosenWhat = varied.length ? `a ${settingText(choice.setting)}` : 'the recipe';
   const plant = spec.plant.count > 0
     ? `${spec.plant.count} ${spec.plant.shape === 'gaussian' ? 'Gaussian' : 'soft-edged spherical'} activations of ${choice.plantSizeMm} mm ${spec.plant.shape === 'gaussian' ? 'FWHM' : 'diameter'} and ${choice.plantAmplitudePct} % peak signal change, following the task time course, were added at random positions of the unprocessed run`
     : 'nothing was added to the run (a null simulation)';
@@ -108,8 +104,8 @@ export function methodsText(r: DecisionRecord): MethodsText {
   if (atChoice?.metrics.tsnrMedian) extras.push(`a median tSNR of ${num(atChoice.metrics.tsnrMedian.mean, 1)}`);
   if (atChoice?.metrics.smoothnessFwhmMm) extras.push(`an estimated smoothness of ${num(atChoice.metrics.smoothnessFwhmMm.mean, 1)} mm FWHM`);
   paragraphs.push(
-    `The ${varied.length ? varied.map(parameterLabel).join(' and ') : 'recipe'} was chosen by simulation on this run with boldsweep ${r.software.boldsweep} (seed ${r.seed}). In each of ${spec.repeats} repeats, ${plant}; every candidate setting (${candidates || 'one'}) was then applied, the model fitted and thresholded, and the detections compared with the planted truth.${ref} `
-    + `By the one-standard-error rule (${cite(METHOD_REFERENCES.oneSe)}), ${chosenWhat} was chosen: the ${choice.prefer} setting whose mean ${choice.metric} across repeats (${num(ch.mean, 3)}; 95 % t-interval ${num(ch.low, 3)} to ${num(ch.high, 3)}; ${cite(METHOD_REFERENCES.student)}) was within one standard error of the best (${num(choice.best.mean, 3)} at ${settingLabel(choice.best.setting)}, SE ${num(choice.best.se, 3)}).`
+    `The ${varied.length ? varied.map(parameterName).join(' and ') : 'recipe'} was chosen by simulation on this run with boldsweep ${r.software.boldsweep} (seed ${r.seed}). In each of ${spec.repeats} repeats, ${plant}; every candidate setting (${candidates || 'one'}) was then applied, the model fitted and thresholded, and the detections compared with the planted truth.${ref} `
+    + `By the one-standard-error rule (${cite(METHOD_REFERENCES.oneSe)}), ${chosenWhat} was chosen: the ${choice.prefer} setting whose mean ${metricWords(choice.metric)} across repeats (${num(ch.mean, 3)}; 95 % t-interval ${num(ch.low, 3)} to ${num(ch.high, 3)}; ${cite(METHOD_REFERENCES.student)}) was within one standard error of the best (${num(choice.best.mean, 3)} at ${settingText(choice.best.setting)}, SE ${num(choice.best.se, 3)}).`
     + (extras.length ? ` At this setting the simulation found ${extras.join(', ')}.` : ''),
   );
 

@@ -2,7 +2,7 @@ import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { writeFileAtomic } from '../io/atomic-write.js';
 import { recommendSetting, type RecommendOptions, type Recommendation } from '../sweep/recommend.js';
-import { settingLabel } from '../sweep/settings-grid.js';
+import { parameterName, settingText } from '../sweep/settings-grid.js';
 import { summariseScorecard } from '../sweep/summarise-scorecard.js';
 import { detectionChart, falseAlarmChart, smoothnessChart, tsnrChart } from './charts-sweep.js';
 import { rocChart } from './charts-roc.js';
@@ -82,7 +82,7 @@ export async function writeReport(dir: string, folder: SweepFolder, options: Rec
     `Sweep key ${result.scorecard.sweepKey}; run hash ${result.inputs.runHash}.`,
   ];
   const html = htmlReport({
-    title: `Which ${Object.keys(spec.vary).map(parameterLabel).join(' and ') || 'recipe'}? A boldsweep report`,
+    title: `Which ${Object.keys(spec.vary).map(parameterName).join(' and ') || 'recipe'}? A boldsweep report`,
     runSummary: `Run: ${folder.run.files.image ?? '(in memory)'}; ${folder.run.summary}.`,
     sweepLines, recommendation, charts, summaries: summariseScorecard(result.scorecard),
     tableMetrics: ['hitRate', 'falseClusters', 'rocAuc', 'dice', 'tsnrMedian', 'smoothnessFwhmMm'].filter((m) => result.scorecard.metrics.includes(m)),
@@ -90,7 +90,7 @@ export async function writeReport(dir: string, folder: SweepFolder, options: Rec
   });
   const files = { report: join(dir, 'report.html'), methods: join(dir, 'methods.md'), record: join(dir, 'decision-record.json') };
   await writeFileAtomic(files.report, html);
-  await writeFileAtomic(files.methods, methodsMarkdown(methods, `Methods: ${settingLabel(recommendation.choice.chosen.setting)}`));
+  await writeFileAtomic(files.methods, methodsMarkdown(methods, `Methods: ${settingText(recommendation.choice.chosen.setting)}`));
   await writeFileAtomic(files.record, JSON.stringify(record, null, 1) + '\n');
   return { recommendation, record, methods, charts, files };
 }

@@ -2,7 +2,7 @@ import { fail } from '../core/fail.js';
 import type { MeanInterval } from './confidence.js';
 import type { Scorecard } from './scorecard.js';
 import type { Setting } from './settings-grid.js';
-import { settingLabel } from './settings-grid.js';
+import { parameterName, settingText } from './settings-grid.js';
 import { summariseScorecard, type SettingSummary } from './summarise-scorecard.js';
 
 /** Options of {@link recommendSetting}. */
@@ -107,7 +107,7 @@ export function recommendSetting(card: Scorecard, options: RecommendOptions = {}
   const choice = perPlant.find((p) => p.plantSizeMm === targetSize && p.plantAmplitudePct === targetAmp);
   if (!choice) fail('INVALID_ARGUMENT', `no plant condition of size ${targetSize} mm and amplitude ${targetAmp} % in the scorecard; sizes are ${sizes.join(', ')} mm`);
   const thr = options.thresholdText ? ` with detections called at ${options.thresholdText}` : '';
-  const rule = `Among the settings whose mean ${metric} across repeats${thr} lies within one standard error of the best mean, choose the ${prefer} value of ${card.varied.join(' and ') || 'the recipe'} (the one-standard-error rule: prefer the simpler setting when the difference is within noise).`;
+  const rule = `Among the settings whose mean ${metricWords(metric)} across repeats${thr} lies within one standard error of the best mean, choose the ${prefer} ${card.varied.map(parameterName).join(' and ') || 'recipe'} (the one-standard-error rule: prefer the simpler setting when the difference is within noise).`;
   return { ruleId: 'one-se-simplest', rule, metric, prefer, varied: [...card.varied], choice, perPlant, summary: summaryText(choice, metric, card.varied), caveats: [...STANDING_CAVEATS] };
 }
 
@@ -129,7 +129,7 @@ function compareSettings(a: Setting, b: Setting, keys: string[]): number {
 
 function choose(rows: SettingSummary[], varied: string[], metric: string, prefer: 'smallest' | 'largest'): PlantChoice {
   const evidence: SettingEvidence[] = rows.map((s) => ({
-    settingIndex: s.settingIndex, setting: s.setting, label: settingLabel(s.setting),
+    settingIndex: s.settingIndex, setting: s.setting, label: settingText(s.setting),
     detection: mi(s, metric)!, falseClusters: mi(s, 'falseClusters'), withinOneSe: false,
   }));
   const finite = evidence.filter((e) => Number.isFinite(e.detection.mean));
@@ -142,6 +142,24 @@ function choose(rows: SettingSummary[], varied: string[], metric: string, prefer
   return { plantSizeMm: rows[0].plantSizeMm, plantAmplitudePct: rows[0].plantAmplitudePct, chosen: order[0], best, cutoff, evidence: evidence.sort((a, b) => compareSettings(a.setting, b.setting, varied)) };
 }
 
+/** Metric names in words, for sentences. */
+const METRIC_WORDS: Record<string, string> = {
+  hitRate: 'hit rate (fraction of planted voxels detected)',
+  blobHitRate: 'fraction of planted blobs detected',
+  rocAuc: 'ROC area',
+  dice: 'Dice overlap',
+};
+
+/**
+ * A metric column in words.
+ * @param metric - column name
+ * @returns e.g. 'hit rate (fraction of planted voxels detected)'
+ * @example metricWords('rocAuc') // 'ROC area'
+ */
+export function metricWords(metric: string): string {
+  return METRIC_WORDS[metric] ?? metric;
+}
+
 function fmt(x: number, digits = 3): string {
   return Number.isFinite(x) ? x.toFixed(digits) : 'n/a';
 }
@@ -152,7 +170,7 @@ function summaryText(c: PlantChoice, metric: string, varied: string[]): string {
   const b = c.best.detection;
   const fa = c.chosen.falseClusters;
   const plant = c.plantSizeMm > 0 ? `planted activations of ${c.plantSizeMm} mm at ${c.plantAmplitudePct} %` : 'no planted activations';
-  return `Use ${what}. For ${plant}, its mean ${metric} was ${fmt(d.mean)} (95 % interval ${fmt(d.low)} to ${fmt(d.high)}, n = ${d.n}); `
+  return `Use ${what}. For ${plant}, its mean ${metricWords(metric)} was ${fmt(d.mean)} (95 % interval ${fmt(d.low)} to ${fmt(d.high)}, n = ${d.n}); `
     + `the best setting, ${c.best.label}, reached ${fmt(b.mean)} (SE ${fmt(b.se)}), so every setting at or above ${fmt(c.cutoff)} counts as equally good and the ${c.chosen === c.best ? 'best is also the simplest' : 'simplest of them is chosen'}.`
     + (fa ? ` False clusters per run at this setting: ${fmt(fa.mean, 2)} on average.` : '');
 }
