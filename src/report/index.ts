@@ -12,3 +12,20 @@ export { traceChartSpec, lookTracesSpec, voxelTimeCourseSpec, LOOK_COLOURS } fro
 export { voxelRasterPng, voxelRasterSvg, RASTER_Z_LIMIT } from './voxel-raster-figure.js';
 export { lookFigures, chosenVoxels, maskCentre, type LookFigure } from './look-figures.js';
 export { writeLookFolder, lookSummaryJson, lookSeriesTsv } from './write-look-folder.js';
+// sweep report: charts, recommendation text, methods, decision record, HTML
+export { metricChart, type MetricChartOptions } from './chart-metric.js';
+export { detectionChart, falseAlarmChart, tsnrChart, smoothnessChart, type SweepChartOptions } from './charts-sweep.js';
+export { rocChart } from './charts-roc.js';
+export { chartPoints, plantLabel, type ChartPoint } from './chart-data.js';
+export { metricLabel, parameterLabel, unitOf } from './chart-labels.js';
+export { CHART_CONFIG, SIZE_SCHEME, SETTING_SCHEME } from './chart-style.js';
+export { RESEARCH_CAUTION } from './caution.js';
+export { htmlReport, type ReportChart, type ReportParts } from './html-report.js';
+export { methodsText, methodsMarkdown, shortCitation, METHOD_REFERENCES, type MethodsText } from './methods-text.js';
+export { buildDecisionRecord, readDecisionRecord, checkDecisionRecord, rerunRecord, recordDir, textSha256, type DecisionInputs, type RerunOutcome } from './decision-record.js';
+export type { DecisionRecord, MetricSummary } from './decision-record-types.js';
+export { runFacts, type RunFacts } from './run-facts.js';
+export { writeSweepFolder, readSweepFolder, type SweepFolder } from './sweep-folder.js';
+export { writeReport, sweepCharts, type WrittenReport } from './write-report.js';
+export { thresholdText } from './threshold-text.js';
+export { softwareVersions, packageRoot } from './software-versions.js';

@@ -1,12 +1,14 @@
 /**
  * The metric columns of a scorecard, in table order: the detection scores of each cell (see the
- * score module's ScoreRow for definitions), two derived false-alarm indicators, then what the
- * recipe did to the data (tSNR, estimated smoothness) and the threshold used.
+ * score module's ScoreRow for definitions), derived columns (familyWiseError: 1 when any false
+ * cluster survived; falseDiscoveryProportion: false over all surviving voxels; centreMargin: the
+ * statistic at the blob centres minus the threshold, in statistic units), then what the recipe did
+ * to the data (tSNR, estimated smoothness), the threshold and the model's degrees of freedom.
  */
 export const SCORECARD_METRICS = [
   'hitRate', 'blobHitRate', 'falseAlarmRate', 'falseClusters', 'familyWiseError', 'falseDiscoveryProportion',
-  'dice', 'rocAuc', 'peakErrorMeanMm', 'peakErrorMaxMm',
-  'effectEstimatedPct', 'effectPlantedPct', 'effectBiasPct', 'effectRatio',
+  'dice', 'rocAuc', 'peakErrorMeanMm', 'peakErrorMaxMm', 'peakStatisticMean', 'centreStatisticMean', 'centreMargin',
+  'effectEstimatedPct', 'effectPlantedPct', 'effectBiasPct', 'effectRatio', 'effectCentrePct', 'effectCentreBiasPct',
   'truthVoxels', 'survivorVoxels', 'truePositiveVoxels', 'falsePositiveVoxels', 'clusters', 'blobs', 'blobsDetected',
   'threshold', 'tsnrMedian', 'smoothnessFwhmMm', 'smoothnessXMm', 'smoothnessYMm', 'smoothnessZMm', 'dof',
 ] as const;

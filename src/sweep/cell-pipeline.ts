@@ -153,6 +153,7 @@ function modelAndScore(volume: Volume, context: StepContext, truth: PlantTruth, 
   Object.assign(metrics, {
     familyWiseError: score.falseClusters > 0 ? 1 : 0,
     falseDiscoveryProportion: score.survivorVoxels > 0 ? score.falsePositiveVoxels / score.survivorVoxels : 0,
+    centreMargin: finite(score.centreStatisticMean - thr.threshold),
     threshold: finite(thr.threshold), tsnrMedian: finite(tsnrMedian),
     smoothnessFwhmMm: finite(Math.cbrt(fx * fy * fz)), smoothnessXMm: finite(fx), smoothnessYMm: finite(fy), smoothnessZMm: finite(fz), dof: maps.dof,
   });
