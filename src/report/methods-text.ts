@@ -83,16 +83,19 @@ export function methodsText(r: DecisionRecord): MethodsText {
   });
   paragraphs.push(`The functional run (${r.run.summary}) was preprocessed with ${r.stepNotes.length} step${r.stepNotes.length === 1 ? '' : 's'}, in this order. ${steps.join(' ')}`);
 
-  // 2. model and threshold
+  // 2. model and threshold (citations numbered in the order they appear)
   const cond = spec.model.trialType ? `the '${spec.model.trialType}' events` : 'the task events';
   const drift = spec.model.highpassCutoffSec ? `, discrete cosine drift regressors with a ${spec.model.highpassCutoffSec} s cutoff` : '';
+  const censored = spec.model.censorVolumes.length ? `, one indicator regressor for each of the ${spec.model.censorVolumes.length} censored volumes (${spec.model.censorVolumes.join(', ')})` : '';
+  const glm = `Each voxel inside the brain mask was fitted with a general linear model (${cite(METHOD_REFERENCES.glm)}) whose regressor of interest was ${cond} convolved with a canonical double-gamma haemodynamic response (${cite(METHOD_REFERENCES.hrf)})${drift}${censored} and an intercept.`;
   const ar = spec.model.ar1 ? ` Serial correlation was modelled as a first-order autoregressive process, bias-corrected and removed by prewhitening (${cite(METHOD_REFERENCES.ar1)}).` : ' Serial correlation was not modelled (ordinary least squares).';
-  paragraphs.push(`Each voxel inside the brain mask was fitted with a general linear model (${cite(METHOD_REFERENCES.glm)}) whose regressor of interest was ${cond} convolved with a canonical double-gamma haemodynamic response (${cite(METHOD_REFERENCES.hrf)})${drift} and an intercept.${ar} The effect was tested with a one-sided t contrast. ${thresholdSentence(r, cite)}`);
+  paragraphs.push(`${glm}${ar} The effect was tested with a one-sided t contrast. ${thresholdSentence(r, cite)}`);
 
   // 3. how the choice was made
   const varied = Object.keys(spec.vary);
   const candidates = varied.map((k) => `${parameterName(k)} ${spec.vary[k].join(', ')}${unitOf(k) ? ` ${unitOf(k)}` : ''}`).join('; ');
-  const chosenWhat = varied.length ? `a ${settingText(choice.setting)}` : 'the recipe';
+  const chosenWhat = varied.length ? Object.entries(choice.setting).map(([k, v]) => `a ${parameterName(k)} of ${v}${unitOf(k) ? ` ${unitOf(k)}` : ''}`).join(' and ') : 'the recipe';
+  const sameAsBest = settingLabel(choice.best.setting) === settingLabel(choice.setting);
   const plant = spec.plant.count > 0
     ? `${spec.plant.count} ${spec.plant.shape === 'gaussian' ? 'Gaussian' : 'soft-edged spherical'} activations of ${choice.plantSizeMm} mm ${spec.plant.shape === 'gaussian' ? 'FWHM' : 'diameter'} and ${choice.plantAmplitudePct} % peak signal change, following the task time course, were added at random positions of the unprocessed run`
     : 'nothing was added to the run (a null simulation)';
@@ -105,7 +108,10 @@ export function methodsText(r: DecisionRecord): MethodsText {
   if (atChoice?.metrics.smoothnessFwhmMm) extras.push(`an estimated smoothness of ${num(atChoice.metrics.smoothnessFwhmMm.mean, 1)} mm FWHM`);
   paragraphs.push(
     `The ${varied.length ? varied.map(parameterName).join(' and ') : 'recipe'} was chosen by simulation on this run with boldsweep ${r.software.boldsweep} (seed ${r.seed}). In each of ${spec.repeats} repeats, ${plant}; every candidate setting (${candidates || 'one'}) was then applied, the model fitted and thresholded, and the detections compared with the planted truth.${ref} `
-    + `By the one-standard-error rule (${cite(METHOD_REFERENCES.oneSe)}), ${chosenWhat} was chosen: the ${choice.prefer} setting whose mean ${metricWords(choice.metric)} across repeats (${num(ch.mean, 3)}; 95 % t-interval ${num(ch.low, 3)} to ${num(ch.high, 3)}; ${cite(METHOD_REFERENCES.student)}) was within one standard error of the best (${num(choice.best.mean, 3)} at ${settingText(choice.best.setting)}, SE ${num(choice.best.se, 3)}).`
+    + `By the one-standard-error rule (${cite(METHOD_REFERENCES.oneSe)}), ${chosenWhat} was chosen: the ${choice.prefer} setting whose mean ${metricWords(choice.metric)} across repeats was within one standard error of the best mean. `
+    + (sameAsBest
+      ? `Here the best setting was also the ${choice.prefer} qualifying one (mean ${num(ch.mean, 3)}; 95 % t-interval ${num(ch.low, 3)} to ${num(ch.high, 3)}, ${cite(METHOD_REFERENCES.student)}; SE ${num(choice.best.se, 3)}).`
+      : `Its mean was ${num(ch.mean, 3)} (95 % t-interval ${num(ch.low, 3)} to ${num(ch.high, 3)}, ${cite(METHOD_REFERENCES.student)}), against ${num(choice.best.mean, 3)} (SE ${num(choice.best.se, 3)}) at the best setting, ${settingText(choice.best.setting)}.`)
     + (extras.length ? ` At this setting the simulation found ${extras.join(', ')}.` : ''),
   );
 

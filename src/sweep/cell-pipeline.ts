@@ -14,6 +14,8 @@ import { scoreDetection } from './score.js';
 import { DEFAULT_FPR_GRID, tprAtFpr } from './curve-table.js';
 import { applyThresholdRule } from './threshold-rule.js';
 import { runRecipeStep } from './recipe-step.js';
+import { collectGarbage } from './collect-garbage.js';
+import { isMainThread } from 'node:worker_threads';
 import { readGroupStage, writeCachedCell, writeGroupStage, type GroupStage } from './stage-cache.js';
 import { fail } from '../core/fail.js';
 import type { CellPlan, CellGroup } from './plan.js';
@@ -29,8 +31,10 @@ import { randomBlockEvents } from './random-block-events.js';
  *                -> threshold rule -> score against the planted truth -> ROC samples -> cache
  *
  * Memory: the group stage is dropped as soon as the first per-setting step has produced its output
- * and is read back from the disk cache (or recomputed) for the next cell, so a worker holds at most
- * two run-sized arrays at a time (a step's input and output, or the run and the GLM residuals).
+ * and is read back from the disk cache (or recomputed) for the next cell; the preprocessed run is
+ * dropped once the model is fitted; dropped arrays are collected at once. A worker so holds at most
+ * two run-sized arrays at a time (a step's input and output, or the run and the GLM residuals),
+ * plus the run itself, shared by all workers.
  */
 
 function sharedRunVolume(ctx: SweepContext): Volume {
@@ -116,11 +120,21 @@ async function obtainStage(task: SweepTask, trialType: string): Promise<{ stage:
 const finite = (x: number): number | null => (Number.isFinite(x) ? x : null);
 
 /**
+ * Collect dropped run-sized arrays now (in a worker thread). V8 frees such external memory lazily,
+ * so without this a worker would hold the dead planted run, stage and smoothed run of a cell while
+ * the model allocates its residuals; with it, at most two run-sized arrays are alive at any time.
+ */
+function release(): void {
+  if (!isMainThread) collectGarbage();
+}
+
+/**
  * Model, threshold and score one preprocessed run.
  * @returns metrics, ROC samples
  */
-function modelAndScore(volume: Volume, context: StepContext, truth: PlantTruth, ctx: SweepContext, cell: CellPlan, trialType: string): { metrics: Record<string, number | null>; tpr: number[] } {
+function modelAndScore(holder: { volume: Volume | null }, context: StepContext, truth: PlantTruth, ctx: SweepContext, cell: CellPlan, trialType: string): { metrics: Record<string, number | null>; tpr: number[] } {
   const brain = ctx.brainMask;
+  let volume = holder.volume!;
   const n = voxelsPerVolume(volume);
   // tSNR of the data as the recipe left it (mean / SD over time after a quadratic drift)
   const stats = voxelTimeStats(volume, { detrendOrder: 2 });
@@ -140,11 +154,16 @@ function modelAndScore(volume: Volume, context: StepContext, truth: PlantTruth, 
     nuisance,
   });
   const fit = cell.model.ar1 ? fitGlmAr1(volume, design, { mask: brain, keepResiduals: true }) : fitGlm(volume, design, { mask: brain, keepResiduals: true });
+  // the preprocessed run is not needed any more: let it go before the residuals are used
+  const grid = { dims: [volume.dims[0], volume.dims[1], volume.dims[2]], spacingMm: volume.spacingMm };
+  holder.volume = null;
+  volume = null as unknown as Volume;
+  release();
   const maps = contrastMaps(fit, { [trialType]: 1 }, { name: trialType });
-  const res = fit.residuals!;
-  const smooth = estimateSmoothness(res.data, res.dims, brain, volume.spacingMm, { dof: fit.dof });
+  const smooth = estimateSmoothness(fit.residuals!.data, fit.residuals!.dims, brain, grid.spacingMm, { dof: fit.dof });
   fit.residuals = null;
-  const thr = applyThresholdRule(maps.t.data, brain, [volume.dims[0], volume.dims[1], volume.dims[2]], ctx.threshold, { kind: 't', dof: maps.dof }, smooth.fwhmMm, volume.spacingMm);
+  release();
+  const thr = applyThresholdRule(maps.t.data, brain, grid.dims, ctx.threshold, { kind: 't', dof: maps.dof }, smooth.fwhmMm, grid.spacingMm);
   const score = scoreDetection({ statistic: maps.t, survivors: thr.survivors, truth, brainMask: ctx.scoreMask, effectPct: maps.percentSignalChange, threshold: thr.threshold, thresholdMethod: thr.rule });
   const tpr = score.truthVoxels > 0 ? (() => { const c = rocCurve(maps.t.data, truth.mask, ctx.scoreMask); return tprAtFpr(c.fpr, c.tpr, DEFAULT_FPR_GRID); })() : [];
   const [fx, fy, fz] = smooth.fwhmMm;
@@ -178,23 +197,35 @@ export async function runSweepTask(task: SweepTask, onCell?: (done: number) => v
     const t0 = performance.now();
     let how: CellResult['groupStage'] = 'memory';
     let stage: GroupStage | null = held;
-    if (!stage) ({ stage, how } = await obtainStage(task, trialType));
-    let volume = stage.volume;
+    if (!stage) {
+      ({ stage, how } = await obtainStage(task, trialType));
+      if (how === 'computed') release(); // the planted run before the shared steps
+    }
+    let volume: Volume | null = stage.volume;
     let context = stage.context;
     const notes = [...stage.notes];
     const truth = stage.truth;
     held = ctx.stageMode === 'memory' ? stage : null;
     stage = null;
     for (const step of cell.suffix) {
-      const r = await runRecipeStep(step, volume, context);
+      const r = await runRecipeStep(step, volume!, context);
       volume = r.volume;
       context = r.context ?? context;
       notes.push(r.note);
+      release(); // the step's input (the group stage, unless it is held for the next cell)
     }
-    const { metrics, tpr } = modelAndScore(volume, context, truth, ctx, cell, trialType);
+    const holder = { volume };
+    volume = null;
+    const { metrics, tpr } = modelAndScore(holder, context, truth, ctx, cell, trialType);
     const result: CellResult = { key: cell.key, metrics, tpr, notes, seconds: (performance.now() - t0) / 1000, groupStage: how };
     if (ctx.cacheDir) await writeCachedCell(ctx.cacheDir, result);
     out.push(result);
+    context = null as unknown as StepContext;
+    release();
+    // free this cell's run-sized arrays before the next cell allocates its own (bounded peak memory)
+    volume = null as unknown as Volume;
+    context = null as unknown as StepContext;
+    collectGarbage();
     if (ctx.progress) Atomics.add(ctx.progress, task.index, 1);
     onCell?.(out.length);
   }

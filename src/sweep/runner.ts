@@ -7,6 +7,7 @@ import { brainMaskFromMean } from '../look/brain-mask.js';
 import { meanImage } from '../look/mean-image.js';
 import type { StepNote } from '../steps/step-types.js';
 import { runSweepTask } from './cell-pipeline.js';
+import { collectGarbage } from './collect-garbage.js';
 import { SCORECARD_METRICS } from './cell-metrics.js';
 import { DEFAULT_FPR_GRID, type CurveTable } from './curve-table.js';
 import { planSweep, type CellPlan, type SweepPlan } from './plan.js';
@@ -44,8 +45,13 @@ export interface SweepRunInput {
 export interface SweepOptions {
   /** Folder for the stage cache (resume after interruption, reuse across runs); null keeps nothing. __Default value:__ null */
   cacheDir?: string | null;
-  /** Worker threads (1 runs in this thread). __Default value:__ the spec's `workers` */
+  /** Worker threads. __Default value:__ the spec's `workers` */
   workers?: number;
+  /**
+   * Run the cells in this thread instead of worker threads (for debugging and profiling). Steps
+   * that parallelise themselves (smoothing) then start their own threads. __Default value:__ false
+   */
+  inThisThread?: boolean;
   /** Run only this shard, "i/N" or { index, count }. __Default value:__ everything */
   shard?: Shard | string | null;
   /** Brain mask, one byte per voxel (1 = in). __Default value:__ Otsu mask of the mean image (look module) */
@@ -132,6 +138,9 @@ export function volumeHash(v: Volume): string {
  */
 export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | SweepSpec, options: SweepOptions = {}): Promise<SweepResult> {
   const t0 = performance.now();
+  // whatever the caller dropped (say the run before it was moved to shared memory) goes now, not
+  // during the sweep, so it does not add to the peak
+  collectGarbage();
   // 1. spec
   const spec = parseSweepSpec(specInput);
   const workers = options.workers ?? spec.workers;
@@ -189,7 +198,9 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
     for (let j = 0; j < k; j++) taskCells.push({ group: g, cells: cells.filter((_, m) => m % k === j) });
   }
   const splitGroups = new Set(taskCells.filter((t, i, all) => all.findIndex((u) => u.group === t.group) !== i).map((t) => t.group));
-  const useThreads = workers > 1 && taskCells.length > 1;
+  // cells run in worker threads even for one worker: there, steps run in their calling thread and the
+  // memory of one cell is released before the next (see cell-pipeline.ts)
+  const useThreads = !options.inThisThread && taskCells.length > 0;
   const progress = new Int32Array(useThreads ? new SharedArrayBuffer(4 * Math.max(1, taskCells.length)) : new ArrayBuffer(4 * Math.max(1, taskCells.length)));
   const baseContext = (stageMode: SweepContext['stageMode']): SweepContext => ({
     run: { dims: [...volume.dims], spacingMm: [...volume.spacingMm], trSec: volume.trSec, affine: Array.from(volume.affine), data: volume.data },
@@ -271,6 +282,6 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
     spec, plan: { settings: plan.settings, plants: plan.plants, splitAt: plan.splitAt, sweepKey: plan.sweepKey }, scorecard, curves,
     notes: [...notes.entries()].sort((a, b) => a[0] - b[0]).map(([settingIndex, ns]) => ({ settingIndex, notes: ns })),
     inputs: { runHash, contextHash }, shard,
-    stats: { cellsInPlan: plan.cells.length, cellsRun: total, cellsComputed: computed, cellsFromCache: fromCache, tasks: tasks.length, workers: useThreads ? Math.min(workers, tasks.length) : 1, wallSeconds: (performance.now() - t0) / 1000 },
+    stats: { cellsInPlan: plan.cells.length, cellsRun: total, cellsComputed: computed, cellsFromCache: fromCache, tasks: tasks.length, workers: useThreads ? Math.min(workers, tasks.length) : tasks.length ? 1 : 0, wallSeconds: (performance.now() - t0) / 1000 },
   };
 }

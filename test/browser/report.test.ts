@@ -67,7 +67,7 @@ describe('HTML report in headless Chromium', () => {
     const text = await page.textContent('body');
     expect(text).toContain('Recommendation');
     expect(text).toContain('not for clinical or presurgical decisions');
-    expect(text).toMatch(/Use smooth\.fwhmMm=\d+/);
+    expect(text).toMatch(/Use smoothing FWHM \d+ mm/);
     expect(requests).toEqual([]); // self-contained: nothing fetched
     mkdirSync(outDir, { recursive: true });
     await page.screenshot({ path: join(outDir, 'report.png'), fullPage: true });

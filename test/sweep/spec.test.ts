@@ -25,7 +25,9 @@ describe('sweep spec shape', () => {
     const s = parseSweepSpecShape(base);
     expect(s.version).toBe(1);
     expect(s.threshold).toEqual({ kind: 'fwe-rft', alpha: 0.05, q: 0.05, clusterFormingP: 0.001 });
-    expect(s.model).toEqual({ ar1: true, highpassCutoffSec: 128, trialType: null });
+    expect(s.model).toEqual({ ar1: true, highpassCutoffSec: 128, trialType: null, censorVolumes: [] });
+    expect(s.events).toEqual({ kind: 'run' });
+    expect(s.plant.marginMm).toBeNull();
     expect(s.plant.shape).toBe('gaussian');
     expect(s.workers).toBe(2);
   });
