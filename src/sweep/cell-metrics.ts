@@ -3,7 +3,9 @@
  * score module's ScoreRow for definitions), derived columns (familyWiseError: 1 when any false
  * cluster survived; falseDiscoveryProportion: false over all surviving voxels; centreMargin: the
  * statistic at the blob centres minus the threshold, in statistic units), then what the recipe did
- * to the data (tSNR, estimated smoothness), the threshold and the model's degrees of freedom.
+ * to the data (tsnrMedian: median tSNR in the brain mask of the run after the setting's recipe,
+ * nothing planted, so the same for every repeat of a setting; the smoothness estimated from the
+ * cell's residuals), the threshold and the model's degrees of freedom.
  */
 export const SCORECARD_METRICS = [
   'hitRate', 'blobHitRate', 'falseAlarmRate', 'falseClusters', 'familyWiseError', 'falseDiscoveryProportion',

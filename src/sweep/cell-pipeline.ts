@@ -16,10 +16,10 @@ import { applyThresholdRule } from './threshold-rule.js';
 import { runRecipeStep } from './recipe-step.js';
 import { collectGarbage } from './collect-garbage.js';
 import { isMainThread } from 'node:worker_threads';
-import { readGroupStage, writeCachedCell, writeGroupStage, type GroupStage } from './stage-cache.js';
+import { readGroupStage, writeCachedCell, writeCachedTsnr, writeGroupStage, type GroupStage } from './stage-cache.js';
 import { fail } from '../core/fail.js';
 import type { CellPlan, CellGroup } from './plan.js';
-import type { CellResult, SweepContext, SweepTask } from './sweep-task.js';
+import type { CellResult, SweepContext, SweepTask, TsnrResult, TsnrTask } from './sweep-task.js';
 import type { BoldEvent } from '../io/run-types.js';
 import { randomBlockEvents } from './random-block-events.js';
 
@@ -27,8 +27,9 @@ import { randomBlockEvents } from './random-block-events.js';
  * One task of a sweep, in a worker thread or in the main thread (same code, same bytes):
  *
  *   group stage: raw run -> plant (seeded) -> shared recipe steps     (once per task, or read from cache)
- *   per cell:    group stage -> this setting's steps -> tSNR -> GLM -> contrast -> smoothness
+ *   per cell:    group stage -> this setting's steps -> GLM -> contrast -> smoothness
  *                -> threshold rule -> score against the planted truth -> ROC samples -> cache
+ *   per setting: the run as it is -> the whole recipe -> tSNR in the brain mask   (a tsnr task)
  *
  * Memory: the group stage is dropped as soon as the first per-setting step has produced its output
  * and is read back from the disk cache (or recomputed) for the next cell; the preprocessed run is
@@ -135,12 +136,6 @@ function release(): void {
 function modelAndScore(holder: { volume: Volume | null }, context: StepContext, truth: PlantTruth, ctx: SweepContext, cell: CellPlan, trialType: string): { metrics: Record<string, number | null>; tpr: number[] } {
   const brain = ctx.brainMask;
   let volume = holder.volume!;
-  const n = voxelsPerVolume(volume);
-  // tSNR of the data as the recipe left it (mean / SD over time after a quadratic drift)
-  const stats = voxelTimeStats(volume, { detrendOrder: 2 });
-  const inMask: number[] = [];
-  for (let v = 0; v < n; v++) if (brain[v] && Number.isFinite(stats.tsnr[v])) inMask.push(stats.tsnr[v]);
-  const tsnrMedian = inMask.length ? medianOf(inMask) : NaN;
 
   const events = context.events!;
   const nt = volume.dims[3];
@@ -173,7 +168,7 @@ function modelAndScore(holder: { volume: Volume | null }, context: StepContext, 
     familyWiseError: score.falseClusters > 0 ? 1 : 0,
     falseDiscoveryProportion: score.survivorVoxels > 0 ? score.falsePositiveVoxels / score.survivorVoxels : 0,
     centreMargin: finite(score.centreStatisticMean - thr.threshold),
-    threshold: finite(thr.threshold), tsnrMedian: finite(tsnrMedian),
+    threshold: finite(thr.threshold),
     smoothnessFwhmMm: finite(Math.cbrt(fx * fy * fz)), smoothnessXMm: finite(fx), smoothnessYMm: finite(fy), smoothnessZMm: finite(fz), dof: maps.dof,
   });
   return { metrics, tpr };
@@ -230,4 +225,32 @@ export async function runSweepTask(task: SweepTask, onCell?: (done: number) => v
     onCell?.(out.length);
   }
   return out;
+}
+
+/**
+ * Median tSNR in the brain mask of the run after a setting's whole recipe, with nothing planted:
+ * mean / SD over time after removing a quadratic drift (the look module's voxelTimeStats).
+ * @param task - the setting's steps and the shared context
+ * @returns the median (null when undefined) and the seconds taken
+ * @example const { tsnrMedian } = await runTsnrTask(task)
+ */
+export async function runTsnrTask(task: TsnrTask): Promise<TsnrResult> {
+  const t0 = performance.now();
+  const ctx = task.context;
+  let volume: Volume | null = sharedRunVolume(ctx);
+  let context: StepContext = { sidecar: ctx.sidecar, events: ctx.events, mask: ctx.brainMask };
+  for (const step of task.steps) {
+    const r = await runRecipeStep(step, volume!, context);
+    volume = r.volume;
+    context = r.context ?? context;
+    release();
+  }
+  const stats = voxelTimeStats(volume!, { detrendOrder: 2 });
+  volume = null;
+  const inMask: number[] = [];
+  for (let v = 0; v < ctx.brainMask.length; v++) if (ctx.brainMask[v] && Number.isFinite(stats.tsnr[v])) inMask.push(stats.tsnr[v]);
+  const result: TsnrResult = { key: task.key, tsnrMedian: inMask.length ? medianOf(inMask) : null, seconds: (performance.now() - t0) / 1000 };
+  if (ctx.cacheDir) await writeCachedTsnr(ctx.cacheDir, result);
+  release();
+  return result;
 }

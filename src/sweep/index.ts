@@ -21,13 +21,13 @@ export { planSweep, firstVariedStep, CACHE_FORMAT, type SweepPlan, type CellPlan
 export { parseShard, shardCells, type Shard } from './shard.js';
 export { canonicalJson, stableHash } from './stable-hash.js';
 export { runSweep, volumeHash, type SweepOptions, type SweepResult, type SweepRunInput, type SweepStats } from './runner.js';
-export { runSweepTask } from './cell-pipeline.js';
+export { runSweepTask, runTsnrTask } from './cell-pipeline.js';
 export { applyThresholdRule } from './threshold-rule.js';
 export { randomBlockEvents, type RandomBlocks } from './random-block-events.js';
 export { gatherResults } from './gather.js';
 export { shareVolume, sharedBytes } from './shared-volume.js';
-export { readCachedCell, writeCachedCell, readGroupStage, writeGroupStage, removeGroupStage, type GroupStage } from './stage-cache.js';
-export type { SweepTask, SweepContext, CellResult, SharedRun } from './sweep-task.js';
+export { readCachedCell, writeCachedCell, readCachedTsnr, writeCachedTsnr, readGroupStage, writeGroupStage, removeGroupStage, type GroupStage } from './stage-cache.js';
+export type { SweepTask, TsnrTask, TsnrResult, SweepJob, SweepContext, CellResult, SharedRun } from './sweep-task.js';
 export { buildMask, maskFromFile, fileFacts, type MaskSource, type FileFacts } from './mask-source.js';
 export { progressLine, lineProgress, type SweepProgress } from './progress.js';
 export { terminalProgress } from './terminal-progress.js';

@@ -4,7 +4,7 @@ import type { RecipeStep, SweepSpec } from './spec.js';
 import { stableHash } from './stable-hash.js';
 
 /** Bump when what a cached stage or cell holds changes, so old caches are never reused. */
-export const CACHE_FORMAT = 'boldsweep-sweep-cache-2';
+export const CACHE_FORMAT = 'boldsweep-sweep-cache-3';
 
 /** One planted condition: a blob size and amplitude (count 0 = nothing planted). */
 export interface PlantCondition {
@@ -55,6 +55,8 @@ export interface CellPlan {
 /** The whole plan of a sweep. */
 export interface SweepPlan {
   settings: Setting[];
+  /** Per setting: the whole recipe with the setting and the cache key of its tSNR (equal recipes share a key). */
+  tsnr: Array<{ settingIndex: number; steps: RecipeStep[]; key: string }>;
   plants: PlantCondition[];
   groups: CellGroup[];
   cells: CellPlan[];
@@ -113,7 +115,11 @@ export function planSweep(spec: SweepSpec, inputs: PlanInputs): SweepPlan {
       });
     }
   }
-  return { settings, plants, groups, cells, splitAt, sweepKey };
+  const tsnr = settings.map((setting, settingIndex) => {
+    const steps = applySetting(spec.recipe, setting);
+    return { settingIndex, steps, key: stableHash({ format: CACHE_FORMAT, stage: 'tsnr', inputs, steps }) };
+  });
+  return { settings, tsnr, plants, groups, cells, splitAt, sweepKey };
 }
 
 /**

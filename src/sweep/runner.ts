@@ -6,7 +6,7 @@ import type { BoldEvent, Sidecar } from '../io/run-types.js';
 import { brainMaskFromMean } from '../look/brain-mask.js';
 import { meanImage } from '../look/mean-image.js';
 import type { StepNote } from '../steps/step-types.js';
-import { runSweepTask } from './cell-pipeline.js';
+import { runSweepTask, runTsnrTask } from './cell-pipeline.js';
 import { collectGarbage } from './collect-garbage.js';
 import { SCORECARD_METRICS } from './cell-metrics.js';
 import { DEFAULT_FPR_GRID, type CurveTable } from './curve-table.js';
@@ -18,8 +18,8 @@ import { sharedBytes } from './shared-volume.js';
 import { parseSweepSpec } from './parse-sweep-spec.js';
 import type { SweepSpec, SweepSpecInput } from './spec.js';
 import { stableHash } from './stable-hash.js';
-import { readCachedCell, removeGroupStage } from './stage-cache.js';
-import type { CellResult, SweepContext, SweepTask } from './sweep-task.js';
+import { readCachedCell, readCachedTsnr, removeGroupStage } from './stage-cache.js';
+import type { CellResult, SweepContext, SweepJob, SweepTask, TsnrResult, TsnrTask } from './sweep-task.js';
 
 /*
  * A sweep, phase by phase:
@@ -180,6 +180,17 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
     }
   }
 
+  // per-setting tSNR (settings of this shard only; equal recipes share one computation)
+  const mySettings = new Set(mine.map((i) => plan.cells[i].settingIndex));
+  const tsnrByKey = new Map<string, TsnrResult>();
+  const tsnrTodo = new Map<string, (typeof plan.tsnr)[number]>();
+  for (const t of plan.tsnr) {
+    if (!mySettings.has(t.settingIndex) || tsnrByKey.has(t.key) || tsnrTodo.has(t.key)) continue;
+    const cached = cacheDir ? readCachedTsnr(cacheDir, t.key) : null;
+    if (cached) tsnrByKey.set(t.key, cached);
+    else tsnrTodo.set(t.key, t);
+  }
+
   // 5. tasks
   const todo = new Map<number, CellPlan[]>();
   for (const i of mine) {
@@ -200,8 +211,9 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
   const splitGroups = new Set(taskCells.filter((t, i, all) => all.findIndex((u) => u.group === t.group) !== i).map((t) => t.group));
   // cells run in worker threads even for one worker: there, steps run in their calling thread and the
   // memory of one cell is released before the next (see cell-pipeline.ts)
-  const useThreads = !options.inThisThread && taskCells.length > 0;
+  const useThreads = !options.inThisThread && taskCells.length + tsnrTodo.size > 0;
   const progress = new Int32Array(useThreads ? new SharedArrayBuffer(4 * Math.max(1, taskCells.length)) : new ArrayBuffer(4 * Math.max(1, taskCells.length)));
+  const jobCount = taskCells.length + tsnrTodo.size;
   const baseContext = (stageMode: SweepContext['stageMode']): SweepContext => ({
     run: { dims: [...volume.dims], spacingMm: [...volume.spacingMm], trSec: volume.trSec, affine: Array.from(volume.affine), data: volume.data },
     brainMask: useThreads ? sharedBytes(brainMask) : brainMask,
@@ -212,8 +224,9 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
   const reuse = options.reuseStages ?? true;
   const ctxPlain = baseContext(reuse ? 'memory' : 'none');
   const ctxDisk: SweepContext = { ...ctxPlain, stageMode: 'disk' };
+  const tsnrTasks: TsnrTask[] = [...tsnrTodo.values()].map((t, i) => ({ kind: 'tsnr', index: taskCells.length + i, key: t.key, steps: t.steps, context: ctxPlain }));
   const tasks: SweepTask[] = taskCells.map((t, i) => ({
-    index: i, group: plan.groups[t.group], cells: t.cells,
+    kind: 'cells', index: i, group: plan.groups[t.group], cells: t.cells,
     // a group stage goes to disk when other tasks (or a resumed sweep) can reuse it
     context: reuse && cacheDir && (splitGroups.has(t.group) || plan.splitAt > 0) ? ctxDisk : ctxPlain,
   }));
@@ -243,15 +256,20 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
     if (left === 0 && cacheDir && !options.keepStages) removeGroupStage(cacheDir, t.group.key);
   };
   if (!useThreads) {
+    for (const t of tsnrTasks) tsnrByKey.set(t.key, await runTsnrTask(t));
     for (const t of tasks) {
       keep(await runSweepTask(t, () => report()), t);
       finishGroup(t);
     }
   } else {
-    const pool = createWorkerPool<SweepTask, CellResult[]>(new URL('./sweep-worker.js', import.meta.url), { size: Math.min(workers, tasks.length) });
+    const pool = createWorkerPool<SweepJob, CellResult[] | TsnrResult>(new URL('./sweep-worker.js', import.meta.url), { size: Math.min(workers, jobCount) });
     const timer = setInterval(report, 250);
     try {
-      await Promise.all(tasks.map((t) => pool.run(t).then((out) => { keep(out, t); finishGroup(t); report(); })));
+      // the short tSNR jobs first, then the groups
+      await Promise.all([
+        ...tsnrTasks.map((t) => pool.run(t).then((out) => { tsnrByKey.set(t.key, out as TsnrResult); })),
+        ...tasks.map((t) => pool.run(t).then((out) => { keep(out as CellResult[], t); finishGroup(t); report(); })),
+      ]);
     } finally {
       clearInterval(timer);
       await pool.close();
@@ -272,6 +290,7 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
     for (const k of Object.keys(spec.vary)) row[k] = c.setting[k];
     Object.assign(row, { plantShape: g.plant.shape, plantSizeMm: g.plant.sizeMm, plantAmplitudePct: g.plant.amplitudePct, plantCount: g.plant.count, repeat: g.repeat, plantSeed: g.plantSeed });
     for (const m of SCORECARD_METRICS) row[m] = r.metrics[m] ?? null;
+    row.tsnrMedian = tsnrByKey.get(plan.tsnr[c.settingIndex].key)?.tsnrMedian ?? null;
     rows.push(row);
     seconds.push(r.seconds);
     if (r.tpr.length) curves.rows.push({ cell: c.index, tpr: r.tpr });
@@ -282,6 +301,6 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
     spec, plan: { settings: plan.settings, plants: plan.plants, splitAt: plan.splitAt, sweepKey: plan.sweepKey }, scorecard, curves,
     notes: [...notes.entries()].sort((a, b) => a[0] - b[0]).map(([settingIndex, ns]) => ({ settingIndex, notes: ns })),
     inputs: { runHash, contextHash }, shard,
-    stats: { cellsInPlan: plan.cells.length, cellsRun: total, cellsComputed: computed, cellsFromCache: fromCache, tasks: tasks.length, workers: useThreads ? Math.min(workers, tasks.length) : tasks.length ? 1 : 0, wallSeconds: (performance.now() - t0) / 1000 },
+    stats: { cellsInPlan: plan.cells.length, cellsRun: total, cellsComputed: computed, cellsFromCache: fromCache, tasks: jobCount, workers: useThreads ? Math.min(workers, jobCount) : jobCount ? 1 : 0, wallSeconds: (performance.now() - t0) / 1000 },
   };
 }

@@ -4,13 +4,14 @@ import { writeFileAtomic } from '../io/atomic-write.js';
 import type { Volume } from '../core/volume.js';
 import type { StepContext, StepNote } from '../steps/step-types.js';
 import type { PlantTruth } from '../simulate/plant.js';
-import type { CellResult } from './sweep-task.js';
+import type { CellResult, TsnrResult } from './sweep-task.js';
 
 /**
  * The stage cache on disk. Every file is written atomically (temp file + rename), so an interrupted
  * sweep leaves only complete entries and resumes from them:
  *
  *   <dir>/cells/<key>.json    one finished cell (its metrics, curve, notes, seconds)
+ *   <dir>/tsnr/<key>.json     the tSNR of one setting's recipe on the run
  *   <dir>/groups/<key>.f32    a group stage: the planted run after the shared steps (raw float32)
  *   <dir>/groups/<key>.json   its geometry, step context, notes and planted truth (written last)
  */
@@ -148,4 +149,34 @@ export async function writeGroupStage(dir: string, key: string, stage: GroupStag
 export function removeGroupStage(dir: string, key: string): void {
   rmSync(join(dir, 'groups', `${key}.json`), { force: true });
   rmSync(join(dir, 'groups', `${key}.f32`), { force: true });
+}
+
+/**
+ * Read a setting's tSNR from the cache.
+ * @param dir - cache folder
+ * @param key - tSNR key
+ * @returns the result, or null when absent
+ * @example readCachedTsnr(dir, plan.tsnr[0].key)
+ */
+export function readCachedTsnr(dir: string, key: string): TsnrResult | null {
+  const path = join(dir, 'tsnr', `${key}.json`);
+  if (!existsSync(path)) return null;
+  try {
+    const r = JSON.parse(readFileSync(path, 'utf8')) as TsnrResult;
+    return r.key === key ? r : null;
+  } catch {
+    return null;
+  }
+}
+
+/**
+ * Store a setting's tSNR.
+ * @param dir - cache folder
+ * @param result - the result (its key names the file)
+ * @returns when the file is in place
+ * @example await writeCachedTsnr(dir, result)
+ */
+export async function writeCachedTsnr(dir: string, result: TsnrResult): Promise<void> {
+  mkdirSync(join(dir, 'tsnr'), { recursive: true });
+  await writeFileAtomic(join(dir, 'tsnr', `${result.key}.json`), JSON.stringify(result));
 }

@@ -1,7 +1,7 @@
 import type { StepNote } from '../steps/step-types.js';
 import type { BoldEvent, Sidecar } from '../io/run-types.js';
 import type { CellGroup, CellPlan } from './plan.js';
-import type { SweepSpec } from './spec.js';
+import type { RecipeStep, SweepSpec } from './spec.js';
 
 /** The run as shared with workers: geometry plus voxel data on a SharedArrayBuffer (never copied). */
 export interface SharedRun {
@@ -40,6 +40,7 @@ export interface SweepContext {
 
 /** One task: some cells of one group (usually all of them). */
 export interface SweepTask {
+  kind: 'cells';
   index: number;
   group: CellGroup;
   cells: CellPlan[];
@@ -61,3 +62,27 @@ export interface CellResult {
   /** Whether the group stage was computed, read from the stage cache or reused in memory. */
   groupStage: 'computed' | 'cached' | 'memory';
 }
+
+/**
+ * The tSNR of one setting: the recipe with that setting on the run as it is (nothing planted), then
+ * the median over the brain mask of mean / SD over time. A property of the setting, shared by its repeats.
+ */
+export interface TsnrTask {
+  kind: 'tsnr';
+  index: number;
+  /** Cache key (run, masks, steps). */
+  key: string;
+  /** The whole recipe with the setting filled in. */
+  steps: RecipeStep[];
+  context: SweepContext;
+}
+
+/** What a tSNR task produced. */
+export interface TsnrResult {
+  key: string;
+  tsnrMedian: number | null;
+  seconds: number;
+}
+
+/** Anything a sweep worker runs. */
+export type SweepJob = SweepTask | TsnrTask;
