@@ -32,7 +32,13 @@ export interface MetricChartOptions {
  */
 export function metricChart(card: Scorecard, metric: string, options: MetricChartOptions = {}): TopLevelSpec {
   const key = options.x ?? card.varied[0];
-  const points = chartPoints(card, metric, key);
+  let points = chartPoints(card, metric, key);
+  // with a fixed y range, intervals are drawn cut at its ends (a rate's t-interval can pass 0 or 1)
+  if (options.yDomain) {
+    const [lo, hi] = options.yDomain;
+    const cut = (v: number | null) => (v === null ? v : Math.min(hi, Math.max(lo, v)));
+    points = points.map((p) => ({ ...p, low: cut(p.low), high: cut(p.high) }));
+  }
   const numeric = points.every((p) => typeof p.x === 'number');
   const xTitle = key ? parameterLabel(key) : 'recipe';
   const x = numeric
