@@ -52,10 +52,12 @@ describe('runSweep', () => {
     expect(one.notes.map((n) => n.notes.map((s) => s.step))).toEqual([['drop-initial-volumes', 'smooth'], ['drop-initial-volumes', 'smooth']]);
   });
 
-  it('same spec and seed: byte-identical scorecard TSV with 1 and 2 workers', async () => {
+  it('same spec and seed: byte-identical scorecard TSV with 1 and 2 workers, and in this thread', async () => {
     const two = await runSweep(run, spec, { workers: 2, placementMask: run.greyMatter });
     expect(two.stats.workers).toBe(2);
     expect(scorecardToTsv(two.scorecard)).toBe(scorecardToTsv(one.scorecard));
+    const here = await runSweep(run, spec, { inThisThread: true, placementMask: run.greyMatter });
+    expect(scorecardToTsv(here.scorecard)).toBe(scorecardToTsv(one.scorecard));
   });
 
   it('resumes from its cache: only missing cells are computed, with the same result', async () => {
