@@ -26,18 +26,21 @@ export function labelComponents(mask: ArrayLike<number>, dims: readonly [number,
   const [nx, ny, nz] = dims;
   const n = nx * ny * nz;
   if (mask.length !== n) fail('INVALID_ARGUMENT', `mask length ${mask.length} does not match ${nx}x${ny}x${nz}`);
-  const offsets: Array<[number, number, number]> = [];
+  const ox: number[] = [], oy: number[] = [], oz: number[] = [];
   for (let dz = -1; dz <= 1; dz++) for (let dy = -1; dy <= 1; dy++) for (let dx = -1; dx <= 1; dx++) {
     const manhattan = Math.abs(dx) + Math.abs(dy) + Math.abs(dz);
     if (manhattan === 0) continue;
     if (connectivity === 6 && manhattan > 1) continue;
     if (connectivity === 18 && manhattan > 2) continue;
-    offsets.push([dx, dy, dz]);
+    ox.push(dx); oy.push(dy); oz.push(dz);
   }
+  const k = ox.length;
+  const nxy = nx * ny;
+  const dxs = Int32Array.from(ox), dys = Int32Array.from(oy), dzs = Int32Array.from(oz);
+  const step = Int32Array.from(ox, (dx, i) => dx + nx * oy[i] + nxy * oz[i]);
   const labels = new Int32Array(n);
   const queue = new Int32Array(n);
   const sizes: number[] = [];
-  const nxy = nx * ny;
   for (let start = 0; start < n; start++) {
     if (!mask[start] || labels[start]) continue;
     const label = sizes.length + 1;
@@ -46,12 +49,20 @@ export function labelComponents(mask: ArrayLike<number>, dims: readonly [number,
     labels[start] = label;
     while (head < tail) {
       const v = queue[head++];
-      const z = Math.floor(v / nxy), y = Math.floor((v - z * nxy) / nx), x = v - z * nxy - y * nx;
-      for (const [dx, dy, dz] of offsets) {
-        const xx = x + dx, yy = y + dy, zz = z + dz;
-        if (xx < 0 || yy < 0 || zz < 0 || xx >= nx || yy >= ny || zz >= nz) continue;
-        const w = xx + nx * (yy + ny * zz);
-        if (mask[w] && !labels[w]) { labels[w] = label; queue[tail++] = w; }
+      const z = (v / nxy) | 0, y = ((v - z * nxy) / nx) | 0, x = v - z * nxy - y * nx;
+      if (x > 0 && y > 0 && z > 0 && x < nx - 1 && y < ny - 1 && z < nz - 1) {
+        // away from the grid's faces every neighbour exists: no bounds checks
+        for (let i = 0; i < k; i++) {
+          const w = v + step[i];
+          if (mask[w] && !labels[w]) { labels[w] = label; queue[tail++] = w; }
+        }
+      } else {
+        for (let i = 0; i < k; i++) {
+          const xx = x + dxs[i], yy = y + dys[i], zz = z + dzs[i];
+          if (xx < 0 || yy < 0 || zz < 0 || xx >= nx || yy >= ny || zz >= nz) continue;
+          const w = v + step[i];
+          if (mask[w] && !labels[w]) { labels[w] = label; queue[tail++] = w; }
+        }
       }
     }
     sizes.push(tail);

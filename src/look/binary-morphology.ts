@@ -59,24 +59,33 @@ function morph(mask: ArrayLike<number>, dims: Dims3, erode: boolean, out?: Uint8
   const nxy = nx * ny;
   for (let z = 0; z < nz; z++) {
     for (let y = 0; y < ny; y++) {
-      for (let x = 0; x < nx; x++) {
-        const v = x + nx * y + nxy * z;
-        const c = mask[v] ? 1 : 0;
-        if (erode) {
-          if (!c) { res[v] = 0; continue; }
-          const keep = x > 0 && x < nx - 1 && y > 0 && y < ny - 1 && z > 0 && z < nz - 1
-            ? mask[v - 1] && mask[v + 1] && mask[v - nx] && mask[v + nx] && mask[v - nxy] && mask[v + nxy]
-            : (x > 0 && mask[v - 1]) && (x < nx - 1 && mask[v + 1]) && (y > 0 && mask[v - nx]) && (y < ny - 1 && mask[v + nx])
-              && (nz === 1 || ((z > 0 && mask[v - nxy]) && (z < nz - 1 && mask[v + nxy])));
-          res[v] = keep ? 1 : 0;
-        } else {
-          if (c) { res[v] = 1; continue; }
-          const grow = (x > 0 && mask[v - 1]) || (x < nx - 1 && mask[v + 1]) || (y > 0 && mask[v - nx]) || (y < ny - 1 && mask[v + nx])
-            || (z > 0 && mask[v - nxy]) || (z < nz - 1 && mask[v + nxy]);
-          res[v] = grow ? 1 : 0;
-        }
-      }
+      // which neighbour rows exist is decided once per row
+      const row = nx * y + nxy * z;
+      const ym = y > 0, yp = y < ny - 1, zm = z > 0, zp = z < nz - 1;
+      if (erode) erodeRow(mask, res, row, nx, nxy, ym, yp, nz === 1 ? 2 : zm && zp ? 1 : 0);
+      else dilateRow(mask, res, row, nx, nxy, ym, yp, zm, zp);
     }
   }
   return res;
+}
+
+/** One row of erosion; z: 1 both z neighbours exist, 0 one is missing (voxel out), 2 a 2D grid (z ignored). */
+function erodeRow(m: ArrayLike<number>, res: Uint8Array, row: number, nx: number, nxy: number, ym: boolean, yp: boolean, z: number): void {
+  if (!ym || !yp || z === 0) { for (let x = 0; x < nx; x++) res[row + x] = 0; return; }
+  const useZ = z === 1;
+  res[row] = 0;
+  for (let x = 1; x < nx - 1; x++) {
+    const v = row + x;
+    res[v] = m[v] && m[v - 1] && m[v + 1] && m[v - nx] && m[v + nx] && (!useZ || (m[v - nxy] && m[v + nxy])) ? 1 : 0;
+  }
+  if (nx > 1) res[row + nx - 1] = 0;
+}
+
+/** One row of dilation. */
+function dilateRow(m: ArrayLike<number>, res: Uint8Array, row: number, nx: number, nxy: number, ym: boolean, yp: boolean, zm: boolean, zp: boolean): void {
+  for (let x = 0; x < nx; x++) {
+    const v = row + x;
+    res[v] = m[v] || (x > 0 && m[v - 1]) || (x < nx - 1 && m[v + 1]) || (ym && m[v - nx]) || (yp && m[v + nx])
+      || (zm && m[v - nxy]) || (zp && m[v + nxy]) ? 1 : 0;
+  }
 }

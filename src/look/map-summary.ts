@@ -21,7 +21,10 @@ export interface MapSummary {
  * @example summariseInMask(look.maps.tsnr.data, look.mask.mask).median
  */
 export function summariseInMask(values: ArrayLike<number>, mask?: ArrayLike<number>): MapSummary {
-  const work = new Float64Array(values.length);
+  let count = 0;
+  for (let i = 0; i < values.length; i++) if ((!mask || mask[i]) && Number.isFinite(values[i])) count++;
+  if (count === 0) return { voxels: 0, median: NaN, q1: NaN, q3: NaN, min: NaN, max: NaN };
+  const work = new Float64Array(count);
   let n = 0, min = Infinity, max = -Infinity;
   for (let i = 0; i < values.length; i++) {
     if (mask && !mask[i]) continue;
@@ -31,16 +34,26 @@ export function summariseInMask(values: ArrayLike<number>, mask?: ArrayLike<numb
     if (v < min) min = v;
     if (v > max) max = v;
   }
-  if (n === 0) return { voxels: 0, median: NaN, q1: NaN, q3: NaN, min: NaN, max: NaN };
-  const q = (p: number): number => {
-    const pos = p * (n - 1);
-    const lo = Math.floor(pos);
-    const a = selectKth(work, n, lo);
-    if (pos === lo) return a;
-    // after selecting lo, everything above index lo is >= a: the next order statistic is their minimum
-    let b = Infinity;
-    for (let i = lo + 1; i < n; i++) if (work[i] < b) b = work[i];
-    return a + (pos - lo) * (b - a);
-  };
-  return { voxels: n, q1: q(0.25), median: q(0.5), q3: q(0.75), min, max };
+  // the median first; the lower quartile then lies in the part below it, the upper in the part above
+  const median = quantileIn(work, n, 0.5, 0, n);
+  const mid = Math.floor(0.5 * (n - 1));
+  const q1 = quantileIn(work, n, 0.25, 0, mid + 1);
+  const q3 = quantileIn(work, n, 0.75, mid, n);
+  return { voxels: n, q1, median, q3, min, max };
+}
+
+/**
+ * Quantile p of work[0..n) by linear interpolation at position p (n - 1), given that position lies in
+ * work[from..to) and every value there ranks above work[0..from) and below work[to..n).
+ */
+function quantileIn(work: Float64Array, n: number, p: number, from: number, to: number): number {
+  const pos = p * (n - 1);
+  const lo = Math.floor(pos);
+  const a = selectKth(work, to, lo, from);
+  if (pos === lo) return a;
+  // after selecting lo, everything above index lo is >= a (values past `to` rank above the range):
+  // the next order statistic is their minimum
+  let b = Infinity;
+  for (let i = lo + 1; i < n; i++) if (work[i] < b) b = work[i];
+  return a + (pos - lo) * (b - a);
 }

@@ -24,11 +24,11 @@ export function medianOf(values: ArrayLike<number>, scratch?: Float64Array): num
 }
 
 /**
- * Hoare's quickselect on work[0..n): rearranges so work[k] is the k-th smallest (0-based) with
- * smaller-or-equal values before it. Median-of-three pivots keep sorted input fast.
+ * Hoare's quickselect on work[from..n): rearranges so work[k] is the k-th smallest (0-based, from <= k < n)
+ * of that range with smaller-or-equal values before it. Median-of-three pivots keep sorted input fast.
  */
-export function selectKth(work: Float64Array, n: number, k: number): number {
-  let lo = 0, hi = n - 1;
+export function selectKth(work: Float64Array, n: number, k: number, from = 0): number {
+  let lo = from, hi = n - 1;
   while (hi > lo) {
     const mid = (lo + hi) >> 1;
     // median of three to the `mid` slot as the pivot

@@ -1,4 +1,5 @@
 import { fail } from '../core/fail.js';
+import { selectKth } from './median-of.js';
 
 /** Result of {@link steadyStateFromFirstVolume}. */
 export interface PerVoxelSteadyState {
@@ -36,26 +37,45 @@ export function steadyStateFromFirstVolume(firstVolume: ArrayLike<number>, stead
   if (!(params.trSec > 0)) fail('INVALID_ARGUMENT', `trSec must be > 0, got ${params.trSec}`);
   const tolerance = params.tolerance ?? 0.01;
   const coverage = params.coverage ?? 0.99;
-  const counts: number[] = [];
-  const t1s: number[] = [];
+  // per-voxel counts are small integers: tally them instead of sorting; T1s into a typed array
+  const tally: number[] = [0];
+  const t1s = new Float64Array(mask.length);
+  const got = tallyCounts(firstVolume, steadyMean, mask, params.trSec, cosA, tolerance, tally, t1s);
+  const voxels = got[0], nT1 = got[1], maxCount = got[2];
+  if (voxels === 0) return { count: 0, fractionNeeding: [1], medianT1Sec: NaN, tolerance, coverage };
+  // the count at the coverage quantile: rank round(coverage (N - 1)) of the sorted counts
+  const rank = Math.min(voxels - 1, Math.floor(coverage * (voxels - 1) + 0.5));
+  let count = 0;
+  for (let seen = 0; count <= maxCount; count++) { seen += tally[count]; if (seen > rank) break; }
+  const fractionNeeding = tally.slice(0, maxCount + 1).map((k) => k / voxels);
+  const medianT1Sec = nT1 ? selectKth(t1s, nT1, nT1 >> 1) : NaN;
+  return { count, fractionNeeding, medianT1Sec, tolerance, coverage };
+}
+
+/**
+ * The per-voxel loop of steadyStateFromFirstVolume: tally[c] += 1 for each usable voxel needing c
+ * volumes (the tally grows as needed), the implied T1 of each voxel with an excess into t1s.
+ * @returns [voxels, T1 values, largest count]
+ */
+function tallyCounts(firstVolume: ArrayLike<number>, steadyMean: ArrayLike<number>, mask: ArrayLike<number>, trSec: number, cosA: number, tolerance: number, tally: number[], t1s: Float64Array): [number, number, number] {
+  let voxels = 0, nT1 = 0, maxCount = 0;
   for (let v = 0; v < mask.length; v++) {
     if (!mask[v]) continue;
     const m = steadyMean[v], y = firstVolume[v];
     if (!(m > 0) || !Number.isFinite(y)) continue;
+    voxels++;
     const e1 = y / m - 1;
-    if (!(e1 > tolerance)) { counts.push(0); continue; }
-    const E1 = Math.min(0.999999, e1 / (e1 + 1 - cosA));
-    t1s.push(-params.trSec / Math.log(E1));
-    const q = Math.abs(E1 * cosA);
-    // leading volumes n = 1, 2, ... with e1 q^(n-1) > tolerance
-    const c = q > 0 ? 1 + Math.floor(Math.log(tolerance / e1) / Math.log(q) - 1e-12) : 1;
-    counts.push(Math.max(1, c));
+    let c = 0;
+    if (e1 > tolerance) {
+      const E1 = Math.min(0.999999, e1 / (e1 + 1 - cosA));
+      t1s[nT1++] = -trSec / Math.log(E1);
+      const q = Math.abs(E1 * cosA);
+      // leading volumes n = 1, 2, ... with e1 q^(n-1) > tolerance
+      c = Math.max(1, q > 0 ? 1 + Math.floor(Math.log(tolerance / e1) / Math.log(q) - 1e-12) : 1);
+    }
+    while (tally.length <= c) tally.push(0);
+    tally[c]++;
+    if (c > maxCount) maxCount = c;
   }
-  if (counts.length === 0) return { count: 0, fractionNeeding: [1], medianT1Sec: NaN, tolerance, coverage };
-  counts.sort((a, b) => a - b);
-  const count = counts[Math.min(counts.length - 1, Math.floor(coverage * (counts.length - 1) + 0.5))];
-  const fractionNeeding = new Array<number>(counts[counts.length - 1] + 1).fill(0);
-  for (const c of counts) fractionNeeding[c] += 1 / counts.length;
-  t1s.sort((a, b) => a - b);
-  return { count, fractionNeeding, medianT1Sec: t1s.length ? t1s[t1s.length >> 1] : NaN, tolerance, coverage };
+  return [voxels, nT1, maxCount];
 }

@@ -40,14 +40,19 @@ export function voxelSpikes(run: Volume, candidates: ArrayLike<number>, options:
   const T = kept.length;
   if (T < 5) fail('TOO_FEW_VOLUMES', `spike detection needs at least 5 kept volumes, the run has ${T} after dropping ${first} and censoring ${censored.size}`);
   const basis = orthonormalDrift(nt - first, Math.min(options.detrendOrder ?? 2, T - 2), kept.map((t) => t - first));
-  const series = new Float64Array(T);
+  // every candidate's series, gathered volume by volume (memory order) into one candidate-major block
+  const m = candidates.length;
+  const cand = Int32Array.from(candidates);
+  const block = new Float64Array(m * T);
+  for (let t = 0; t < T; t++) gatherVolume(run.data, kept[t] * n, cand, block, t, T);
   const resid = new Float64Array(T);
   const zs = new Float64Array(T);
   const spikes: VoxelSpike[] = [];
-  for (let c = 0; c < candidates.length; c++) {
-    const v = candidates[c];
+  for (let c = 0; c < m; c++) {
+    const v = cand[c];
+    const series = block.subarray(c * T, (c + 1) * T);
     let sum = 0;
-    for (let t = 0; t < T; t++) { series[t] = run.data[kept[t] * n + v]; sum += series[t]; }
+    for (let t = 0; t < T; t++) sum += series[t];
     if (!Number.isFinite(sum)) continue;
     detrendSeries(series, basis, resid);
     const { z, median } = robustZ(resid, zs);
@@ -60,4 +65,9 @@ export function voxelSpikes(run: Volume, candidates: ArrayLike<number>, options:
     }
   }
   return spikes.sort((a, b) => Math.abs(b.z) - Math.abs(a.z));
+}
+
+/** block[c * T + t] = data[off + voxels[c]] for every candidate c (one volume). */
+function gatherVolume(data: Float32Array, off: number, voxels: Int32Array, block: Float64Array, t: number, T: number): void {
+  for (let c = 0, o = t; c < voxels.length; c++, o += T) block[o] = data[off + voxels[c]];
 }

@@ -1,6 +1,7 @@
 import { fail } from '../core/fail.js';
 import { voxelsPerVolume, type Volume } from '../core/volume.js';
 import { orthonormalDrift } from './orthonormal-drift.js';
+import { voxelSums } from './voxel-sums.js';
 
 /** Per-voxel temporal statistics from {@link voxelTimeStats}; maps are Float32, NIfTI order. */
 export interface VoxelTimeStats {
@@ -26,14 +27,15 @@ export interface VoxelTimeStats {
 
 /**
  * Temporal mean, SD, tSNR and lag-1 autocorrelation of every voxel after removing a polynomial drift
- * (Legendre, made orthonormal), in one pass over the run.
+ * (Legendre, made orthonormal over the volumes used), in one pass over the run.
  *
  * Why this shape: the run is stored volume after volume, but the statistics are per voxel over time.
- * The voxels are taken in blocks whose rows over all kept volumes fit a 1 MiB cache; each block gets
- * two exact passes, mean and drift coefficients first, then residuals. That is the two-pass
+ * The voxels are taken in blocks whose rows of all used volumes are copied, one contiguous stretch per
+ * volume, into WebAssembly memory; there each pair of voxels gets two exact passes, mean and drift
+ * coefficients first, then residuals (see voxel-sums-wasm.ts, mode 'exact'). That is the two-pass
  * algorithm (Chan, Golub & LeVeque 1983 Am Stat 37:242 rate it the accurate one: no cancellation of
  * sums of squares), with Float64 accumulators, yet the run is read from memory only once (the second
- * pass finds the block in cache). All inner loops run along contiguous rows of one volume.
+ * pass finds the pair's rows in cache).
  *
  * tSNR = mean / SD with SD = sqrt(sum r^2 / (T - p)), r the residuals after fitting p = order + 1 drift
  * terms to T volumes (ddof = p; with order 0 this is the usual sample SD, ddof 1).
@@ -56,78 +58,35 @@ export function voxelTimeStats(run: Volume, options: { firstVolume?: number; det
   for (let t = firstVolume; t < nt; t++) if (!censored.has(t)) kept.push(t);
   const T = kept.length;
   const basis = orthonormalDrift(nt - firstVolume, detrendOrder, kept.map((t) => t - firstVolume));
-  // pairs (t-1, t) for the lag-1 sum: only where both volumes are kept and adjacent in the run
-  const adjacent = new Uint8Array(T);
-  for (let i = 1; i < T; i++) adjacent[i] = kept[i] === kept[i - 1] + 1 ? 1 : 0;
   const p = basis.length;
+  // per row: adj (1 where the row before is the previous volume: a lag-1 pair), then the drift terms
+  const weights = new Float64Array(T * p);
+  for (let i = 0; i < T; i++) {
+    weights[i * p] = i > 0 && kept[i] === kept[i - 1] + 1 ? 1 : 0;
+    for (let k = 1; k < p; k++) weights[i * p + k] = basis[k][i];
+  }
+  const s = voxelSums(run, { rows: kept, fitStart: 0, terms: p, weights, mode: 'exact' });
   const n = voxelsPerVolume(run);
   const mean = new Float32Array(n), sd = new Float32Array(n), tsnr = new Float32Array(n), lag1 = new Float32Array(n), maxAbs = new Float32Array(n);
-  // blocks of voxels small enough that the block's rows of all kept volumes (Float32) stay in a
-  // 1 MiB cache: pass 1 streams them from memory, pass 2 finds them in cache
-  const block = Math.max(64, Math.min(n, Math.floor(262144 / T)));
-  const sum = new Float64Array(block), ss = new Float64Array(block), lag = new Float64Array(block);
-  const prev = new Float64Array(block), r = new Float64Array(block), mx = new Float64Array(block), m = new Float64Array(block);
-  const coef = Array.from({ length: p }, () => new Float64Array(block));
-  const zeros = new Float64Array(block);
-  const data = run.data;
-  for (let v0 = 0; v0 < n; v0 += block) {
-    const len = Math.min(block, n - v0);
-    sum.fill(0); ss.fill(0); lag.fill(0); mx.fill(0);
-    for (let k = 1; k < p; k++) coef[k].fill(0);
-    // pass 1: sums and drift projections (the drift columns sum to 0, so no centring is needed)
-    for (let t = 0; t < T; t++) {
-      const base = kept[t] * n + v0;
-      for (let j = 0; j < len; j++) sum[j] += data[base + j];
-      for (let k = 1; k < p; k++) {
-        const q = basis[k][t], c = coef[k];
-        for (let j = 0; j < len; j++) c[j] += q * data[base + j];
-      }
-    }
-    for (let j = 0; j < len; j++) m[j] = sum[j] / T;
-    // pass 2: exact residuals r = y - mean - sum_k c_k q_k(t) (two-pass: no cancellation); one fused
-    // loop for drift orders up to 2 (V8 pays for every extra sweep over the per-voxel arrays)
-    const c1 = p > 1 ? coef[1] : zeros, c2 = p > 2 ? coef[2] : zeros;
-    for (let t = 0; t < T; t++) {
-      const base = kept[t] * n + v0;
-      const adj = adjacent[t];
-      if (p <= 3) {
-        const q1 = p > 1 ? basis[1][t] : 0, q2 = p > 2 ? basis[2][t] : 0;
-        for (let j = 0; j < len; j++) {
-          const x = data[base + j] - m[j] - c1[j] * q1 - c2[j] * q2;
-          ss[j] += x * x;
-          if (adj) lag[j] += x * prev[j];
-          prev[j] = x;
-          const a = x < 0 ? -x : x;
-          if (a > mx[j]) mx[j] = a;
-        }
-        continue;
-      }
-      for (let j = 0; j < len; j++) r[j] = data[base + j] - m[j];
-      for (let k = 1; k < p; k++) {
-        const q = basis[k][t], c = coef[k];
-        for (let j = 0; j < len; j++) r[j] -= c[j] * q;
-      }
-      for (let j = 0; j < len; j++) {
-        const x = r[j];
-        ss[j] += x * x;
-        if (adj) lag[j] += x * prev[j];
-        prev[j] = x;
-        const a = x < 0 ? -x : x;
-        if (a > mx[j]) mx[j] = a;
-      }
-    }
-    for (let j = 0; j < len; j++) {
-      const v = v0 + j, mv = m[j];
-      if (!Number.isFinite(mv)) { mean[v] = sd[v] = tsnr[v] = lag1[v] = maxAbs[v] = NaN; continue; }
-      // below Float32 resolution (6e-8 relative) any "variation" is rounding in the drift fit: call it 0
-      const raw = Math.sqrt(ss[j] / (T - p));
-      const sdv = raw > 1e-9 * Math.abs(mv) ? raw : 0;
-      mean[v] = mv;
-      sd[v] = sdv;
-      tsnr[v] = sdv > 0 ? mv / sdv : 0;
-      lag1[v] = sdv > 0 ? lag[j] / ss[j] : 0;
-      maxAbs[v] = mx[j];
-    }
-  }
+  for (let v0 = 0; v0 < n; v0 += 4096) finishStats(v0, Math.min(n, v0 + 4096), T, p, s, { mean, sd, tsnr, lag1, maxAbs });
   return { mean, sd, tsnr, lag1, maxAbsResidual: maxAbs, firstVolume, keptVolumes: kept, usedVolumes: T, detrendOrder, ddof: p };
+}
+
+/** Maps of voxels v0..v1-1 from the exact sums (a small function per chunk, which V8 optimises once). */
+function finishStats(v0: number, v1: number, T: number, p: number, s: Record<string, Float64Array>, out: { mean: Float32Array; sd: Float32Array; tsnr: Float32Array; lag1: Float32Array; maxAbs: Float32Array }): void {
+  const { shift, S, SSu, Lu, umax, umin } = s;
+  const { mean, sd, tsnr, lag1, maxAbs } = out;
+  for (let v = v0; v < v1; v++) {
+    const mv = shift[v] + S[v] / T;
+    if (!Number.isFinite(mv)) { mean[v] = sd[v] = tsnr[v] = lag1[v] = maxAbs[v] = NaN; continue; }
+    // below Float32 resolution (6e-8 relative) any "variation" is rounding in the drift fit: call it 0
+    const ss = SSu[v];
+    const raw = Math.sqrt(ss / (T - p));
+    const sdv = raw > 1e-9 * Math.abs(mv) ? raw : 0;
+    mean[v] = mv;
+    sd[v] = sdv;
+    tsnr[v] = sdv > 0 ? mv / sdv : 0;
+    lag1[v] = sdv > 0 ? Lu[v] / ss : 0;
+    maxAbs[v] = Math.max(umax[v], -umin[v]);
+  }
 }
