@@ -2,6 +2,7 @@
  * The default demo sweep (smoothing FWHM 0-14 mm in 8 steps x 20 plantings x 1 planted size) on the
  * demo run, each measurement in a fresh child process so its peak memory is its own:
  *   bench demo-sweep-seconds <s> s           wall time, 2 workers, empty stage cache
+ *   bench demo-sweep-cpu-seconds <s> s       processor time of all threads (wall time on 2 idle cores is about half)
  *   bench demo-sweep-peak-x-run <x> x        peak resident memory (maxRSS) / the run's float32 size
  *   bench demo-sweep-peak-mb <mb> MB         the same peak in MB, and the process before the run was read
  *   bench demo-sweep-warm-seconds <s> s      the same sweep again: every cell from the cache (a resumed sweep)
@@ -30,7 +31,7 @@ import { shareVolume } from '../src/sweep/shared-volume.js';
 const STEM = 'sub-phantom01_task-flicker';
 const here = dirname(fileURLToPath(import.meta.url));
 
-interface ChildResult { seconds: number; maxRssBytes: number; baselineRssBytes: number; runBytes: number; computed: number; cached: number }
+interface ChildResult { seconds: number; cpuSeconds: number; maxRssBytes: number; baselineRssBytes: number; runBytes: number; computed: number; cached: number }
 
 /** The demo data folder: the package's data-demo/, or the same phantom written to a temp folder. */
 async function demoData(): Promise<{ dir: string; temp: boolean }> {
@@ -56,8 +57,9 @@ async function child(args: string[]): Promise<void> {
   // the look's findings on the demo run: 3 volumes to drop, volumes 83, 112, 113 to censor
   const spec = defaultSmoothingSpec({ dropInitialVolumes: 3, censorVolumes: [83, 112, 113], repeats: Number(repeats), workers: Number(workers) });
   const r = await runSweep(run, spec, { cacheDir, brainMask, placementMask, excludeMask, reuseStages: reuse === 'true' });
+  const cpu = process.cpuUsage();
   const out: ChildResult = {
-    seconds: (performance.now() - t0) / 1000, maxRssBytes: process.resourceUsage().maxRSS * 1024, baselineRssBytes,
+    seconds: (performance.now() - t0) / 1000, cpuSeconds: (cpu.user + cpu.system) / 1e6, maxRssBytes: process.resourceUsage().maxRSS * 1024, baselineRssBytes,
     runBytes: runBytes(run.volume.dims), computed: r.stats.cellsComputed, cached: r.stats.cellsFromCache,
   };
   process.stdout.write(`${JSON.stringify(out)}\n`);
@@ -68,9 +70,9 @@ function measure(dataDir: string, cacheDir: string, workers: number, repeats: nu
   return JSON.parse(text.trim().split('\n').pop()!) as ChildResult;
 }
 
-function medianSeconds(runs: () => ChildResult, n: number): number {
-  const xs = Array.from({ length: n }, runs).map((r) => r.seconds).sort((a, b) => a - b);
-  return xs[(n - 1) >> 1];
+function median(xs: number[]): number {
+  const s = [...xs].sort((a, b) => a - b);
+  return s[(s.length - 1) >> 1];
 }
 
 /**
@@ -89,15 +91,23 @@ export async function main(): Promise<void> {
     const cold = measure(data.dir, cache, 2, 20);
     const warm = measure(data.dir, cache, 2, 20);
     console.log(`bench demo-sweep-seconds ${cold.seconds.toFixed(1)} s`);
+    console.log(`bench demo-sweep-cpu-seconds ${cold.cpuSeconds.toFixed(1)} s`);
     console.log(`bench demo-sweep-peak-x-run ${(cold.maxRssBytes / cold.runBytes).toFixed(2)} x`);
     console.log(`bench demo-sweep-peak-mb ${(cold.maxRssBytes / 2 ** 20).toFixed(0)} MB`);
     console.log(`bench demo-sweep-baseline-mb ${(cold.baselineRssBytes / 2 ** 20).toFixed(0)} MB`);
     console.log(`bench demo-sweep-run-mb ${(cold.runBytes / 2 ** 20).toFixed(1)} MB`);
     console.log(`bench demo-sweep-warm-seconds ${warm.seconds.toFixed(1)} s`);
-    // 2. what reusing stages saves, and what a second worker adds (4 plantings, median of 3)
-    const reused = medianSeconds(() => measure(data.dir, fresh(), 2, 4, true), 3);
-    const recomputed = medianSeconds(() => measure(data.dir, fresh(), 2, 4, false), 3);
-    const one = medianSeconds(() => measure(data.dir, fresh(), 1, 4, true), 3);
+    // 2. what reusing stages saves, and what a second worker adds (4 plantings, median of 3; the
+    //    three set-ups take turns so a change in machine load touches them alike)
+    const times: Record<'reused' | 'recomputed' | 'one', number[]> = { reused: [], recomputed: [], one: [] };
+    for (let i = 0; i < 3; i++) {
+      times.reused.push(measure(data.dir, fresh(), 2, 4, true).seconds);
+      times.recomputed.push(measure(data.dir, fresh(), 2, 4, false).seconds);
+      times.one.push(measure(data.dir, fresh(), 1, 4, true).seconds);
+    }
+    const reused = median(times.reused);
+    const recomputed = median(times.recomputed);
+    const one = median(times.one);
     console.log(`ratio demo-sweep-cache ${(recomputed / reused).toFixed(2)}`);
     console.log(`ratio demo-sweep-2-vs-1-workers ${(one / reused).toFixed(2)}`);
   } finally {

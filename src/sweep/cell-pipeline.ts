@@ -124,6 +124,8 @@ const finite = (x: number): number | null => (Number.isFinite(x) ? x : null);
  * Collect dropped run-sized arrays now (in a worker thread). V8 frees such external memory lazily,
  * so without this a worker would hold the dead planted run, stage and smoothed run of a cell while
  * the model allocates its residuals; with it, at most two run-sized arrays are alive at any time.
+ * A full collection costs about 20 ms, so it runs only before the next run-sized allocation: after
+ * each step and at the end of each cell.
  */
 function release(): void {
   if (!isMainThread) collectGarbage();
@@ -153,11 +155,9 @@ function modelAndScore(holder: { volume: Volume | null }, context: StepContext, 
   const grid = { dims: [volume.dims[0], volume.dims[1], volume.dims[2]], spacingMm: volume.spacingMm };
   holder.volume = null;
   volume = null as unknown as Volume;
-  release();
   const maps = contrastMaps(fit, { [trialType]: 1 }, { name: trialType });
   const smooth = estimateSmoothness(fit.residuals!.data, fit.residuals!.dims, brain, grid.spacingMm, { dof: fit.dof });
   fit.residuals = null;
-  release();
   const thr = applyThresholdRule(maps.t.data, brain, grid.dims, ctx.threshold, { kind: 't', dof: maps.dof }, smooth.fwhmMm, grid.spacingMm);
   const score = scoreDetection({ statistic: maps.t, survivors: thr.survivors, truth, brainMask: ctx.scoreMask, effectPct: maps.percentSignalChange, threshold: thr.threshold, thresholdMethod: thr.rule });
   const tpr = score.truthVoxels > 0 ? (() => { const c = rocCurve(maps.t.data, truth.mask, ctx.scoreMask); return tprAtFpr(c.fpr, c.tpr, DEFAULT_FPR_GRID); })() : [];
