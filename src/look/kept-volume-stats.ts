@@ -14,6 +14,11 @@ export interface KeptVolumeStats {
   lag1: Float32Array;
   /** Drift fit over the kept volumes for voxels in `mask`: y_t ~ shift + sum_k fit[k][v] basis[k][t] (0 elsewhere). */
   fit: Float64Array[];
+  /**
+   * For the voxels in `mask` with finite values (ascending): bounds on max |r_t| over the kept volumes
+   * (upper +Infinity where the sums hold no residual extremes). See screenSpikeVoxels.
+   */
+  residualBounds: { voxels: Int32Array; lower: Float64Array; upper: Float64Array };
   firstVolume: number;
   keptVolumes: number[];
   usedVolumes: number;
@@ -40,6 +45,10 @@ export interface KeptVolumeStats {
  *   linear map of W(t) (a shifted polynomial is a polynomial of the same order), so B = -u_h W(h-1) and
  *   C = -u_{N-1} W(N) there; the pairs that dropping and censoring remove from F, or add before it, are
  *   corrected term by term from the data.
+ * - Bounds on max |r| over the kept volumes (for the spike screen): r = u - d.W with |d.W| <= gap =
+ *   sum_k |d_k| max |W_k| over kept fit volumes, so max |r| <= max |u| + gap there; when no fit volume
+ *   is censored the largest |u| is at a kept volume, so max |r| >= max |u| - gap too. Kept volumes
+ *   before fitFrom are read and their |r| taken exactly.
  * @param run - the run the sums came from (only left-out volumes and a few others are read)
  * @param sums - from runTimeSums
  * @param options - firstVolume (default 0); censorVolumes (default none); mask: voxels that need lag-1 and the fit (default all)
@@ -80,19 +89,29 @@ export function keptVolumeStats(run: Volume, sums: RunTimeSums, options: { first
   }
   const left: number[] = [];
   for (let t = 0; t < N; t++) if (!isKept[t]) left.push(t);
+  const early = kept.filter((t) => t < h);
+  const lateCount = T - early.length;
+  const wMax = new Float64Array(p);
+  for (const t of kept) if (t >= h) for (let k = 0; k < p; k++) wMax[k] = Math.max(wMax[k], Math.abs(W[k][t]));
 
-  // volumes read per voxel: left-out ones (SD) and, for lag-1, h, N - 1 and both ends of the corrected pairs
-  const readSet = new Set<number>(left);
-  const lagSet = new Set<number>([h, N - 1]);
-  for (const [t] of pairs) { lagSet.add(t); lagSet.add(t - 1); }
-  for (const t of lagSet) readSet.add(t);
-  const reads = [...readSet].sort((a, b) => a - b);
+  // volumes read: the left-out ones (SD, every voxel) first, then for mask voxels h, N - 1, both ends of
+  // the corrected pairs (lag-1) and the kept volumes before h (residual bounds)
+  const extraSet = new Set<number>([h, N - 1, ...early]);
+  for (const [t] of pairs) { extraSet.add(t); extraSet.add(t - 1); }
+  for (const t of left) extraSet.delete(t);
+  const reads = [...left, ...[...extraSet].sort((a, b) => a - b)];
   const slot = new Map(reads.map((t, i) => [t, i]));
   const plan: CorrectionPlan = {
     p, T, LG, D,
     readBase: Int32Array.from(reads, (t) => t * n),
     readW: Float64Array.from(reads.flatMap(wAt)),
-    leftSlot: Int32Array.from(left, (t) => slot.get(t)!),
+    nLeft: left.length,
+    earlySlot: Int32Array.from(early, (t) => slot.get(t)!),
+    lagSlot: Int32Array.from(new Set([h, N - 1, ...pairs.flatMap(([t]) => [t, t - 1])]), (t) => slot.get(t)!),
+    wMax, haveLate: lateCount > 0, fitAllKept: lateCount === N - h,
+    // rounding allowance of the bounds: the sums and fits carry relative errors of order 1e-15, and the
+    // kernel steps the drift by forward differences, whose error grows with the number of volumes
+    slackPerScale: 1e-13 * Math.max(100, N),
     pairT: Int32Array.from(pairs, ([t]) => slot.get(t)!),
     pairPrev: Int32Array.from(pairs, ([t]) => slot.get(t - 1)!),
     pairSign: Float64Array.from(pairs, ([, s]) => s),
@@ -101,25 +120,33 @@ export function keptVolumeStats(run: Volume, sums: RunTimeSums, options: { first
   };
   const mean = new Float32Array(n), sd = new Float32Array(n), tsnr = new Float32Array(n), lag1 = new Float32Array(n);
   const fit = Array.from({ length: p }, () => new Float64Array(n));
-  const outMaps: OutMaps = { mean, sd, tsnr, lag1, fit, unsummed: [] };
+  const m = options.mask ?? null;
+  let maskCount = n;
+  if (m) { maskCount = 0; for (let v = 0; v < n; v++) if (m[v]) maskCount++; }
+  const bounds = { voxels: new Int32Array(maskCount), lower: new Float64Array(maskCount), upper: new Float64Array(maskCount), count: 0 };
+  const outMaps: OutMaps = { mean, sd, tsnr, lag1, fit, unsummed: [], bounds };
   // in chunks: the loops stay small functions that V8 optimises once and keeps across calls; the default
   // drift order (2) has its own straight-line loop (the generic one spends its time in 3-step loops)
-  const m = options.mask ?? null;
   for (let v0 = 0; v0 < n; v0 += 4096) {
     if (p === 3) correctVoxels3(run.data, n, v0, Math.min(n, v0 + 4096), sums, plan, m, outMaps);
     else correctVoxels(run.data, n, v0, Math.min(n, v0 + 4096), sums, plan, m, outMaps);
   }
   // mask voxels whose residual sums were skipped (below the sums' background level): lag-1 from the data
   if (outMaps.unsummed.length) lagFromData(run, W, kept, isKept, outMaps.unsummed, fit, sums.shift, lag1);
-  return { mean, sd, tsnr, lag1, fit, firstVolume, keptVolumes: kept, usedVolumes: T, detrendOrder: p - 1, ddof: p };
+  const c = bounds.count;
+  const residualBounds = { voxels: bounds.voxels.subarray(0, c), lower: bounds.lower.subarray(0, c), upper: bounds.upper.subarray(0, c) };
+  return { mean, sd, tsnr, lag1, fit, residualBounds, firstVolume, keptVolumes: kept, usedVolumes: T, detrendOrder: p - 1, ddof: p };
 }
 
 /** Fixed quantities of the correction, shared by every voxel. */
 interface CorrectionPlan {
   p: number; T: number; LG: Float64Array; D: Float64Array;
-  /** Per read volume: its offset in the run and its drift terms (p each). */
-  readBase: Int32Array; readW: Float64Array;
-  leftSlot: Int32Array;
+  /** Per read volume: its offset in the run and its drift terms (p each); the left-out volumes come first. */
+  readBase: Int32Array; readW: Float64Array; nLeft: number;
+  /** Kept volumes before fitFrom; the largest |W_k| over kept fit volumes; whether any, and all, fit volumes are kept. */
+  earlySlot: Int32Array; wMax: Float64Array; haveLate: boolean; fitAllKept: boolean; slackPerScale: number;
+  /** Read slots where lag-1 needs the residual u (fitFrom, N - 1, ends of corrected pairs). */
+  lagSlot: Int32Array;
   /** Corrected pairs: read slots of t and t - 1, and whether the pair is removed (-1) or added (+1). */
   pairT: Int32Array; pairPrev: Int32Array; pairSign: Float64Array;
   slotH: number; slotN: number;
@@ -127,29 +154,47 @@ interface CorrectionPlan {
   before: Float64Array; after: Float64Array;
 }
 
-interface OutMaps { mean: Float32Array; sd: Float32Array; tsnr: Float32Array; lag1: Float32Array; fit: Float64Array[]; unsummed: number[] }
+interface OutMaps {
+  mean: Float32Array; sd: Float32Array; tsnr: Float32Array; lag1: Float32Array; fit: Float64Array[]; unsummed: number[];
+  bounds: { voxels: Int32Array; lower: Float64Array; upper: Float64Array; count: number };
+}
+
+/**
+ * Bounds on max |r| over the kept volumes of one voxel (see keptVolumeStats): from the residual extremes
+ * of the sums widened by `gap`, and the exact |r| of the kept volumes before fitFrom (in `early`).
+ */
+function storeBounds(out: OutMaps['bounds'], v: number, uAbs: number, gap: number, slack: number, early: number, haveLate: boolean, fitAllKept: boolean): void {
+  // (voxels whose residual sums were skipped have uAbs = Infinity: no bound either way)
+  const upper = haveLate ? uAbs + gap + slack : 0;
+  const lower = haveLate && fitAllKept && uAbs < Infinity ? uAbs - gap - slack : 0;
+  const i = out.count++;
+  out.voxels[i] = v;
+  out.upper[i] = Math.max(upper, early);
+  out.lower[i] = Math.max(lower, early);
+}
 
 /**
  * The per-voxel part of keptVolumeStats for voxels v0..v1-1 (its own function, called per chunk, so V8
  * optimises it once and keeps it instead of re-entering one long loop through on-stack replacement).
  */
 function correctVoxels(data: Float32Array, n: number, v0: number, v1: number, sums: RunTimeSums, c: CorrectionPlan, mask: ArrayLike<number> | null, out: OutMaps): void {
-  const { p, T, LG, D, readBase, readW, leftSlot, pairT, pairPrev, pairSign, slotH, slotN, before, after } = c;
+  const { p, T, LG, D, readBase, readW, nLeft, earlySlot, lagSlot, wMax, haveLate, fitAllKept, pairT, pairPrev, pairSign, slotH, slotN, before, after } = c;
   const { mean, sd, tsnr, lag1, fit } = out;
-  const { shift, sumSquares, moments, fit: g, residualLag, residualMax } = sums;
-  const nRead = readBase.length, nLeft = leftSlot.length, nPairs = pairT.length;
+  const { shift, sumSquares, moments, fit: g, residualLag, residualAbsMax } = sums;
+  const slackPerScale = c.slackPerScale;
+  const nRead = readBase.length, nPairs = pairT.length;
   const z = new Float64Array(nRead), u = new Float64Array(nRead);
   const b = new Float64Array(p), y = new Float64Array(p), a = new Float64Array(p), d = new Float64Array(p);
   for (let v = v0; v < v1; v++) {
     const sh = shift[v];
     if (!Number.isFinite(sh + moments[0][v])) { mean[v] = sd[v] = tsnr[v] = lag1[v] = NaN; continue; }
-    for (let i = 0; i < nRead; i++) z[i] = data[readBase[i] + v] - sh;
     let ss = sumSquares[v];
     for (let k = 0; k < p; k++) b[k] = moments[k][v];
     for (let e = 0; e < nLeft; e++) {
-      const s = leftSlot[e], ze = z[s];
+      const ze = data[readBase[e] + v] - sh;
+      z[e] = ze;
       ss -= ze * ze;
-      for (let k = 0; k < p; k++) b[k] -= ze * readW[s * p + k];
+      for (let k = 0; k < p; k++) b[k] -= ze * readW[e * p + k];
     }
     // y = L^-1 b; sum r^2 = sum z^2 - |y|^2
     let proj = 0;
@@ -169,6 +214,7 @@ function correctVoxels(data: Float32Array, n: number, v0: number, v1: number, su
     sd[v] = sdv;
     tsnr[v] = sdv > 0 ? m / sdv : 0;
     if (mask !== null && !mask[v]) { lag1[v] = NaN; continue; }
+    for (let i = nLeft; i < nRead; i++) z[i] = data[readBase[i] + v] - sh;
     // a = L^-T y
     for (let i = p - 1; i >= 0; i--) {
       let s = y[i];
@@ -177,14 +223,23 @@ function correctVoxels(data: Float32Array, n: number, v0: number, v1: number, su
       a[i] = ai;
       fit[i][v] = ai;
     }
+    let gap = 0, scale = Math.abs(sh), early = 0;
+    for (let k = 0; k < p; k++) { d[k] = a[k] - g[k][v]; gap += Math.abs(d[k]) * wMax[k]; scale += Math.abs(g[k][v]) * wMax[k]; }
+    for (let q = 0; q < earlySlot.length; q++) {
+      const i = earlySlot[q];
+      let r = z[i];
+      for (let k = 0; k < p; k++) r -= a[k] * readW[i * p + k];
+      if (Math.abs(r) > early) early = Math.abs(r);
+    }
+    storeBounds(out.bounds, v, residualAbsMax[v], gap, slackPerScale * scale, early, haveLate, fitAllKept);
     if (!(sdv > 0)) { lag1[v] = 0; continue; }
-    if (!(residualMax[v] < Infinity)) { out.unsummed.push(v); continue; }
-    for (let i = 0; i < nRead; i++) {
+    if (!(residualAbsMax[v] < Infinity)) { out.unsummed.push(v); continue; }
+    for (let q = 0; q < lagSlot.length; q++) {
+      const i = lagSlot[q];
       let s = z[i];
       for (let k = 0; k < p; k++) s -= g[k][v] * readW[i * p + k];
       u[i] = s;
     }
-    for (let k = 0; k < p; k++) d[k] = a[k] - g[k][v];
     let U = residualLag[v], dBC = 0, dDd = 0;
     for (let k = 0; k < p; k++) dBC -= d[k] * (u[slotH] * before[k] + u[slotN] * after[k]);
     for (let q = 0; q < nPairs; q++) {
@@ -199,28 +254,30 @@ function correctVoxels(data: Float32Array, n: number, v0: number, v1: number, su
 
 /** correctVoxels for p = 3 (drift order 2) with every small loop written out (and reciprocals instead of divisions). */
 function correctVoxels3(data: Float32Array, n: number, v0: number, v1: number, sums: RunTimeSums, c: CorrectionPlan, mask: ArrayLike<number> | null, out: OutMaps): void {
-  const { T, LG, D, readBase, readW, leftSlot, pairT, pairPrev, pairSign, slotH, slotN, before, after } = c;
+  const { T, LG, D, readBase, readW, nLeft, earlySlot, lagSlot, wMax, haveLate, fitAllKept, pairT, pairPrev, pairSign, slotH, slotN, before, after } = c;
   const { mean, sd, tsnr, lag1 } = out;
   const [f0, f1, f2] = out.fit;
-  const { shift, sumSquares, residualLag, residualMax } = sums;
+  const { shift, sumSquares, residualLag, residualAbsMax } = sums;
+  const slackPerScale = c.slackPerScale;
   const [m0, m1, m2] = sums.moments;
   const [g0, g1, g2] = sums.fit;
   const L10 = LG[3], L20 = LG[6], L21 = LG[7];
   const r00 = 1 / LG[0], r11 = 1 / LG[4], r22 = 1 / LG[8], rT = 1 / T;
+  const w0 = wMax[0], w1 = wMax[1], w2 = wMax[2];
   const z = new Float64Array(readBase.length), u = new Float64Array(readBase.length);
-  const nRead = readBase.length, nLeft = leftSlot.length, nPairs = pairT.length;
+  const nRead = readBase.length, nPairs = pairT.length, nEarly = earlySlot.length, nLag = lagSlot.length;
   const ddofT = T - 3;
   const bh0 = before[0], bh1 = before[1], bh2 = before[2], an0 = after[0], an1 = after[1], an2 = after[2];
   for (let v = v0; v < v1; v++) {
     const sh = shift[v];
     let b0 = m0[v], b1 = m1[v], b2 = m2[v];
     if (!Number.isFinite(sh + b0)) { mean[v] = sd[v] = tsnr[v] = lag1[v] = NaN; continue; }
-    for (let i = 0; i < nRead; i++) z[i] = data[readBase[i] + v] - sh;
     let ss = sumSquares[v];
     for (let e = 0; e < nLeft; e++) {
-      const s = leftSlot[e], ze = z[s];
+      const ze = data[readBase[e] + v] - sh;
+      z[e] = ze;
       ss -= ze * ze;
-      b0 -= ze * readW[3 * s]; b1 -= ze * readW[3 * s + 1]; b2 -= ze * readW[3 * s + 2];
+      b0 -= ze * readW[3 * e]; b1 -= ze * readW[3 * e + 1]; b2 -= ze * readW[3 * e + 2];
     }
     const y0 = b0 * r00;
     const y1 = (b1 - L10 * y0) * r11;
@@ -233,15 +290,25 @@ function correctVoxels3(data: Float32Array, n: number, v0: number, v1: number, s
     sd[v] = sdv;
     tsnr[v] = sdv > 0 ? m / sdv : 0;
     if (mask !== null && !mask[v]) { lag1[v] = NaN; continue; }
+    for (let i = nLeft; i < nRead; i++) z[i] = data[readBase[i] + v] - sh;
     const a2 = y2 * r22;
     const a1 = (y1 - L21 * a2) * r11;
     const a0 = (y0 - L10 * a1 - L20 * a2) * r00;
     f0[v] = a0; f1[v] = a1; f2[v] = a2;
-    if (!(sdv > 0)) { lag1[v] = 0; continue; }
-    if (!(residualMax[v] < Infinity)) { out.unsummed.push(v); continue; }
     const c0 = g0[v], c1 = g1[v], c2 = g2[v];
-    for (let i = 0; i < nRead; i++) u[i] = z[i] - c0 * readW[3 * i] - c1 * readW[3 * i + 1] - c2 * readW[3 * i + 2];
     const d0 = a0 - c0, d1 = a1 - c1, d2 = a2 - c2;
+    let early = 0;
+    for (let q = 0; q < nEarly; q++) {
+      const i = earlySlot[q];
+      const r = Math.abs(z[i] - a0 * readW[3 * i] - a1 * readW[3 * i + 1] - a2 * readW[3 * i + 2]);
+      if (r > early) early = r;
+    }
+    const gap = Math.abs(d0) * w0 + Math.abs(d1) * w1 + Math.abs(d2) * w2;
+    const scale = Math.abs(sh) + Math.abs(c0) * w0 + Math.abs(c1) * w1 + Math.abs(c2) * w2;
+    storeBounds(out.bounds, v, residualAbsMax[v], gap, slackPerScale * scale, early, haveLate, fitAllKept);
+    if (!(sdv > 0)) { lag1[v] = 0; continue; }
+    if (!(residualAbsMax[v] < Infinity)) { out.unsummed.push(v); continue; }
+    for (let q = 0; q < nLag; q++) { const i = lagSlot[q]; u[i] = z[i] - c0 * readW[3 * i] - c1 * readW[3 * i + 1] - c2 * readW[3 * i + 2]; }
     const uh = u[slotH], un = u[slotN];
     let U = residualLag[v];
     let dBC = -(d0 * (uh * bh0 + un * an0) + d1 * (uh * bh1 + un * an1) + d2 * (uh * bh2 + un * an2));

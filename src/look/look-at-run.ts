@@ -178,8 +178,9 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
   }
   let perVoxel: PerVoxelSteadyState | null = null;
   if (trSec > 0 && flip !== undefined && flip > 0) {
-    // steady mean without the first few volumes, so their excess does not bias the reference
-    const late = new Float64Array(n);
+    // steady mean without the first few volumes, so their excess does not bias the reference (in the
+    // mean image's buffer: the mask and the non-finite flags are made, and it is not used again)
+    const late = meanAll;
     const { shift, sum } = sums;
     if (sums.fitFrom === h) {
       const c0 = sums.fit[0]; // mean of z over volumes h..nt-1
@@ -249,7 +250,7 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
   // (each spike inflates the SD); 0.9 leaves room for the drift fit and the MAD/SD difference.
   const T = stats.usedVolumes;
   const screen = (0.9 * spikeCutoffZ) / Math.sqrt(1 + (4 * spikeCutoffZ * spikeCutoffZ) / T);
-  const candidates = screenSpikeVoxels(run, sums, stats, mask.mask, screen);
+  const candidates = screenSpikeVoxels(run, sums, stats, screen);
   const spikes = voxelSpikes(run, candidates, { firstVolume: drop, detrendOrder, cutoffZ: spikeCutoffZ, censorVolumes: censorForStats });
 
   // 6. findings

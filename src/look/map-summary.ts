@@ -22,8 +22,7 @@ export interface MapSummary {
  */
 export function summariseInMask(values: ArrayLike<number>, mask?: ArrayLike<number>): MapSummary {
   let count = 0;
-  for (let i = 0; i < values.length; i++) if ((!mask || mask[i]) && Number.isFinite(values[i])) count++;
-  if (count === 0) return { voxels: 0, median: NaN, q1: NaN, q3: NaN, min: NaN, max: NaN };
+  for (let i = 0; i < values.length; i++) if (!mask || mask[i]) count++;
   const work = new Float64Array(count);
   let n = 0, min = Infinity, max = -Infinity;
   for (let i = 0; i < values.length; i++) {
@@ -34,26 +33,58 @@ export function summariseInMask(values: ArrayLike<number>, mask?: ArrayLike<numb
     if (v < min) min = v;
     if (v > max) max = v;
   }
-  // the median first; the lower quartile then lies in the part below it, the upper in the part above
-  const median = quantileIn(work, n, 0.5, 0, n);
-  const mid = Math.floor(0.5 * (n - 1));
-  const q1 = quantileIn(work, n, 0.25, 0, mid + 1);
-  const q3 = quantileIn(work, n, 0.75, mid, n);
-  return { voxels: n, q1, median, q3, min, max };
+  if (n === 0) return { voxels: 0, median: NaN, q1: NaN, q3: NaN, min: NaN, max: NaN };
+  if (min === max) return { voxels: n, q1: min, median: min, q3: min, min, max };
+  // the order statistics at the quartile positions, by bucket selection: count the values per bucket
+  // of equal width, then select only among the values of the buckets that hold the wanted ranks
+  const positions = [0.25, 0.5, 0.75].map((p) => p * (n - 1));
+  const ranks = [...new Set(positions.flatMap((pos) => (Number.isInteger(pos) ? [pos] : [Math.floor(pos), Math.floor(pos) + 1])))];
+  const stats = orderStatistics(work, n, min, max, ranks);
+  const at = (pos: number): number => {
+    const lo = Math.floor(pos);
+    const a = stats.get(lo)!;
+    return pos === lo ? a : a + (pos - lo) * (stats.get(lo + 1)! - a);
+  };
+  return { voxels: n, q1: at(positions[0]), median: at(positions[1]), q3: at(positions[2]), min, max };
 }
 
 /**
- * Quantile p of work[0..n) by linear interpolation at position p (n - 1), given that position lies in
- * work[from..to) and every value there ranks above work[0..from) and below work[to..n).
+ * The k-th smallest of work[0..n) (0-based) for each k in `ranks`, exactly: values are counted into
+ * up to 4096 buckets of equal width between min and max (max > min), and each wanted rank is selected
+ * among the values of its bucket only.
  */
-function quantileIn(work: Float64Array, n: number, p: number, from: number, to: number): number {
-  const pos = p * (n - 1);
-  const lo = Math.floor(pos);
-  const a = selectKth(work, to, lo, from);
-  if (pos === lo) return a;
-  // after selecting lo, everything above index lo is >= a (values past `to` rank above the range):
-  // the next order statistic is their minimum
-  let b = Infinity;
-  for (let i = lo + 1; i < n; i++) if (work[i] < b) b = work[i];
-  return a + (pos - lo) * (b - a);
+function orderStatistics(work: Float64Array, n: number, min: number, max: number, ranks: number[]): Map<number, number> {
+  const B = Math.max(1, Math.min(4096, n >> 3));
+  const scale = B / (max - min);
+  const bucketOf = new Uint16Array(n);
+  const count = new Int32Array(B);
+  for (let i = 0; i < n; i++) {
+    let b = Math.floor((work[i] - min) * scale);
+    if (b >= B) b = B - 1;
+    bucketOf[i] = b;
+    count[b]++;
+  }
+  // bucket and rank within it of each wanted rank; gather those buckets' values
+  const first = new Int32Array(B + 1);
+  for (let b = 0; b < B; b++) first[b + 1] = first[b] + count[b];
+  const bucketOfRank = ranks.map((k) => {
+    let lo = 0, hi = B - 1;
+    while (lo < hi) { const mid = (lo + hi) >> 1; if (first[mid + 1] > k) hi = mid; else lo = mid + 1; }
+    return lo;
+  });
+  const slot = new Int32Array(B).fill(-1);
+  const lists: Float64Array[] = [];
+  for (const b of bucketOfRank) if (slot[b] < 0) { slot[b] = lists.length; lists.push(new Float64Array(count[b])); }
+  const filled = new Int32Array(lists.length);
+  for (let i = 0; i < n; i++) {
+    const q = slot[bucketOf[i]];
+    if (q >= 0) lists[q][filled[q]++] = work[i];
+  }
+  const out = new Map<number, number>();
+  ranks.forEach((k, j) => {
+    const b = bucketOfRank[j], list = lists[slot[b]];
+    out.set(k, selectKth(list, list.length, k - first[b]));
+  });
+  return out;
 }
+

@@ -87,26 +87,37 @@ export function maskSeries(run: Volume, mask: ArrayLike<number>, options: { minS
 /**
  * Slice sums and summed squared differences from the volume before, for volumes t..t+3 (t >= 1): each
  * value is loaded once and serves as the previous volume of the next; eight independent sums keep the
- * adder busy. (A small function called per group of volumes, so V8 optimises it once and keeps it.)
+ * adder busy.
  */
 function sumFourVolumes(data: Float32Array, n: number, nt: number, t: number, sliceFirstRun: Int32Array, runStart: Int32Array, runEnd: Int32Array, sliceSum: Float64Array, d2: Float64Array): void {
-  const b0 = t * n, bp = b0 - n, b1 = b0 + n, b2 = b1 + n, b3 = b2 + n;
   const nz = sliceFirstRun.length - 1;
-  let e0 = 0, e1 = 0, e2 = 0, e3 = 0;
+  const acc = new Float64Array(8);
   for (let z = 0; z < nz; z++) {
-    let s0 = 0, s1 = 0, s2 = 0, s3 = 0;
-    for (let r = sliceFirstRun[z], rEnd = sliceFirstRun[z + 1]; r < rEnd; r++) {
-      for (let v = runStart[r], e = runEnd[r]; v < e; v++) {
-        const yp = data[bp + v], y0 = data[b0 + v], y1 = data[b1 + v], y2 = data[b2 + v], y3 = data[b3 + v];
-        s0 += y0; s1 += y1; s2 += y2; s3 += y3;
-        const d0 = y0 - yp, d1 = y1 - y0, dd2 = y2 - y1, d3 = y3 - y2;
-        e0 += d0 * d0; e1 += d1 * d1; e2 += dd2 * dd2; e3 += d3 * d3;
-      }
-    }
+    sliceFourVolumes(data, t * n, n, sliceFirstRun[z], sliceFirstRun[z + 1], runStart, runEnd, acc);
     const o = z * nt + t;
-    sliceSum[o] = s0; sliceSum[o + 1] = s1; sliceSum[o + 2] = s2; sliceSum[o + 3] = s3;
+    sliceSum[o] = acc[0]; sliceSum[o + 1] = acc[1]; sliceSum[o + 2] = acc[2]; sliceSum[o + 3] = acc[3];
   }
-  d2[t] = e0; d2[t + 1] = e1; d2[t + 2] = e2; d2[t + 3] = e3;
+  d2[t] = acc[4]; d2[t + 1] = acc[5]; d2[t + 2] = acc[6]; d2[t + 3] = acc[7];
+}
+
+/**
+ * One slice of sumFourVolumes (runs r0..r1-1): acc[0..3] = the slice's sums of volumes t..t+3,
+ * acc[4..7] += their squared differences. A short function called per slice and group of volumes,
+ * so V8 optimises it early and keeps it (long single calls were compiled mid-loop and then
+ * deoptimised, over and over).
+ */
+function sliceFourVolumes(data: Float32Array, b0: number, n: number, r0: number, r1: number, runStart: Int32Array, runEnd: Int32Array, acc: Float64Array): void {
+  const bp = b0 - n, b1 = b0 + n, b2 = b1 + n, b3 = b2 + n;
+  let s0 = 0, s1 = 0, s2 = 0, s3 = 0, e0 = acc[4], e1 = acc[5], e2 = acc[6], e3 = acc[7];
+  for (let r = r0; r < r1; r++) {
+    for (let v = runStart[r], e = runEnd[r]; v < e; v++) {
+      const yp = data[bp + v], y0 = data[b0 + v], y1 = data[b1 + v], y2 = data[b2 + v], y3 = data[b3 + v];
+      s0 += y0; s1 += y1; s2 += y2; s3 += y3;
+      const d0 = y0 - yp, d1 = y1 - y0, dd2 = y2 - y1, d3 = y3 - y2;
+      e0 += d0 * d0; e1 += d1 * d1; e2 += dd2 * dd2; e3 += d3 * d3;
+    }
+  }
+  acc[0] = s0; acc[1] = s1; acc[2] = s2; acc[3] = s3; acc[4] = e0; acc[5] = e1; acc[6] = e2; acc[7] = e3;
 }
 
 /** As sumFourVolumes for the single volume t (t >= 1). */

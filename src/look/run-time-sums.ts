@@ -24,11 +24,10 @@ export interface RunTimeSums {
   moments: Float64Array[];
   /** Drift fit over the fit volumes: g_t = shift + sum_k fit[k] basis[k][t] (fit[0] is the mean of z there). */
   fit: Float64Array[];
-  /** With u_t = z_t - (g_t - shift), the residual of that fit: largest and smallest u over the fit volumes
-   *  (they screen spike candidates) and sum u_t u_{t-1} over pairs of fit volumes (lag-1); +inf, -inf
-   *  and 0 ("not computed") for voxels whose mean there is below `residualsAbove`. */
-  residualMax: Float64Array;
-  residualMin: Float64Array;
+  /** With u_t = z_t - (g_t - shift), the residual of that fit: largest |u| over the fit volumes (it
+   *  screens spike candidates) and sum u_t u_{t-1} over pairs of fit volumes (lag-1); +inf and 0
+   *  ("not computed") for voxels whose mean there is below `residualsAbove`. */
+  residualAbsMax: Float64Array;
   residualLag: Float64Array;
   /** Mean over all volumes (NaN for a voxel with any non-finite value): the image a brain mask is made from. */
   meanAll: Float64Array;
@@ -36,10 +35,10 @@ export interface RunTimeSums {
 
 /**
  * Everything the look needs from the voxels' time series, in one streamed read of the run: per-voxel
- * sums of z, z^2, lag-1 products and drift projections over all volumes, plus a polynomial drift fit over
- * the volumes from `fitFrom` and the extremes of its residuals. Nothing here depends on which volumes
- * are later dropped or censored: {@link keptVolumeStats} subtracts those volumes' terms afterwards, so
- * the run need not be read again once they are known.
+ * sums of z, z^2 and the drift projections over all volumes, plus a polynomial drift fit over the
+ * volumes from `fitFrom` with the largest size and the lag-1 products of its residuals. Nothing here
+ * depends on which volumes are later dropped or censored: {@link keptVolumeStats} subtracts those
+ * volumes' terms afterwards, so the run need not be read again once they are known.
  *
  * Why a shift: sums of squares of raw values lose digits when the mean is large against the SD
  * (sum y^2 - (sum y)^2 / T cancels). Each voxel's values are taken relative to one of its own values
@@ -71,7 +70,9 @@ export function runTimeSums(run: Volume, options: { detrendOrder?: number; fitFr
     for (let k = 1; k < p; k++) weights[t * p + k] = basis[k][t];
   }
   const rows = Array.from({ length: nt }, (_, t) => t);
-  const matrices = p <= MAX_CUMULATIVE_TERMS ? runningSumMaps(basis, fitFrom) : undefined;
+  const matrices = new Float64Array(4 * p * p);
+  if (p <= MAX_CUMULATIVE_TERMS) matrices.set(runningSumMaps(basis, fitFrom));
+  matrices.set(forwardDifferenceMap(basis, fitFrom), 3 * p * p);
   const s = voxelSums(run, { rows, fitStart: fitFrom, terms: p, weights, mode: 'look', residualsAbove: options.residualsAbove, matrices });
   const n = voxelsPerVolume(run);
   const meanAll = meanFromSums(s.shift, s.S, nt, new Float64Array(n));
@@ -82,7 +83,7 @@ export function runTimeSums(run: Volume, options: { detrendOrder?: number; fitFr
   return {
     nt, terms: p, detrendOrder, fitFrom, basis,
     shift: s.shift, sum: s.S, sumSquares: s.SS, moments, fit,
-    residualMax: s.umax, residualMin: s.umin, residualLag: s.Lu, meanAll,
+    residualAbsMax: s.uAbs, residualLag: s.Lu, meanAll,
   };
 }
 
@@ -145,6 +146,25 @@ function solveRunningSumMap(times: number[], end: number, p: number, target: (k:
     for (let i = q - 1; i >= 0; i--) { let v = y[i]; for (let j = i + 1; j < q; j++) v -= L[j * q + i] * x[j]; x[i] = v / L[i * q + i]; }
     for (let m = 0; m < q; m++) out[at + k * p + m] = x[m] / scale[m];
   }
+}
+
+/**
+ * V[j][k] = the j-th forward difference of basis column k at volume `from` (row-major p x p; column 0,
+ * the constant, is left 0): the look kernel steps the drift term of its residuals with these.
+ * @param basis - drift terms over all volumes
+ * @param from - first fit volume (needs from + p - 1 < nt)
+ * @returns V
+ */
+export function forwardDifferenceMap(basis: Float64Array[], from: number): Float64Array {
+  const p = basis.length;
+  const V = new Float64Array(p * p);
+  for (let j = 0; j < p; j++) for (let k = 1; k < p; k++) {
+    // Delta^j w(t) = sum_i (-1)^(j - i) C(j, i) w(t + i)
+    let d = 0;
+    for (let i = 0; i <= j; i++) d += ((j - i) % 2 ? -1 : 1) * binomial(j, i) * basis[k][from + i];
+    V[j * p + k] = d;
+  }
+  return V;
 }
 
 /** C(a, b) for integer b >= 0 (0 when a < b). */

@@ -1,6 +1,6 @@
 import { fail } from '../core/fail.js';
 import { voxelsPerVolume, type Volume } from '../core/volume.js';
-import { MAX_CUMULATIVE_TERMS, VOXELS_PER_STEP, exactSumNames, lookSumNames, voxelSumsKernels } from './voxel-sums-wasm.js';
+import { VOXELS_PER_STEP, exactSumNames, lookSumNames, voxelSumsKernels } from './voxel-sums-wasm.js';
 
 /** What {@link voxelSums} computes: which volumes, in which order, with which drift terms. */
 export interface VoxelSumsPlan {
@@ -16,7 +16,7 @@ export interface VoxelSumsPlan {
   mode: 'look' | 'exact';
   /** Look mode: voxels whose mean over the fit rows is below this get no residual sums (default -Infinity: all do). */
   residualsAbove?: number;
-  /** Look mode with terms <= MAX_CUMULATIVE_TERMS: A_F, B_F, A_h (3 p x p, row-major; see voxel-sums-wasm.ts). */
+  /** Look mode: A_F, B_F, A_h, V (4 p x p, row-major; see voxel-sums-wasm.ts). */
   matrices?: Float64Array;
 }
 
@@ -51,8 +51,8 @@ export function voxelSums(run: Volume, plan: VoxelSumsPlan): Record<string, Floa
     if (!Number.isInteger(t) || t < 0 || t >= nt) fail('INVALID_ARGUMENT', `row ${i} names volume ${t}, outside 0..${nt - 1}`);
   }
   const names = plan.mode === 'look' ? lookSumNames(p) : exactSumNames(p);
-  const mats = plan.matrices ?? new Float64Array(3 * p * p);
-  if (plan.mode === 'look' && p <= MAX_CUMULATIVE_TERMS && (!plan.matrices || plan.matrices.length !== 3 * p * p)) fail('INVALID_ARGUMENT', `look sums with ${p} terms need 3 matrices of ${p} x ${p}`);
+  const mats = plan.matrices ?? new Float64Array(4 * p * p);
+  if (plan.mode === 'look' && (!plan.matrices || plan.matrices.length !== 4 * p * p)) fail('INVALID_ARGUMENT', `look sums with ${p} terms need 4 matrices of ${p} x ${p}`);
   // block width: a whole number of kernel steps
   const step = VOXELS_PER_STEP;
   const cols = step * Math.max(8, Math.min(Math.ceil(n / step), Math.floor(BLOCK_BYTES / (4 * step * R))));

@@ -74,7 +74,7 @@ export function voxelTimeStats(run: Volume, options: { firstVolume?: number; det
 
 /** Maps of voxels v0..v1-1 from the exact sums (a small function per chunk, which V8 optimises once). */
 function finishStats(v0: number, v1: number, T: number, p: number, s: Record<string, Float64Array>, out: { mean: Float32Array; sd: Float32Array; tsnr: Float32Array; lag1: Float32Array; maxAbs: Float32Array }): void {
-  const { shift, S, SSu, Lu, umax, umin } = s;
+  const { shift, S, SSu, Lu, uAbs } = s;
   const { mean, sd, tsnr, lag1, maxAbs } = out;
   for (let v = v0; v < v1; v++) {
     const mv = shift[v] + S[v] / T;
@@ -87,6 +87,6 @@ function finishStats(v0: number, v1: number, T: number, p: number, s: Record<str
     sd[v] = sdv;
     tsnr[v] = sdv > 0 ? mv / sdv : 0;
     lag1[v] = sdv > 0 ? Lu[v] / ss : 0;
-    maxAbs[v] = Math.max(umax[v], -umin[v]);
+    maxAbs[v] = uAbs[v];
   }
 }
