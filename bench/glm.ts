@@ -13,28 +13,21 @@
  * `# numpy backend: ...` comment line.
  */
 import { execFileSync } from 'node:child_process';
-import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { dirname, join } from 'node:path';
-import { fileURLToPath, pathToFileURL } from 'node:url';
-import { diagonalAffine } from '../src/core/affine.js';
+import { join } from 'node:path';
+import { pathToFileURL } from 'node:url';
 import { createRng } from '../src/core/random.js';
-import { makeVolume, type Volume } from '../src/core/volume.js';
+import type { Volume } from '../src/core/volume.js';
 import type { BoldEvent } from '../src/io/run-types.js';
 import { buildDesign } from '../src/model/design.js';
 import type { DesignMatrix } from '../src/model/design-matrix.js';
 import { fitGlmAr1 } from '../src/model/glm-ar1.js';
 import { fitGlm } from '../src/model/glm-ols.js';
+import { noisyHeadRun, packageRoot, timeMedianSec } from './bench-kit.js';
 
 const DIMS: [number, number, number, number] = [64, 64, 36, 200];
 const TR_SEC = 2;
-
-/** The package root: the first folder above this file holding package.json (works from src and dist). */
-function packageRoot(): string {
-  let dir = dirname(fileURLToPath(import.meta.url));
-  while (!existsSync(join(dir, 'package.json'))) dir = dirname(dir);
-  return dir;
-}
 
 /** Two alternating 10 s block conditions, polynomial drift to order 2, one nuisance column, intercept: p = 6. */
 function benchDesign(): DesignMatrix {
@@ -50,25 +43,8 @@ function benchDesign(): DesignMatrix {
 
 /** A seeded run: baseline ~1000 in an ellipsoid (20 outside), noise sd 20, a 2 % response to 'a'. */
 function benchRun(design: DesignMatrix): Volume {
-  const [nx, ny, nz, nt] = DIMS;
-  const n = nx * ny * nz;
-  const base = new Float32Array(n);
-  for (let k = 0; k < nz; k++) for (let j = 0; j < ny; j++) for (let i = 0; i < nx; i++) {
-    const r2 = ((i - 31.5) / 26) ** 2 + ((j - 31.5) / 30) ** 2 + ((k - 17.5) / 16) ** 2;
-    base[i + nx * (j + ny * k)] = r2 <= 1 ? 1000 * (1 - 0.3 * r2) : 20;
-  }
-  const data = new Float32Array(n * nt);
-  createRng(20240602).fillNormal(data, 0, 20);
-  for (let t = 0; t < nt; t++) {
-    const a = design.x[t * design.p];
-    for (let v = 0; v < n; v++) data[t * n + v] += base[v] * (1 + 0.02 * a);
-  }
-  return makeVolume({ dims: DIMS, spacingMm: [3, 3, 3], trSec: TR_SEC, affine: diagonalAffine([3, 3, 3]), data });
-}
-
-function median(xs: number[]): number {
-  const s = [...xs].sort((a, b) => a - b);
-  return s[Math.floor(s.length / 2)];
+  // volume t is noise + head * (1 + 0.02 * a(t)), a = the design's first column
+  return noisyHeadRun({ dims: DIMS, spacingMm: [3, 3, 3], seed: 20240602, noiseSd: 20, trSec: TR_SEC, headScaleAt: (t) => 1 + 0.02 * design.x[t * design.p] });
 }
 
 /**
@@ -81,19 +57,9 @@ export async function main(): Promise<void> {
   const run = benchRun(design);
   const n = DIMS[0] * DIMS[1] * DIMS[2];
   let fit = fitGlm(run, design); // warm-up: lets the JIT compile the kernels
-  const times: number[] = [];
-  for (let r = 0; r < 5; r++) {
-    const t0 = process.hrtime.bigint();
-    fit = fitGlm(run, design);
-    times.push(Number(process.hrtime.bigint() - t0) / 1e9);
-  }
-  const oursSec = median(times);
-  const ar1Times: number[] = [];
-  for (let r = 0; r < 3; r++) {
-    const t0 = process.hrtime.bigint();
-    fitGlmAr1(run, design);
-    ar1Times.push(Number(process.hrtime.bigint() - t0) / 1e9);
-  }
+  // `fit` keeps the last timed result for the comparison with numpy
+  const oursSec = await timeMedianSec(() => { fit = fitGlm(run, design); }, { repeats: 5, warmUp: 0 });
+  const ar1Sec = await timeMedianSec(() => fitGlmAr1(run, design), { repeats: 3, warmUp: 0 });
 
   const dir = mkdtempSync(join(tmpdir(), 'boldsweep-bench-glm-'));
   try {
@@ -114,7 +80,7 @@ export async function main(): Promise<void> {
     let maxRel = 0;
     for (let i = 0; i < ref.length; i++) maxRel = Math.max(maxRel, Math.abs(ref[i] - fit.betas[i]) / Math.max(1, Math.abs(ref[i])));
     console.log(`bench glm-seconds ${oursSec.toFixed(4)} s`);
-    console.log(`bench glm-ar1-seconds ${median(ar1Times).toFixed(4)} s`);
+    console.log(`bench glm-ar1-seconds ${ar1Sec.toFixed(4)} s`);
     console.log(`bench numpy-lstsq-seconds ${numpySec.toFixed(4)} s`);
     console.log(`# numpy backend: ${blas}, OPENBLAS_CORETYPE ${coretype}`);
     console.log(`ratio glm-vs-numpy ${(oursSec / numpySec).toFixed(3)}`);

@@ -15,45 +15,15 @@ import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { gunzipSync } from 'node:zlib';
-import { diagonalAffine } from '../src/core/affine.js';
-import { createRng } from '../src/core/random.js';
-import { makeVolume, type Volume } from '../src/core/volume.js';
 import { readNifti } from '../src/io/nifti-read.js';
 import { writeNifti } from '../src/io/nifti-write.js';
+import { noisyHeadRun, timeMedianSec } from './bench-kit.js';
 
 const DIMS: [number, number, number, number] = [64, 64, 36, 200];
 const REPEATS = 5;
 
-function makeBenchRun(): Volume {
-  const [nx, ny, nz, nt] = DIMS;
-  const n = nx * ny * nz;
-  const base = new Float32Array(n);
-  for (let k = 0; k < nz; k++) for (let j = 0; j < ny; j++) for (let i = 0; i < nx; i++) {
-    const r2 = ((i - 31.5) / 26) ** 2 + ((j - 31.5) / 30) ** 2 + ((k - 17.5) / 16) ** 2;
-    base[i + nx * (j + ny * k)] = r2 <= 1 ? 1000 * (1 - 0.3 * r2) : 20;
-  }
-  const data = new Float32Array(n * nt);
-  createRng(20240612).fillNormal(data, 0, 20);
-  for (let t = 0; t < nt; t++) for (let v = 0; v < n; v++) data[t * n + v] += base[v];
-  return makeVolume({ dims: DIMS, spacingMm: [3, 3, 3], trSec: 2, affine: diagonalAffine([3, 3, 3]), data });
-}
-
-function median(xs: number[]): number {
-  const s = [...xs].sort((a, b) => a - b);
-  return s[Math.floor(s.length / 2)];
-}
-
 /** Median seconds of `REPEATS` calls after one warm-up call. */
-async function timeIt(fn: () => Promise<unknown> | unknown): Promise<number> {
-  await fn();
-  const times: number[] = [];
-  for (let r = 0; r < REPEATS; r++) {
-    const t0 = process.hrtime.bigint();
-    await fn();
-    times.push(Number(process.hrtime.bigint() - t0) / 1e9);
-  }
-  return median(times);
-}
+const timeIt = (fn: () => unknown) => timeMedianSec(fn, { repeats: REPEATS, warmUp: 1 });
 
 const fmt = (x: number) => x.toFixed(3);
 
@@ -63,7 +33,7 @@ const fmt = (x: number) => x.toFixed(3);
  * @example await main()
  */
 export async function main(): Promise<void> {
-  const run = makeBenchRun();
+  const run = noisyHeadRun({ dims: DIMS, spacingMm: [3, 3, 3], seed: 20240612, noiseSd: 20, trSec: 2 });
   const megabytes = run.data.byteLength / 1e6;
   const dir = mkdtempSync(join(tmpdir(), 'boldsweep-bench-io-'));
   try {

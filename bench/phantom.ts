@@ -13,35 +13,23 @@
  *      ratio trilinear-vs-scipy <ours / scipy>, bench trilinear-max-abs-diff-vs-scipy <d> value
  */
 import { execFileSync } from 'node:child_process';
-import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { dirname, join } from 'node:path';
-import { fileURLToPath, pathToFileURL } from 'node:url';
+import { join } from 'node:path';
+import { pathToFileURL } from 'node:url';
 import { invertAffine } from '../src/core/affine.js';
 import { childSeed, createRng } from '../src/core/random.js';
 import { trilinearResample } from '../src/resample/trilinear-resample.js';
 import { demoPhantomSpec } from '../src/simulate/phantom-spec.js';
 import { rigidMotionAffine } from '../src/simulate/rigid-motion.js';
 import { simulatePhantomRun } from '../src/simulate/simulate-phantom-run.js';
+import { packageRoot, timeMedianSec } from './bench-kit.js';
 
-/** The package root: the first folder above this file holding package.json (works from src and dist). */
-function packageRoot(): string {
-  let dir = dirname(fileURLToPath(import.meta.url));
-  while (!existsSync(join(dir, 'package.json'))) dir = dirname(dir);
-  return dir;
-}
-
-function median(xs: number[]): number {
-  const s = [...xs].sort((a, b) => a - b);
-  return s[Math.floor(s.length / 2)];
-}
-
-function timed(f: () => void): number {
-  const t0 = process.hrtime.bigint();
-  f();
-  return Number(process.hrtime.bigint() - t0) / 1e9;
-}
-
+/**
+ * Run the phantom and trilinear benchmarks and print their lines.
+ * @returns when done
+ * @example await main()
+ */
 export async function main(): Promise<void> {
   // 1. phantom
   const demo = demoPhantomSpec();
@@ -53,13 +41,12 @@ export async function main(): Promise<void> {
     dropouts: [{ volume: 50, slice: 17, keptFraction: 0.15 }],
   };
   const [nx, ny, nz] = spec.dims;
-  simulatePhantomRun(spec);
-  const phantom = median([0, 1, 2].map(() => timed(() => simulatePhantomRun(spec))));
-  const floor = median([0, 1, 2].map(() => timed(() => {
+  const phantom = await timeMedianSec(() => simulatePhantomRun(spec), { repeats: 3, warmUp: 1 });
+  const floor = await timeMedianSec(() => {
     const rng = createRng(childSeed(spec.seed, 'thermal'));
     const buf = new Float32Array(nx * ny * nz);
     for (let t = 0; t < spec.nVolumes; t++) for (let v = 0; v < buf.length; v++) buf[v] = Math.hypot(rng.normal(), rng.normal());
-  })));
+  }, { repeats: 3, warmUp: 0 });
   console.log(`bench phantom-60-volumes-seconds ${phantom.toFixed(3)} s`);
   console.log(`ratio phantom-vs-noise-draws ${(phantom / floor).toFixed(2)}`);
 
@@ -72,8 +59,7 @@ export async function main(): Promise<void> {
   const move = rigidMotionAffine({ shiftXMm: 0.4, shiftYMm: -0.3, shiftZMm: 0.2, rotXDeg: 2, rotYDeg: -1, rotZDeg: 1.5 }, [31.5, 31.5, 17.5]);
   const map = invertAffine(move);
   const out = new Float32Array(n);
-  trilinearResample(img, dims, map, dims, out);
-  const ours = median([0, 1, 2, 3, 4].map(() => timed(() => trilinearResample(img, dims, map, dims, out))));
+  const ours = await timeMedianSec(() => trilinearResample(img, dims, map, dims, out), { repeats: 5, warmUp: 1 });
   console.log(`bench trilinear-volume-seconds ${ours.toFixed(5)} s`);
   const tmp = mkdtempSync(join(tmpdir(), 'boldsweep-bench-trilinear-'));
   try {

@@ -10,17 +10,16 @@ import { createRng } from '../src/core/random.js';
 import { makeVolume } from '../src/core/volume.js';
 import { plantActivations } from '../src/simulate/plant.js';
 import { scoreDetection } from '../src/sweep/score.js';
+import { timeMedianSec } from './bench-kit.js';
 
-function medianMs(f: () => unknown, repeats = 5): number {
-  const times: number[] = [];
-  for (let r = 0; r < repeats; r++) {
-    const t0 = process.hrtime.bigint();
-    f();
-    times.push(Number(process.hrtime.bigint() - t0) / 1e6);
-  }
-  return times.sort((a, b) => a - b)[Math.floor(repeats / 2)];
-}
+/** Median milliseconds of 5 calls of `f`, no warm-up call. */
+const medianMs = async (f: () => unknown) => 1e3 * (await timeMedianSec(f, { repeats: 5, warmUp: 0 }));
 
+/**
+ * Run the planting and scoring benchmarks and print their lines.
+ * @returns when done
+ * @example await main()
+ */
 export async function main(): Promise<void> {
   const [nx, ny, nz, nt] = [64, 64, 36, 150];
   const n = nx * ny * nz;
@@ -33,8 +32,8 @@ export async function main(): Promise<void> {
   const timeCourse = Array.from({ length: nt }, (_, t) => (t % 20 < 10 ? 1 : 0));
   const options = { count: 6, fwhmMm: 6, amplitudePct: 1, timeCourse, placementMask: brain, seed: 3 };
 
-  const plantMs = medianMs(() => plantActivations(run, options));
-  const copyMs = medianMs(() => new Float32Array(run.data));
+  const plantMs = await medianMs(() => plantActivations(run, options));
+  const copyMs = await medianMs(() => new Float32Array(run.data));
   console.log(`bench plant-6-blobs-64x64x36x150 ${plantMs.toFixed(1)} ms`);
   console.log(`ratio plant-vs-copy-run ${(plantMs / copyMs).toFixed(2)}`);
 
@@ -43,9 +42,9 @@ export async function main(): Promise<void> {
   rng.fillNormal(stat);
   for (let v = 0; v < n; v++) stat[v] += 4 * truth.profile[v];
   const survivors = Uint8Array.from(stat, (s) => (s > 3.1 ? 1 : 0));
-  const scoreMs = medianMs(() => scoreDetection({ statistic: stat, survivors, truth, brainMask: brain }));
+  const scoreMs = await medianMs(() => scoreDetection({ statistic: stat, survivors, truth, brainMask: brain }));
   const brainStats = Float64Array.from(stat.filter((_, v) => brain[v] === 1));
-  const sortMs = medianMs(() => new Float64Array(brainStats).sort());
+  const sortMs = await medianMs(() => new Float64Array(brainStats).sort());
   console.log(`bench score-64x64x36 ${scoreMs.toFixed(1)} ms`);
   console.log(`ratio score-vs-sort-brain ${(scoreMs / sortMs).toFixed(2)}`);
 }

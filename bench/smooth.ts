@@ -11,47 +11,19 @@
  * reused output, as the scipy script does with its preallocated output array.
  */
 import { execFileSync } from 'node:child_process';
-import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { availableParallelism, tmpdir } from 'node:os';
-import { dirname, join } from 'node:path';
-import { fileURLToPath, pathToFileURL } from 'node:url';
-import { diagonalAffine } from '../src/core/affine.js';
-import { createRng } from '../src/core/random.js';
-import { makeVolume, type Volume } from '../src/core/volume.js';
+import { join } from 'node:path';
+import { pathToFileURL } from 'node:url';
+import { makeVolume } from '../src/core/volume.js';
 import { closeSharedWorkerPools } from '../src/core/worker-pool.js';
 import { smoothRun } from '../src/steps/smooth-run.js';
+import { noisyHeadRun, packageRoot, timeMedianSec } from './bench-kit.js';
 
 const DIMS: [number, number, number, number] = [64, 64, 36, 200];
 const SPACING: [number, number, number] = [3, 3, 3];
 const FWHM_MM = 6;
 const MODE = 'reflect';
-
-/** The package root: the first folder above this file holding package.json (works from src and dist). */
-function packageRoot(): string {
-  let dir = dirname(fileURLToPath(import.meta.url));
-  while (!existsSync(join(dir, 'package.json'))) dir = dirname(dir);
-  return dir;
-}
-
-/** A seeded run: a smooth ellipsoidal "head" of intensity ~1000 plus Gaussian noise (sd 20). */
-function makeBenchRun(): Volume {
-  const [nx, ny, nz, nt] = DIMS;
-  const n = nx * ny * nz;
-  const base = new Float32Array(n);
-  for (let k = 0; k < nz; k++) for (let j = 0; j < ny; j++) for (let i = 0; i < nx; i++) {
-    const r2 = ((i - 31.5) / 26) ** 2 + ((j - 31.5) / 30) ** 2 + ((k - 17.5) / 16) ** 2;
-    base[i + nx * (j + ny * k)] = r2 <= 1 ? 1000 * (1 - 0.3 * r2) : 20;
-  }
-  const data = new Float32Array(n * nt);
-  createRng(20240601).fillNormal(data, 0, 20);
-  for (let t = 0; t < nt; t++) for (let v = 0; v < n; v++) data[t * n + v] += base[v];
-  return makeVolume({ dims: DIMS, spacingMm: SPACING, trSec: 2, affine: diagonalAffine(SPACING), data });
-}
-
-function median(xs: number[]): number {
-  const s = [...xs].sort((a, b) => a - b);
-  return s[Math.floor(s.length / 2)];
-}
 
 /**
  * Run the smoothing benchmark and print its lines.
@@ -60,27 +32,18 @@ function median(xs: number[]): number {
  */
 export async function main(): Promise<void> {
   const cores = availableParallelism();
-  const run = makeBenchRun();
-  await smoothRun(run, { fwhmMm: FWHM_MM, mode: MODE, workers: cores }); // warm-up: threads start, code compiles
-  const times: number[] = [];
+  // a smooth ellipsoidal "head" of intensity ~1000 plus Gaussian noise (sd 20)
+  const run = noisyHeadRun({ dims: DIMS, spacingMm: SPACING, seed: 20240601, noiseSd: 20, trSec: 2 });
   let ours = run;
-  for (let r = 0; r < 5; r++) {
-    const t0 = process.hrtime.bigint();
+  // the warm-up call starts the threads and compiles the code; `ours` keeps the last timed result
+  const oursSec = await timeMedianSec(async () => {
     ours = await smoothRun(run, { fwhmMm: FWHM_MM, mode: MODE, workers: cores });
-    times.push(Number(process.hrtime.bigint() - t0) / 1e9);
-  }
-  const oursSec = median(times);
+  }, { repeats: 5, warmUp: 1 });
   const sharedRun = makeVolume({ ...run, data: new Float32Array(new SharedArrayBuffer(run.data.byteLength)) });
   sharedRun.data.set(run.data);
   const out = new Float32Array(new SharedArrayBuffer(run.data.byteLength));
-  await smoothRun(sharedRun, { fwhmMm: FWHM_MM, mode: MODE, workers: cores, out }); // first touch of `out`
-  const sharedTimes: number[] = [];
-  for (let r = 0; r < 5; r++) {
-    const t0 = process.hrtime.bigint();
-    await smoothRun(sharedRun, { fwhmMm: FWHM_MM, mode: MODE, workers: cores, out });
-    sharedTimes.push(Number(process.hrtime.bigint() - t0) / 1e9);
-  }
-  const sharedSec = median(sharedTimes);
+  // the warm-up call is the first touch of `out`
+  const sharedSec = await timeMedianSec(() => smoothRun(sharedRun, { fwhmMm: FWHM_MM, mode: MODE, workers: cores, out }), { repeats: 5, warmUp: 1 });
 
   const dir = mkdtempSync(join(tmpdir(), 'boldsweep-bench-smooth-'));
   try {

@@ -10,42 +10,24 @@
  *   bench smoothness-max-rel-lambda-diff-vs-numpy <d> value, bench fdr-seconds / rft-seconds / cluster-seconds <s> s
  */
 import { execFileSync } from 'node:child_process';
-import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { dirname, join } from 'node:path';
-import { fileURLToPath, pathToFileURL } from 'node:url';
+import { join } from 'node:path';
+import { pathToFileURL } from 'node:url';
 import { createRng } from '../src/core/random.js';
 import { estimateSmoothness } from '../src/model/smoothness.js';
 import { thresholdClusterExtent } from '../src/model/threshold-cluster.js';
 import { thresholdFdr } from '../src/model/threshold-fdr.js';
 import { thresholdRft } from '../src/model/threshold-rft.js';
 import { smoothVolume3d } from '../src/steps/gaussian-smooth.js';
+import { packageRoot, timeMedianSec } from './bench-kit.js';
 
 const DIMS: [number, number, number, number] = [64, 64, 36, 200];
 const SPACING: [number, number, number] = [3, 3, 3];
 const FWHM_MM = 7.5;
 
-function packageRoot(): string {
-  let dir = dirname(fileURLToPath(import.meta.url));
-  while (!existsSync(join(dir, 'package.json'))) dir = dirname(dir);
-  return dir;
-}
-
-function median(values: number[]): number {
-  const s = [...values].sort((a, b) => a - b);
-  return s[Math.floor(s.length / 2)];
-}
-
-function timeIt(f: () => unknown, repeats = 5): number {
-  f();
-  const times: number[] = [];
-  for (let r = 0; r < repeats; r++) {
-    const t0 = process.hrtime.bigint();
-    f();
-    times.push(Number(process.hrtime.bigint() - t0) / 1e9);
-  }
-  return median(times);
-}
+/** Median seconds of 5 calls of `f` after one warm-up call. */
+const timeIt = (f: () => unknown) => timeMedianSec(f, { repeats: 5, warmUp: 1 });
 
 /** Ellipsoid mask filling most of the grid, like a brain in a 64 x 64 x 36 EPI raster. */
 function ellipsoidMask(): Uint8Array {
@@ -75,7 +57,7 @@ export async function main(): Promise<void> {
   }
   const dof = nt - 6;
   let lambda: number[] = [];
-  const smoothSec = timeIt(() => { lambda = estimateSmoothness(residuals, DIMS, mask, SPACING, { dof }).derivativeVariance; });
+  const smoothSec = await timeIt(() => { lambda = estimateSmoothness(residuals, DIMS, mask, SPACING, { dof }).derivativeVariance; });
 
   const z = new Float32Array(n);
   rng.fillNormal(noise);
@@ -85,9 +67,9 @@ export async function main(): Promise<void> {
   const scale = Math.sqrt(n / ss);
   for (let i = 0; i < n; i++) z[i] *= scale;
   const stat = { kind: 'z' } as const;
-  const fdrSec = timeIt(() => thresholdFdr(z, mask, { q: 0.05, stat }));
-  const rftSec = timeIt(() => thresholdRft(z, mask, [nx, ny, nz], { alpha: 0.05, stat, fwhmMm: FWHM_MM, spacingMm: SPACING }));
-  const clusterSec = timeIt(() => thresholdClusterExtent(z, mask, [nx, ny, nz], { alpha: 0.05, stat, fwhmMm: FWHM_MM, spacingMm: SPACING, formingP: 0.01 }));
+  const fdrSec = await timeIt(() => thresholdFdr(z, mask, { q: 0.05, stat }));
+  const rftSec = await timeIt(() => thresholdRft(z, mask, [nx, ny, nz], { alpha: 0.05, stat, fwhmMm: FWHM_MM, spacingMm: SPACING }));
+  const clusterSec = await timeIt(() => thresholdClusterExtent(z, mask, [nx, ny, nz], { alpha: 0.05, stat, fwhmMm: FWHM_MM, spacingMm: SPACING, formingP: 0.01 }));
 
   const dir = mkdtempSync(join(tmpdir(), 'boldsweep-bench-smoothness-'));
   try {
