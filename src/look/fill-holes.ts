@@ -13,16 +13,21 @@ export function fillHoles(mask: ArrayLike<number>, dims: readonly [number, numbe
   // out: 1 = in the mask or not (yet) reached from the border; 0 = background reached from the border
   const out = new Uint8Array(n).fill(1);
   const queue = new Int32Array(n);
+  const tail = borderSeeds(mask, out, queue, nx, ny, nz);
+  flood(mask, out, queue, tail, nx, ny, nz);
+  return out;
+}
+
+/** Queues the background voxels on the border (a 2D grid, nz = 1, has no z border to escape through); returns how many. */
+function borderSeeds(mask: ArrayLike<number>, out: Uint8Array, queue: Int32Array, nx: number, ny: number, nz: number): number {
   const nxy = nx * ny;
   let tail = 0;
-  // seeds: background voxels on the border (a 2D grid, nz = 1, has no z border to escape through)
-  for (let v = 0; v < n; v++) {
+  for (let v = 0; v < out.length; v++) {
     if (mask[v]) continue;
     const z = (v / nxy) | 0, y = ((v - z * nxy) / nx) | 0, x = v - z * nxy - y * nx;
     if (x === 0 || y === 0 || x === nx - 1 || y === ny - 1 || (nz > 1 && (z === 0 || z === nz - 1))) { out[v] = 0; queue[tail++] = v; }
   }
-  tail = flood(mask, out, queue, tail, nx, ny, nz);
-  return out;
+  return tail;
 }
 
 /** Breadth-first flood of the background (mask 0, out 1) through face neighbours from the queued voxels. */

@@ -124,7 +124,7 @@ export function keptVolumeStats(run: Volume, sums: RunTimeSums, options: { first
   let maskCount = n;
   if (m) { maskCount = 0; for (let v = 0; v < n; v++) if (m[v]) maskCount++; }
   const bounds = { voxels: new Int32Array(maskCount), lower: new Float64Array(maskCount), upper: new Float64Array(maskCount), count: 0 };
-  const outMaps: OutMaps = { mean, sd, tsnr, lag1, fit, unsummed: [], bounds };
+  const outMaps: OutMaps = { mean, sd, tsnr, lag1, fit, unsummed: new Int32Array(maskCount + 1), bounds };
   // in chunks: the loops stay small functions that V8 optimises once and keeps across calls; the default
   // drift order (2) has its own straight-line loop (the generic one spends its time in 3-step loops)
   for (let v0 = 0; v0 < n; v0 += 4096) {
@@ -132,7 +132,9 @@ export function keptVolumeStats(run: Volume, sums: RunTimeSums, options: { first
     else correctVoxels(run.data, n, v0, Math.min(n, v0 + 4096), sums, plan, m, outMaps);
   }
   // mask voxels whose residual sums were skipped (below the sums' background level): lag-1 from the data
-  if (outMaps.unsummed.length) lagFromData(run, W, kept, isKept, outMaps.unsummed, fit, sums.shift, lag1);
+  // (the count sits in the last slot: a typed array keeps the hot loop's object shapes fixed)
+  const nUnsummed = outMaps.unsummed[maskCount];
+  if (nUnsummed) lagFromData(run, W, kept, isKept, Array.from(outMaps.unsummed.subarray(0, nUnsummed)), fit, sums.shift, lag1);
   const c = bounds.count;
   const residualBounds = { voxels: bounds.voxels.subarray(0, c), lower: bounds.lower.subarray(0, c), upper: bounds.upper.subarray(0, c) };
   return { mean, sd, tsnr, lag1, fit, residualBounds, firstVolume, keptVolumes: kept, usedVolumes: T, detrendOrder: p - 1, ddof: p };
@@ -155,7 +157,9 @@ interface CorrectionPlan {
 }
 
 interface OutMaps {
-  mean: Float32Array; sd: Float32Array; tsnr: Float32Array; lag1: Float32Array; fit: Float64Array[]; unsummed: number[];
+  mean: Float32Array; sd: Float32Array; tsnr: Float32Array; lag1: Float32Array; fit: Float64Array[];
+  /** Mask voxels whose residual sums were skipped; their count in the last slot. */
+  unsummed: Int32Array;
   bounds: { voxels: Int32Array; lower: Float64Array; upper: Float64Array; count: number };
 }
 
@@ -233,7 +237,7 @@ function correctVoxels(data: Float32Array, n: number, v0: number, v1: number, su
     }
     storeBounds(out.bounds, v, residualAbsMax[v], gap, slackPerScale * scale, early, haveLate, fitAllKept);
     if (!(sdv > 0)) { lag1[v] = 0; continue; }
-    if (!(residualAbsMax[v] < Infinity)) { out.unsummed.push(v); continue; }
+    if (!(residualAbsMax[v] < Infinity)) { const u0 = out.unsummed, last = u0.length - 1; u0[u0[last]++] = v; continue; }
     for (let q = 0; q < lagSlot.length; q++) {
       const i = lagSlot[q];
       let s = z[i];
@@ -307,7 +311,7 @@ function correctVoxels3(data: Float32Array, n: number, v0: number, v1: number, s
     const scale = Math.abs(sh) + Math.abs(c0) * w0 + Math.abs(c1) * w1 + Math.abs(c2) * w2;
     storeBounds(out.bounds, v, residualAbsMax[v], gap, slackPerScale * scale, early, haveLate, fitAllKept);
     if (!(sdv > 0)) { lag1[v] = 0; continue; }
-    if (!(residualAbsMax[v] < Infinity)) { out.unsummed.push(v); continue; }
+    if (!(residualAbsMax[v] < Infinity)) { const u0 = out.unsummed, last = u0.length - 1; u0[u0[last]++] = v; continue; }
     for (let q = 0; q < nLag; q++) { const i = lagSlot[q]; u[i] = z[i] - c0 * readW[3 * i] - c1 * readW[3 * i + 1] - c2 * readW[3 * i + 2]; }
     const uh = u[slotH], un = u[slotN];
     let U = residualLag[v];

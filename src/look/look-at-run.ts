@@ -294,7 +294,7 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
  */
 function backgroundLevel(run: Volume, t: number): number {
   const n = voxelsPerVolume(run);
-  const sample = new Float32Array(Math.ceil(n / 8));
+  const sample = new Float64Array(Math.ceil(n / 8)); // Float64 like the mean image: one array type for the histogram code
   for (let i = 0; i < sample.length; i++) sample[i] = run.data[t * n + 8 * i];
   try {
     return 0.5 * otsuThreshold(sample).threshold;

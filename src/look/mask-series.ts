@@ -36,26 +36,12 @@ export function maskSeries(run: Volume, mask: ArrayLike<number>, options: { minS
   if (mask.length !== n) fail('INVALID_ARGUMENT', `mask length ${mask.length} does not match the run's ${nx}x${ny}x${nz} grid`);
   const minSliceVoxels = options.minSliceVoxels ?? 10;
   // maximal runs of consecutive mask voxels within each slice
-  const nxy = nx * ny;
   const sliceVoxels = new Int32Array(nz);
-  const starts: number[] = [], ends: number[] = [];
   const sliceFirstRun = new Int32Array(nz + 1);
-  let m = 0;
-  for (let z = 0; z < nz; z++) {
-    sliceFirstRun[z] = starts.length;
-    const end = (z + 1) * nxy;
-    for (let v = z * nxy; v < end;) {
-      if (!mask[v]) { v++; continue; }
-      const a = v;
-      while (v < end && mask[v]) v++;
-      starts.push(a); ends.push(v);
-      sliceVoxels[z] += v - a;
-    }
-    m += sliceVoxels[z];
-  }
-  sliceFirstRun[nz] = starts.length;
+  const found = maskRuns(mask, nx * ny, nz, sliceVoxels, sliceFirstRun);
+  const m = sliceVoxels.reduce((a, b) => a + b, 0);
   if (m === 0) fail('INVALID_ARGUMENT', 'the mask is empty');
-  const runStart = Int32Array.from(starts), runEnd = Int32Array.from(ends);
+  const runStart = found.start, runEnd = found.end;
   const sliceSum = new Float64Array(nz * nt);
   const d2 = new Float64Array(nt);
   const data = run.data;
@@ -136,4 +122,30 @@ function sumOneVolume(data: Float32Array, n: number, nt: number, t: number, slic
     sliceSum[z * nt + t] = s0;
   }
   d2[t] = e0;
+}
+
+/**
+ * Maximal runs of consecutive mask voxels within each slice: run r covers start[r]..end[r]-1, slice z
+ * holds runs sliceFirstRun[z]..sliceFirstRun[z+1]-1 and sliceVoxels[z] mask voxels.
+ */
+function maskRuns(mask: ArrayLike<number>, nxy: number, nz: number, sliceVoxels: Int32Array, sliceFirstRun: Int32Array): { start: Int32Array; end: Int32Array } {
+  let start = new Int32Array(1024), end = new Int32Array(1024);
+  let runs = 0;
+  for (let z = 0; z < nz; z++) {
+    sliceFirstRun[z] = runs;
+    const last = (z + 1) * nxy;
+    for (let v = z * nxy; v < last;) {
+      if (!mask[v]) { v++; continue; }
+      const a = v;
+      while (v < last && mask[v]) v++;
+      if (runs === start.length) {
+        const s2 = new Int32Array(2 * runs), e2 = new Int32Array(2 * runs);
+        s2.set(start); e2.set(end); start = s2; end = e2;
+      }
+      start[runs] = a; end[runs] = v; runs++;
+      sliceVoxels[z] += v - a;
+    }
+  }
+  sliceFirstRun[nz] = runs;
+  return { start: start.subarray(0, runs), end: end.subarray(0, runs) };
 }
