@@ -121,8 +121,7 @@ export function keptVolumeStats(run: Volume, sums: RunTimeSums, options: { first
   const mean = new Float32Array(n), sd = new Float32Array(n), tsnr = new Float32Array(n), lag1 = new Float32Array(n);
   const fit = Array.from({ length: p }, () => new Float64Array(n));
   const m = options.mask ?? null;
-  let maskCount = n;
-  if (m) { maskCount = 0; for (let v = 0; v < n; v++) if (m[v]) maskCount++; }
+  const maskCount = m ? countNonzero(m) : n;
   const bounds = { voxels: new Int32Array(maskCount), lower: new Float64Array(maskCount), upper: new Float64Array(maskCount), count: 0 };
   const outMaps: OutMaps = { mean, sd, tsnr, lag1, fit, unsummed: new Int32Array(maskCount + 1), bounds };
   // in chunks: the loops stay small functions that V8 optimises once and keeps across calls; the default
@@ -138,6 +137,13 @@ export function keptVolumeStats(run: Volume, sums: RunTimeSums, options: { first
   const c = bounds.count;
   const residualBounds = { voxels: bounds.voxels.subarray(0, c), lower: bounds.lower.subarray(0, c), upper: bounds.upper.subarray(0, c) };
   return { mean, sd, tsnr, lag1, fit, residualBounds, firstVolume, keptVolumes: kept, usedVolumes: T, detrendOrder: p - 1, ddof: p };
+}
+
+/** Nonzero entries (its own small function, so the count over all voxels runs optimised). */
+function countNonzero(mask: ArrayLike<number>): number {
+  let c = 0;
+  for (let v = 0; v < mask.length; v++) if (mask[v]) c++;
+  return c;
 }
 
 /** Fixed quantities of the correction, shared by every voxel. */

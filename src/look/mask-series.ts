@@ -46,11 +46,7 @@ export function maskSeries(run: Volume, mask: ArrayLike<number>, options: { minS
   const d2 = new Float64Array(nt);
   const data = run.data;
   // volume 0 (no DVARS), then four volumes per sweep
-  for (let z = 0; z < nz; z++) {
-    let s = 0;
-    for (let r = sliceFirstRun[z]; r < sliceFirstRun[z + 1]; r++) for (let v = runStart[r], e = runEnd[r]; v < e; v++) s += data[v];
-    sliceSum[z * nt] = s;
-  }
+  sumFirstVolume(data, nt, sliceFirstRun, runStart, runEnd, sliceSum);
   let t = 1;
   for (; t + 4 <= nt; t += 4) sumFourVolumes(data, n, nt, t, sliceFirstRun, runStart, runEnd, sliceSum, d2);
   for (; t < nt; t++) sumOneVolume(data, n, nt, t, sliceFirstRun, runStart, runEnd, sliceSum, d2);
@@ -104,6 +100,16 @@ function sliceFourVolumes(data: Float32Array, b0: number, n: number, r0: number,
     }
   }
   acc[0] = s0; acc[1] = s1; acc[2] = s2; acc[3] = s3; acc[4] = e0; acc[5] = e1; acc[6] = e2; acc[7] = e3;
+}
+
+/** Slice sums of volume 0. */
+function sumFirstVolume(data: Float32Array, nt: number, sliceFirstRun: Int32Array, runStart: Int32Array, runEnd: Int32Array, sliceSum: Float64Array): void {
+  const nz = sliceFirstRun.length - 1;
+  for (let z = 0; z < nz; z++) {
+    let s = 0;
+    for (let r = sliceFirstRun[z]; r < sliceFirstRun[z + 1]; r++) for (let v = runStart[r], e = runEnd[r]; v < e; v++) s += data[v];
+    sliceSum[z * nt] = s;
+  }
 }
 
 /** As sumFourVolumes for the single volume t (t >= 1). */

@@ -74,29 +74,16 @@ export function otsuFromHistogram(counts: ArrayLike<number>, edges: ArrayLike<nu
  */
 export function histogramOf(values: ArrayLike<number>, bins = 256, mask?: ArrayLike<number>): { counts: Float64Array; edges: Float64Array } {
   if (!Number.isInteger(bins) || bins < 2) fail('INVALID_ARGUMENT', `bins must be an integer >= 2, got ${bins}`);
-  let lo = Infinity, hi = -Infinity;
-  for (let i = 0; i < values.length; i++) {
-    if (mask && !mask[i]) continue;
-    const v = values[i];
-    if (!Number.isFinite(v)) continue;
-    if (v < lo) lo = v;
-    if (v > hi) hi = v;
-  }
+  const range = new Float64Array(2);
+  finiteRange(values, mask, range);
+  const lo = range[0], hi = range[1];
   if (!(hi > lo)) fail('CONSTANT_DATA', `the image has ${lo === Infinity ? 'no finite values' : `a single value (${lo})`}, so no intensity threshold exists`);
   const edges = new Float64Array(bins + 1);
   const width = (hi - lo) / bins;
   for (let i = 0; i <= bins; i++) edges[i] = lo + i * width;
   edges[bins] = hi;
   const counts = new Float64Array(bins);
-  const scale = bins / (hi - lo);
-  for (let i = 0; i < values.length; i++) {
-    if (mask && !mask[i]) continue;
-    const v = values[i];
-    if (!Number.isFinite(v)) continue;
-    let b = Math.floor((v - lo) * scale);
-    if (b >= bins) b = bins - 1;
-    counts[b]++;
-  }
+  countIntoBins(values, mask, lo, bins / (hi - lo), counts);
   return { counts, edges };
 }
 
@@ -111,4 +98,33 @@ export function histogramOf(values: ArrayLike<number>, bins = 256, mask?: ArrayL
 export function otsuThreshold(values: ArrayLike<number>, bins = 256, mask?: ArrayLike<number>): OtsuResult {
   const { counts, edges } = histogramOf(values, bins, mask);
   return otsuFromHistogram(counts, edges);
+}
+
+// The loops over all values live in small functions, which V8 optimises once and keeps (the histogram
+// is made once per look: as part of one long function its loops ran unoptimised at first).
+
+/** out = [min, max] of the finite values (inside the mask). */
+function finiteRange(values: ArrayLike<number>, mask: ArrayLike<number> | undefined, out: Float64Array): void {
+  let lo = Infinity, hi = -Infinity;
+  for (let i = 0; i < values.length; i++) {
+    if (mask && !mask[i]) continue;
+    const v = values[i];
+    if (!Number.isFinite(v)) continue;
+    if (v < lo) lo = v;
+    if (v > hi) hi = v;
+  }
+  out[0] = lo; out[1] = hi;
+}
+
+/** counts[floor((v - lo) * scale)] += 1 for the finite values (inside the mask); the top edge goes to the last bin. */
+function countIntoBins(values: ArrayLike<number>, mask: ArrayLike<number> | undefined, lo: number, scale: number, counts: Float64Array): void {
+  const bins = counts.length;
+  for (let i = 0; i < values.length; i++) {
+    if (mask && !mask[i]) continue;
+    const v = values[i];
+    if (!Number.isFinite(v)) continue;
+    let b = Math.floor((v - lo) * scale);
+    if (b >= bins) b = bins - 1;
+    counts[b]++;
+  }
 }

@@ -14,6 +14,15 @@ import { fail } from '../core/fail.js';
  */
 export function dvarsNullExpectation(sd: ArrayLike<number>, lag1: ArrayLike<number>, mask?: ArrayLike<number>): number {
   if (sd.length !== lag1.length) fail('INVALID_ARGUMENT', `sd and lag1 lengths differ (${sd.length} vs ${lag1.length})`);
+  const acc = new Float64Array(2);
+  sumNullTerms(sd, lag1, mask, acc);
+  const sum = acc[0], count = acc[1];
+  if (count === 0 || !(sum > 0)) fail('CONSTANT_DATA', 'no voxel in the mask varies over time, so DVARS has no null expectation');
+  return sum / count;
+}
+
+/** acc = [sum of 2 sd^2 (1 - lag1), count] over the finite voxels in the mask (a small function V8 optimises once). */
+function sumNullTerms(sd: ArrayLike<number>, lag1: ArrayLike<number>, mask: ArrayLike<number> | undefined, acc: Float64Array): void {
   let sum = 0, count = 0;
   for (let i = 0; i < sd.length; i++) {
     if (mask && !mask[i]) continue;
@@ -22,8 +31,7 @@ export function dvarsNullExpectation(sd: ArrayLike<number>, lag1: ArrayLike<numb
     sum += 2 * s * s * (1 - r);
     count++;
   }
-  if (count === 0 || !(sum > 0)) fail('CONSTANT_DATA', 'no voxel in the mask varies over time, so DVARS has no null expectation');
-  return sum / count;
+  acc[0] = sum; acc[1] = count;
 }
 
 /**
