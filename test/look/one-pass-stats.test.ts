@@ -1,12 +1,14 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { diagonalAffine } from '../../src/core/affine.js';
+import { isBoldsweepError } from '../../src/core/errors.js';
 import { createRng } from '../../src/core/random.js';
 import { makeVolume, type Volume } from '../../src/core/volume.js';
 import { keptVolumeStats } from '../../src/look/kept-volume-stats.js';
 import { runTimeSums } from '../../src/look/run-time-sums.js';
 import { screenSpikeVoxels } from '../../src/look/spike-screen.js';
 import { voxelTimeStats } from '../../src/look/voxel-time-stats.js';
+import { voxelSums } from '../../src/look/voxel-sums.js';
 
 // Fixture: test/reference/make_time_stats_fixture.py, the plain two-pass statistics computed with
 // numpy (numpy.linalg.lstsq fit of a Legendre polynomial over the kept volumes, then residual sums).
@@ -115,5 +117,37 @@ describe('one-pass time statistics on a run of several kernel blocks', () => {
       expect(got).toContain(12345);
       expect(got).toContain(20001);
     }
+  });
+});
+
+describe('one-pass time statistics on bad input', () => {
+  const code = (fn: () => unknown): string => {
+    try { fn(); } catch (e) { expect(isBoldsweepError(e), String(e)).toBe(true); return (e as { code: string }).code; }
+    throw new Error('nothing was thrown');
+  };
+
+  it('refuses sums of another run, a first volume outside the run and too few kept volumes', () => {
+    const sums = runTimeSums(fixtureRun);
+    const other = makeVolume({ dims: [2, 2, 2, nt], spacingMm: [3, 3, 3], trSec: 2, affine: diagonalAffine([3, 3, 3]), data: new Float32Array(8 * nt) });
+    expect(code(() => keptVolumeStats(other, sums))).toBe('INVALID_ARGUMENT');
+    expect(code(() => keptVolumeStats(fixtureRun, sums, { firstVolume: nt }))).toBe('INVALID_ARGUMENT');
+    expect(code(() => keptVolumeStats(fixtureRun, sums, { firstVolume: nt - 3 }))).toBe('TOO_FEW_VOLUMES');
+    expect(code(() => runTimeSums(makeVolume({ ...other, dims: [2, 2, 2, 1], data: new Float32Array(8) })))).toBe('NOT_4D');
+  });
+
+  it('refuses a plan whose rows, weights or fit start do not fit the run', () => {
+    const weights = new Float64Array(3);
+    expect(code(() => voxelSums(fixtureRun, { rows: [0, 1, nt], fitStart: 0, terms: 1, weights, mode: 'exact' }))).toBe('INVALID_ARGUMENT');
+    expect(code(() => voxelSums(fixtureRun, { rows: [0, 1, 2], fitStart: 3, terms: 1, weights, mode: 'exact' }))).toBe('INVALID_ARGUMENT');
+    expect(code(() => voxelSums(fixtureRun, { rows: [0, 1, 2], fitStart: 0, terms: 2, weights, mode: 'exact' }))).toBe('INVALID_ARGUMENT');
+    expect(code(() => voxelSums(fixtureRun, { rows: [0, 1, 2], fitStart: 0, terms: 1, weights, mode: 'look' }))).toBe('INVALID_ARGUMENT'); // no matrices
+  });
+
+  it('does not modify the run', () => {
+    const before = Float32Array.from(fixtureRun.data);
+    const sums = runTimeSums(fixtureRun, { detrendOrder: 2 });
+    keptVolumeStats(fixtureRun, sums, { firstVolume: 3, censorVolumes: [20] });
+    voxelTimeStats(fixtureRun, { firstVolume: 3 });
+    expect(fixtureRun.data).toEqual(before);
   });
 });
