@@ -8,7 +8,7 @@ import { summariseInMask, type MapSummary } from './map-summary.js';
 import { keptVolumeStats } from './kept-volume-stats.js';
 import { maskSeries } from './mask-series.js';
 import { otsuThreshold } from './otsu-threshold.js';
-import { runTimeSums } from './run-time-sums.js';
+import { runTimeSums, type RunTimeSums } from './run-time-sums.js';
 import { sliceOutliers, type SliceOutliers } from './slice-outliers.js';
 import { dvarsNullExpectation, standardisedDvars } from './standardised-dvars.js';
 import { GREY_MATTER_T1_SEC_3T, steadyStateExcess, steadyStateModelCount } from './steady-state-model.js';
@@ -139,7 +139,7 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
   // 1. one streamed read: whole-run sums (phases 3 and 5 subtract what they leave out), then the mask
   const h = Math.min(5, Math.floor(nt / 10)); // the per-voxel steady-state reference starts here
   const fitFrom = Math.max(0, Math.min(h, nt - detrendOrder - 2));
-  const sums = runTimeSums(run, { detrendOrder, fitFrom, residualsAbove: backgroundLevel(run, fitFrom) });
+  const sums = runTimeSums(run, { detrendOrder, fitFrom, residualsAbove: backgroundLevel(run, fitFrom), reuse: takeSpareSums() });
   const meanAll = sums.meanAll;
   const nonFinite = new Uint8Array(n);
   const nonFiniteCount = markNonFinite(meanAll, nonFinite);
@@ -271,7 +271,7 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
   if (drop > 0) why.push(`drop ${drop}: ${auto ? `steady state reached at volume ${drop} (global mean: ${onset.count}${modelCount !== null ? `, grey-matter model: ${modelCount}` : ''}${perVoxel ? `, per-voxel model: ${perVoxel.count}` : ''})` : 'as requested'}`);
   if (censorVolumes.length) why.push(`censor ${describeVolumes(censorVolumes)}: flagged by DVARS, global mean, slice means or many simultaneous spikes`);
 
-  return {
+  const result: LookResult = {
     maps, summaries, mask,
     series: {
       globalMean: traces.globalMean, dvars: traces.dvars, dvarsPercent, dvarsStandardised: dvarsStd, dvarsNullExpectation: nullE,
@@ -285,6 +285,22 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
     settings: { detrendOrder, volumeCutoffZ, sliceCutoffZ, spikeCutoffZ, steadyCutoffZ, t1Sec: model?.t1Sec ?? options.t1Sec ?? GREY_MATTER_T1_SEC_3T, maxSpikeFindings, dropInitialVolumes: options.dropInitialVolumes ?? 'auto', ddof: stats.ddof, maskSource: mask.source },
     dims: [nx, ny, nz, nt], trSec,
   };
+  spareSums = sums; // nothing returned above refers to the sums' arrays
+  return result;
+}
+
+/**
+ * The whole-run sums of the previous look, whose ~13 MB of arrays (for a 64 x 64 x 36 grid) the next
+ * look of a grid of that size overwrites instead of taking fresh memory: first touches of fresh pages
+ * and the garbage collections they bring cost more than the arithmetic on them. Kept until the next
+ * look; taken (set to null) while a look uses them.
+ */
+let spareSums: RunTimeSums | null = null;
+
+function takeSpareSums(): RunTimeSums | undefined {
+  const s = spareSums;
+  spareSums = null;
+  return s ?? undefined;
 }
 
 /**

@@ -50,12 +50,13 @@ export interface RunTimeSums {
  * @param options - detrendOrder (default 2); fitFrom: first volume of the drift fit (default
  *   min(5, floor(nt / 10)): past a typical non-steady start, and the steady reference of the per-voxel
  *   steady-state check, whose mean shift + fit[0] then is); residualsAbove: skip the residual extremes
- *   of voxels whose mean is below this (background; default -Infinity: none skipped)
+ *   of voxels whose mean is below this (background; default -Infinity: none skipped); reuse: sums of an
+ *   earlier call whose arrays may be overwritten (same grid and order), to spare fresh memory
  * @returns the sums
  * @throws BoldsweepError NOT_4D for a single volume; TOO_FEW_VOLUMES when the fit volumes are too few for the order
  * @example const sums = runTimeSums(run.volume); const mean = sums.meanAll
  */
-export function runTimeSums(run: Volume, options: { detrendOrder?: number; fitFrom?: number; residualsAbove?: number } = {}): RunTimeSums {
+export function runTimeSums(run: Volume, options: { detrendOrder?: number; fitFrom?: number; residualsAbove?: number; reuse?: RunTimeSums } = {}): RunTimeSums {
   const nt = run.dims[3];
   if (nt < 2) fail('NOT_4D', `temporal sums need a 4D run, got ${nt} volume`);
   const detrendOrder = options.detrendOrder ?? 2;
@@ -73,9 +74,11 @@ export function runTimeSums(run: Volume, options: { detrendOrder?: number; fitFr
   const matrices = new Float64Array(4 * p * p);
   if (p <= MAX_CUMULATIVE_TERMS) matrices.set(runningSumMaps(basis, fitFrom));
   matrices.set(forwardDifferenceMap(basis, fitFrom), 3 * p * p);
-  const s = voxelSums(run, { rows, fitStart: fitFrom, terms: p, weights, mode: 'look', residualsAbove: options.residualsAbove, matrices });
+  const old = options.reuse && options.reuse.terms === p ? options.reuse : null;
+  const reuse = old ? [old.shift, old.sum, old.sumSquares, ...old.moments.slice(1), ...old.fit, old.residualAbsMax, old.residualLag] : undefined;
+  const s = voxelSums(run, { rows, fitStart: fitFrom, terms: p, weights, mode: 'look', residualsAbove: options.residualsAbove, matrices }, reuse);
   const n = voxelsPerVolume(run);
-  const meanAll = meanFromSums(s.shift, s.S, nt, new Float64Array(n));
+  const meanAll = meanFromSums(s.shift, s.S, nt, old && old.meanAll.length === n ? old.meanAll : new Float64Array(n));
   const moments = [s.S];
   for (let k = 1; k < p; k++) moments.push(s[`M${k}`]);
   const fit: Float64Array[] = [];

@@ -35,11 +35,13 @@ const BLOCK_BYTES = 4 * 1024 * 1024;
  * memory, where the kernel sums them. The run is read once and not modified.
  * @param run - the run
  * @param plan - rows, fit rows, drift weights and mode
+ * @param reuse - optional arrays to write the outputs into (one of nx*ny*nz values per output name, in
+ *   order; used when they fit), which spares fresh memory for callers that repeat the sums
  * @returns one Float64Array of nx*ny*nz values per output name (lookSumNames / exactSumNames order)
  * @throws BoldsweepError INVALID_ARGUMENT when the plan does not fit the run
  * @example const s = voxelSums(run, { rows: [0, 1, 2], fitStart: 0, terms: 1, weights: new Float64Array([0, 1, 1]), mode: 'exact' })
  */
-export function voxelSums(run: Volume, plan: VoxelSumsPlan): Record<string, Float64Array> {
+export function voxelSums(run: Volume, plan: VoxelSumsPlan, reuse?: readonly Float64Array[]): Record<string, Float64Array> {
   const n = voxelsPerVolume(run);
   const nt = run.dims[3];
   const R = plan.rows.length;
@@ -68,7 +70,7 @@ export function voxelSums(run: Volume, plan: VoxelSumsPlan): Record<string, Floa
   const matsAt = align16(8 * R * p);
   f64.set(mats, matsAt >> 3);
   const outAt = wBytes, srcAt = wBytes + outBytes;
-  const out = names.map(() => new Float64Array(n));
+  const out = reuse && reuse.length === names.length && reuse.every((a) => a.length === n) ? [...reuse] : names.map(() => new Float64Array(n));
   const data = run.data;
   const src4 = srcAt >> 2, out8 = outAt >> 3;
   const rows = Int32Array.from(plan.rows);
