@@ -50,3 +50,30 @@ export function parameterLabel(key: string): string {
  * @example unitOf('highpass.cutoffSec') // 's'
  */
 export const unitOf = parameterUnit;
+
+/**
+ * An axis title that fits beside a chart: labels longer than 28 characters are split before their
+ * parenthesis onto two lines (headless vega estimates text widths generously, and an over-long
+ * rotated title pushes the plot away from its own title).
+ * @param label - e.g. 'Hit rate (fraction of planted voxels detected)'
+ * @returns one line, or two as an array
+ * @example axisTitle('Hit rate (fraction of planted voxels detected)') // ['Hit rate', '(fraction of planted voxels detected)']
+ */
+export function axisTitle(label: string): string | string[] {
+  if (label.length <= 28) return label;
+  const i = label.indexOf(' (');
+  return i > 0 ? [label.slice(0, i), label.slice(i + 1)] : label;
+}
+
+/**
+ * The range a metric can take, so intervals can be drawn and listed within it (a t-interval of a
+ * rate can pass 1, one of a count can pass 0).
+ * @param metric - scorecard column
+ * @returns [low, high] (infinite where unbounded)
+ * @example metricRange('hitRate') // [0, 1]
+ */
+export function metricRange(metric: string): [number, number] {
+  if (/Rate$|^familyWiseError$|^falseDiscoveryProportion$|^dice$|^rocAuc$/.test(metric)) return [0, 1];
+  if (/Voxels$|^falseClusters$|^clusters$|^blobs|^tsnrMedian$|^smoothness|FwhmMm$|Mm$/.test(metric) && !/Bias/.test(metric)) return [0, Infinity];
+  return [-Infinity, Infinity];
+}

@@ -1,7 +1,7 @@
 import type { TopLevelSpec } from 'vega-lite';
 import type { Scorecard } from '../sweep/scorecard.js';
 import { chartPoints } from './chart-data.js';
-import { metricLabel, parameterLabel } from './chart-labels.js';
+import { axisTitle, metricLabel, metricRange, parameterLabel } from './chart-labels.js';
 import { CHART_CONFIG, CHART_HEIGHT, CHART_WIDTH, SIZE_SCHEME } from './chart-style.js';
 
 /** Options of {@link metricChart}. */
@@ -32,23 +32,23 @@ export interface MetricChartOptions {
  */
 export function metricChart(card: Scorecard, metric: string, options: MetricChartOptions = {}): TopLevelSpec {
   const key = options.x ?? card.varied[0];
-  let points = chartPoints(card, metric, key);
-  // with a fixed y range, intervals are drawn cut at its ends (a rate's t-interval can pass 0 or 1)
-  if (options.yDomain) {
-    const [lo, hi] = options.yDomain;
-    const cut = (v: number | null) => (v === null ? v : Math.min(hi, Math.max(lo, v)));
-    points = points.map((p) => ({ ...p, low: cut(p.low), high: cut(p.high) }));
-  }
+  // intervals are drawn cut at the metric's possible range and at a fixed y range (a rate's
+  // t-interval can pass 1, a count's can pass 0)
+  const [rlo, rhi] = metricRange(metric);
+  const lo = Math.max(rlo, options.yDomain ? options.yDomain[0] : -Infinity);
+  const hi = Math.min(rhi, options.yDomain ? options.yDomain[1] : Infinity);
+  const cut = (v: number | null) => (v === null ? v : Math.min(hi, Math.max(lo, v)));
+  const points = chartPoints(card, metric, key).map((p) => ({ ...p, low: cut(p.low), high: cut(p.high) }));
   const numeric = points.every((p) => typeof p.x === 'number');
   const xTitle = key ? parameterLabel(key) : 'recipe';
   const x = numeric
     ? { field: 'x', type: 'quantitative' as const, title: xTitle, scale: { zero: false } }
     : { field: 'x', type: 'ordinal' as const, title: xTitle, sort: { field: 'order' } };
-  const y = { field: 'mean', type: 'quantitative' as const, title: metricLabel(metric), ...(options.yDomain ? { scale: { domain: options.yDomain } } : {}) };
+  const y = { field: 'mean', type: 'quantitative' as const, title: axisTitle(metricLabel(metric)), ...(options.yDomain ? { scale: { domain: options.yDomain } } : {}) };
   const color = { field: 'plant', type: 'ordinal' as const, title: 'Planted', sort: { field: 'plantSizeMm' }, scale: { scheme: { name: SIZE_SCHEME, extent: [0.05, 0.8] } } };
   const layers: object[] = [];
   if (numeric) layers.push({ mark: { type: 'area', opacity: 0.15, clip: true }, encoding: { x, y: { field: 'low', type: 'quantitative' }, y2: { field: 'high' }, color } });
-  layers.push({ mark: { type: 'rule', strokeWidth: 1.5, clip: true }, encoding: { x, y: { field: 'low', type: 'quantitative', title: metricLabel(metric) }, y2: { field: 'high' }, color } });
+  layers.push({ mark: { type: 'rule', strokeWidth: 1.5, clip: true }, encoding: { x, y: { field: 'low', type: 'quantitative', title: axisTitle(metricLabel(metric)) }, y2: { field: 'high' }, color } });
   layers.push({
     mark: { type: 'line', point: { filled: true, size: 40 }, strokeWidth: 2 },
     encoding: {

@@ -2,7 +2,7 @@ import type { TopLevelSpec } from 'vega-lite';
 import type { CurveTable } from '../sweep/curve-table.js';
 import type { Scorecard } from '../sweep/scorecard.js';
 import { plantLabel } from './chart-data.js';
-import { parameterLabel } from './chart-labels.js';
+import { axisTitle, parameterLabel } from './chart-labels.js';
 import { CHART_CONFIG, CHART_HEIGHT, CHART_WIDTH, SETTING_SCHEME } from './chart-style.js';
 import { settingLabel } from '../sweep/settings-grid.js';
 import { rowSetting } from '../sweep/scorecard.js';
@@ -41,7 +41,7 @@ export function rocChart(card: Scorecard, curves: CurveTable, options: { title?:
     mark: { type: 'line', point: { size: 18 }, strokeWidth: 1.6 },
     encoding: {
       x: { field: 'fpr', type: 'quantitative', scale: { type: 'log' }, title: 'False-positive rate (fraction of non-planted voxels, log scale)' },
-      y: { field: 'tpr', type: 'quantitative', scale: { domain: [0, 1] }, title: 'True-positive rate (fraction of planted voxels)' },
+      y: { field: 'tpr', type: 'quantitative', scale: { domain: [0, 1] }, title: axisTitle('True-positive rate (fraction of planted voxels)') },
       color: { field: 'setting', type: 'ordinal', sort: { field: 'order' }, title: legend, scale: { scheme: { name: SETTING_SCHEME, extent: [0, 0.85] } } },
       detail: { field: 'setting' },
       tooltip: [{ field: 'setting', title: legend }, { field: 'fpr', format: '.4f' }, { field: 'tpr', format: '.3f' }],

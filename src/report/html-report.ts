@@ -3,7 +3,7 @@ import type { SettingSummary } from '../sweep/summarise-scorecard.js';
 import { settingText } from '../sweep/settings-grid.js';
 import { RESEARCH_CAUTION } from './caution.js';
 import { escapeHtml } from './html-escape.js';
-import { metricLabel } from './chart-labels.js';
+import { metricLabel, metricRange } from './chart-labels.js';
 import type { MethodsText } from './methods-text.js';
 
 /** One chart of the report: rendered SVG and a caption saying what it shows. */
@@ -46,7 +46,10 @@ function summaryTable(parts: ReportParts): string {
       String(s.repeats),
       ...parts.tableMetrics.map((m) => {
         const v = s.metrics[m];
-        return v ? `${fmt(v.mean)} <span class="ci">[${fmt(v.low)}, ${fmt(v.high)}]</span>` : 'n/a';
+        // the interval is listed within the metric's possible range (a count's t-interval can pass 0)
+        const [lo, hi] = metricRange(m);
+        const cut = (x: number) => (Number.isFinite(x) ? Math.min(hi, Math.max(lo, x)) : x);
+        return v ? `${fmt(v.mean)} <span class="ci">[${fmt(cut(v.low))}, ${fmt(cut(v.high))}]</span>` : 'n/a';
       }),
     ];
     return `<tr${isChoice ? ' class="chosen"' : ''}>${cells.map((c, i) => `<td>${i < 3 ? escapeHtml(c) : c}</td>`).join('')}</tr>`;
@@ -108,7 +111,7 @@ ${perPlant}
 ${charts}
 
 <h2>Scorecard summary</h2>
-<p class="meta">Mean across repeats with 95 % t-interval [low, high]. One row per setting and planted condition; the full table, one row per repeat, is in scorecard.tsv.</p>
+<p class="meta">Mean across repeats with 95 % t-interval [low, high], cut at the metric's possible range. One row per setting and planted condition; the full table, one row per repeat, is in scorecard.tsv.</p>
 ${summaryTable(parts)}
 
 <h2>Methods</h2>
