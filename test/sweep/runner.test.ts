@@ -7,6 +7,8 @@ import { gatherResults } from '../../src/sweep/gather.js';
 import { parseSweepSpec } from '../../src/sweep/parse-sweep-spec.js';
 import { runSweep, type SweepResult } from '../../src/sweep/runner.js';
 import { scorecardToTsv, readScorecardTsv, timingsToTsv } from '../../src/sweep/scorecard-tsv.js';
+import { scorecardFrame } from '../../src/sweep/scorecard-frame.js';
+import { scorecardColumns } from '../../src/sweep/scorecard.js';
 import type { SweepSpecInput } from '../../src/sweep/spec.js';
 import { smallPhantom } from './sweep-test-runs.js';
 
@@ -83,6 +85,13 @@ describe('runSweep', () => {
     expect(scorecardToTsv(whole.scorecard)).toBe(scorecardToTsv(one.scorecard));
     expect(await codeOf(async () => gatherResults([a]))).toBe('INVALID_ARGUMENT');
     expect(await codeOf(async () => gatherResults([a, a]))).toBe('INVALID_ARGUMENT');
+  });
+
+  it('gives the scorecard as a danfo.js DataFrame with the seconds each cell took', async () => {
+    const df = await scorecardFrame(one.scorecard);
+    expect(df.shape).toEqual([4, scorecardColumns(one.scorecard).length + 1]);
+    expect(df.columns).toContain('seconds');
+    expect(df.column('hitRate').values).toEqual(one.scorecard.rows.map((r) => r.hitRate));
   });
 
   it('round-trips the scorecard through TSV exactly', () => {
