@@ -46,6 +46,7 @@
  * twice as long afterwards, measured in Node 20).
  */
 import { fail } from '../core/fail.js';
+import { section, simdOp, sleb, uleb, vec, wasmName } from '../core/wasm-encoding.js';
 
 /** The part of WebAssembly.Memory used here (the project's TypeScript lib has no WebAssembly types). */
 export interface SumsMemory {
@@ -113,36 +114,14 @@ function range(from: number, to: number): number[] {
 }
 
 // ---- encoding (WebAssembly core 2.0 with fixed-width SIMD) ----
-function uleb(n: number): number[] {
-  const out: number[] = [];
-  do {
-    let b = n & 0x7f;
-    n >>>= 7;
-    if (n !== 0) b |= 0x80;
-    out.push(b);
-  } while (n !== 0);
-  return out;
-}
-function sleb(n: number): number[] {
-  const out: number[] = [];
-  for (;;) {
-    const b = n & 0x7f;
-    n >>= 7;
-    if ((n === 0 && (b & 0x40) === 0) || (n === -1 && (b & 0x40) !== 0)) { out.push(b); return out; }
-    out.push(b | 0x80);
-  }
-}
-const vec = (items: number[][]): number[] => [...uleb(items.length), ...items.flat()];
-const section = (id: number, body: number[]): number[] => [id, ...uleb(body.length), ...body];
-const name = (s: string): number[] => [...uleb(s.length), ...Array.from(s, (c) => c.charCodeAt(0))];
-
+const name = wasmName;
 const get = (l: number): number[] => [0x20, ...uleb(l)];
 const set = (l: number): number[] => [0x21, ...uleb(l)];
 const i32 = (n: number): number[] => [0x41, ...sleb(n)];
 const I32_ADD = 0x6a, I32_MUL = 0x6c, I32_SUB = 0x6b, I32_SHL = 0x74, I32_GE_U = 0x4f, I32_GT_U = 0x4b;
 const F64_CONVERT_I32_S = 0xb7;
 const BLOCK = 0x02, LOOP = 0x03, IF = 0x04, ELSE = 0x05, END = 0x0b, BR = 0x0c, BR_IF = 0x0d, VOID = 0x40;
-const simd = (op: number, ...imm: number[]): number[] => [0xfd, ...uleb(op), ...imm];
+const simd = simdOp;
 const LOAD64_ZERO = (offset: number): number[] => simd(0x5d, 3, ...uleb(offset));
 const LOAD64_SPLAT = (offset: number): number[] => simd(0x0a, 3, ...uleb(offset));
 const STORE = (offset: number): number[] => simd(0x0b, 4, ...uleb(offset));

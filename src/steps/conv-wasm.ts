@@ -1,4 +1,5 @@
 import { fail } from '../core/fail.js';
+import { section, simdOp, sleb, uleb, vec, wasmName } from '../core/wasm-encoding.js';
 
 /**
  * A symmetric 1-D convolution kernel compiled to WebAssembly SIMD (two Float64 lanes), generated
@@ -42,29 +43,8 @@ const OP = {
 const SIMD = { v128Load: 0x00, v128Store: 0x0b, f64x2Splat: 0x14, f64x2Add: 0xf0, f64x2Mul: 0xf2 } as const;
 const T = { i32: 0x7f, f64: 0x7c, v128: 0x7b, func: 0x60 } as const;
 
-function uleb(n: number): number[] {
-  const out: number[] = [];
-  do {
-    let b = n & 0x7f;
-    n >>>= 7;
-    if (n !== 0) b |= 0x80;
-    out.push(b);
-  } while (n !== 0);
-  return out;
-}
-function sleb(n: number): number[] {
-  const out: number[] = [];
-  for (;;) {
-    const b = n & 0x7f;
-    n >>= 7;
-    if ((n === 0 && (b & 0x40) === 0) || (n === -1 && (b & 0x40) !== 0)) { out.push(b); return out; }
-    out.push(b | 0x80);
-  }
-}
-const str = (s: string): number[] => [...uleb(s.length), ...Array.from(s, (c) => c.charCodeAt(0))];
-const section = (id: number, body: number[]): number[] => [id, ...uleb(body.length), ...body];
-const vec = (items: number[][]): number[] => [...uleb(items.length), ...items.flat()];
-const simd = (op: number, ...rest: number[]): number[] => [OP.simd, ...uleb(op), ...rest];
+const str = wasmName;
+const simd = simdOp;
 
 /** Body of conv for radius r (see {@link ConvKernels}). */
 function convBody(r: number): number[] {
