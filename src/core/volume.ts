@@ -62,7 +62,7 @@ export function volumeLike(like: Volume, nt = 1, data?: Float32Array): Volume {
   return makeVolume({
     dims: [like.dims[0], like.dims[1], like.dims[2], nt],
     spacingMm: [...like.spacingMm],
-    trSec: nt > 1 ? like.trSec : like.trSec,
+    trSec: like.trSec,
     affine: new Float64Array(like.affine),
     data: data ?? new Float32Array(n),
   });

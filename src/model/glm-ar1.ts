@@ -1,9 +1,9 @@
 import { fail } from '../core/fail.js';
-import { makeVolume, voxelsPerVolume, type Volume } from '../core/volume.js';
+import { volumeLike, voxelsPerVolume, type Volume } from '../core/volume.js';
 import { ar1BiasTraces, correctAr1 } from './ar1.js';
 import { designPseudoInverse, type DesignMatrix } from './design-matrix.js';
 import { checkRunAndDesign, fittedVoxels, gridOf, type GlmFit, type GlmOptions } from './glm-fit.js';
-import { sweepVoxels } from './glm-kernel.js';
+import { sweepVoxels, transposeToTimeMajor } from './glm-kernel.js';
 
 /** Options for {@link fitGlmAr1}. */
 export interface GlmAr1Options extends GlmOptions {
@@ -117,13 +117,6 @@ export function fitGlmAr1(run: Volume, design: DesignMatrix, options: GlmAr1Opti
     covUnscaled: cov,
     group,
     rho,
-    residuals: residuals ? makeVolume({ dims: [...run.dims], spacingMm: [...run.spacingMm], trSec: run.trSec, affine: new Float64Array(run.affine), data: residuals }) : null,
+    residuals: residuals ? volumeLike(run, nt, residuals) : null,
   };
-}
-
-/** Row-major p x nt -> t-major nt x p. */
-function transposeToTimeMajor(a: Float64Array, p: number, nt: number): Float64Array {
-  const out = new Float64Array(nt * p);
-  for (let j = 0; j < p; j++) for (let t = 0; t < nt; t++) out[t * p + j] = a[j * nt + t];
-  return out;
 }

@@ -293,3 +293,17 @@ function sumSquares(e: Float64Array, nt: number): number {
   for (let t = 0; t < nt; t++) acc += e[t] * e[t];
   return acc;
 }
+
+/**
+ * Row-major p x nt (as the design's pseudo-inverse is stored) -> t-major nt x p (as the kernels read it).
+ * @param a - p x nt matrix, row-major
+ * @param p - rows
+ * @param nt - columns
+ * @returns the nt x p matrix, row-major
+ * @example const proj = transposeToTimeMajor(pinv, p, nt)
+ */
+export function transposeToTimeMajor(a: Float64Array, p: number, nt: number): Float64Array {
+  const out = new Float64Array(nt * p);
+  for (let j = 0; j < p; j++) for (let t = 0; t < nt; t++) out[t * p + j] = a[j * nt + t];
+  return out;
+}

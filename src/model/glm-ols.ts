@@ -1,8 +1,8 @@
-import { makeVolume, voxelsPerVolume, type Volume } from '../core/volume.js';
+import { volumeLike, voxelsPerVolume, type Volume } from '../core/volume.js';
 import { designPseudoInverse } from './design-matrix.js';
 import type { DesignMatrix } from './design-matrix.js';
 import { checkRunAndDesign, fittedVoxels, gridOf, type GlmFit, type GlmOptions } from './glm-fit.js';
-import { sweepVoxels } from './glm-kernel.js';
+import { sweepVoxels, transposeToTimeMajor } from './glm-kernel.js';
 
 /**
  * Ordinary least squares GLM for every voxel at once. One pseudo-inverse (X'X)^-1 X' (from an SVD of
@@ -29,8 +29,7 @@ export function fitGlm(run: Volume, design: DesignMatrix, options: GlmOptions = 
   const idx = fittedVoxels(run, options.mask);
   const n = idx.length;
   const nvox = voxelsPerVolume(run);
-  const proj = new Float64Array(nt * p); // t-major, see glm-kernel.ts
-  for (let j = 0; j < p; j++) for (let t = 0; t < nt; t++) proj[t * p + j] = pinv[j * nt + t];
+  const proj = transposeToTimeMajor(pinv, p, nt); // t-major, see glm-kernel.ts
   const betas = new Float64Array(p * n);
   const rss = new Float64Array(n);
   const mean = new Float64Array(n);
@@ -50,6 +49,6 @@ export function fitGlm(run: Volume, design: DesignMatrix, options: GlmOptions = 
     covUnscaled: xtxInv,
     group: null,
     rho: null,
-    residuals: residuals ? makeVolume({ dims: [...run.dims], spacingMm: [...run.spacingMm], trSec: run.trSec, affine: new Float64Array(run.affine), data: residuals }) : null,
+    residuals: residuals ? volumeLike(run, nt, residuals) : null,
   };
 }
