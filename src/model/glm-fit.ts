@@ -33,7 +33,10 @@ export interface GlmFit {
   covUnscaled: Float64Array;
   /** Group of each fitted voxel, or null when every voxel uses group 0. */
   group: Uint16Array | null;
-  /** AR(1) only: the bias-corrected lag-1 autocorrelation per fitted voxel (before binning). */
+  /**
+   * AR(1) only: the bias-corrected lag-1 autocorrelation per fitted voxel as used for whitening:
+   * after the spatial smoothing of `fitGlmAr1` (unless its ar1SmoothFwhmMm is 0), before binning.
+   */
   rho: Float32Array | null;
   /** Residuals as a run (zero outside the fitted voxels), when asked for; whitened for AR(1). */
   residuals: Volume | null;

@@ -6,7 +6,8 @@ export { buildDesign, type DesignOptions, type DriftModel, type NuisanceRegresso
 export { makeDesignMatrix, designPseudoInverse, type DesignMatrix, type DesignColumnKind, type DesignSolve } from './design-matrix.js';
 export { svdJacobi, type Svd } from './svd-jacobi.js';
 export { fitGlm } from './glm-ols.js';
-export { fitGlmAr1, type GlmAr1Options } from './glm-ar1.js';
+export { fitGlmAr1, DEFAULT_AR1_SMOOTH_FWHM_MM, type GlmAr1Options } from './glm-ar1.js';
+export { smoothWithinMask, type SmoothWithinMaskOptions } from './smooth-within-mask.js';
 export { fittedVoxels, type GlmFit, type GlmOptions } from './glm-fit.js';
 export { lag1Autocorrelation, ar1BiasTraces, correctAr1, prewhitenAr1 } from './ar1.js';
 export { contrastMaps, contrastWeights, type Contrast, type ContrastMaps } from './contrast.js';
