@@ -74,7 +74,7 @@ export async function writeReport(dir: string, folder: SweepFolder, options: Rec
       ? `Planted: ${spec.plant.count} ${spec.plant.shape} blobs per run; sizes ${spec.plant.sizesFwhmMm.join(', ')} mm; amplitudes ${spec.plant.amplitudesPct.join(', ')} %`
       : 'Planted: nothing (null sweep: every detection is a false alarm)',
     `Repeats: ${spec.repeats} plantings per setting; seed ${spec.seed}`,
-    `Model: GLM${spec.model.ar1 ? ' with AR(1) prewhitening' : ' (OLS)'}${spec.model.highpassCutoffSec ? `, cosine drift cutoff ${spec.model.highpassCutoffSec} s` : ''}; threshold ${thr}`,
+    `Model: GLM${spec.model.ar1 ? ` with AR(1) prewhitening (autocorrelation ${spec.model.ar1SmoothFwhmMm > 0 ? `smoothed at ${spec.model.ar1SmoothFwhmMm} mm FWHM` : 'per voxel'})` : ' (OLS)'}${spec.model.highpassCutoffSec ? `, cosine drift cutoff ${spec.model.highpassCutoffSec} s` : ''}; threshold ${thr}`,
   ];
   const st = result.stats;
   const runLines = [

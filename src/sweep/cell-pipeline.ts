@@ -150,7 +150,7 @@ function modelAndScore(holder: { volume: Volume | null }, context: StepContext, 
     drift: cell.model.highpassCutoffSec ? { kind: 'dct', cutoffSec: cell.model.highpassCutoffSec } : { kind: 'none' },
     nuisance,
   });
-  const fit = cell.model.ar1 ? fitGlmAr1(volume, design, { mask: brain, keepResiduals: true }) : fitGlm(volume, design, { mask: brain, keepResiduals: true });
+  const fit = cell.model.ar1 ? fitGlmAr1(volume, design, { mask: brain, keepResiduals: true, ar1SmoothFwhmMm: cell.model.ar1SmoothFwhmMm }) : fitGlm(volume, design, { mask: brain, keepResiduals: true });
   // the preprocessed run is not needed any more: let it go before the residuals are used
   const grid = { dims: [volume.dims[0], volume.dims[1], volume.dims[2]], spacingMm: volume.spacingMm };
   holder.volume = null;

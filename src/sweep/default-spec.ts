@@ -1,3 +1,4 @@
+import { DEFAULT_AR1_SMOOTH_FWHM_MM } from '../model/glm-ar1.js';
 import type { SweepSpec } from './spec.js';
 
 /** Options of {@link defaultSmoothingSpec}. */
@@ -26,9 +27,9 @@ export interface DefaultSmoothingOptions {
 
 /**
  * The default smoothing sweep: Gaussian smoothing FWHM over 0-14 mm in 2 mm steps, 20 plantings of six
- * 8 mm FWHM Gaussian activations at 1.5 % peak signal change, GLM with AR(1) and a 128 s cosine
- * drift set, family-wise error 0.05 by random-field theory. (A 1-2 % BOLD change at 3 T and a 128 s
- * drift cutoff are common practice, no source.)
+ * 8 mm FWHM Gaussian activations at 1.5 % peak signal change, GLM with AR(1) (autocorrelation map
+ * smoothed at 15 mm FWHM) and a 128 s cosine drift set, family-wise error 0.05 by random-field
+ * theory. (A 1-2 % BOLD change at 3 T and a 128 s drift cutoff are common practice, no source.)
  * @param o - overrides
  * @returns a complete spec
  * @example const spec = defaultSmoothingSpec({ dropInitialVolumes: look.recommendation.dropInitialVolumes })
@@ -46,7 +47,7 @@ export function defaultSmoothingSpec(o: DefaultSmoothingOptions = {}): SweepSpec
     plant: { shape: 'gaussian', sizesFwhmMm: o.sizesFwhmMm ?? [8], amplitudesPct: [o.amplitudePct ?? 1.5], count: o.count ?? 6, marginMm: o.marginMm ?? null, separation: 2 },
     repeats: o.repeats ?? 20,
     threshold: { kind: 'fwe-rft', alpha: 0.05, q: 0.05, clusterFormingP: 0.001 },
-    model: { ar1: true, highpassCutoffSec: 128, trialType: null, censorVolumes: o.censorVolumes ?? [] },
+    model: { ar1: true, ar1SmoothFwhmMm: DEFAULT_AR1_SMOOTH_FWHM_MM, highpassCutoffSec: 128, trialType: null, censorVolumes: o.censorVolumes ?? [] },
     events: { kind: 'run' },
     seed: o.seed ?? 1,
     workers: o.workers ?? 2,

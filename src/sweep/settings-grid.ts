@@ -37,6 +37,7 @@ const PARAMETER_NAMES: Record<string, string> = {
   'drop-initial-volumes.count': 'initial volumes dropped',
   'grand-mean-scale.target': 'grand-mean target',
   'model.ar1': 'AR(1) noise model',
+  'model.ar1SmoothFwhmMm': 'AR(1) autocorrelation smoothing FWHM',
   'model.highpassCutoffSec': 'model drift cutoff',
 };
 

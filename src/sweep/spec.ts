@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { fail } from '../core/fail.js';
+import { DEFAULT_AR1_SMOOTH_FWHM_MM } from '../model/glm-ar1.js';
 
 /**
  * A sweep spec: what to run, what to vary, what to plant and how to judge it. The same object is
@@ -51,6 +52,12 @@ export interface ThresholdRule {
 export interface ModelOptions {
   /** Prewhiten with an AR(1) noise model. __Default value:__ true */
   ar1: boolean;
+  /**
+   * FWHM in mm of the Gaussian kernel that smooths the AR(1) autocorrelation map within the brain
+   * mask before prewhitening (Worsley et al. 2002); 0 whitens each voxel with its own estimate.
+   * Unused when ar1 is false. __Default value:__ 15
+   */
+  ar1SmoothFwhmMm: number;
   /** Discrete cosine high-pass cutoff in seconds as nuisance regressors; null for none. __Default value:__ 128 */
   highpassCutoffSec: number | null;
   /** Trial type whose events form the tested regressor; null uses every event. __Default value:__ null */
@@ -119,6 +126,7 @@ export const sweepSpecSchema = z.object({
   }).strict(),
   model: z.object({
     ar1: z.boolean().default(true),
+    ar1SmoothFwhmMm: z.number().nonnegative().max(100).default(DEFAULT_AR1_SMOOTH_FWHM_MM),
     highpassCutoffSec: z.number().positive().nullable().default(128),
     trialType: z.string().nullable().default(null),
     censorVolumes: z.array(z.number().int().nonnegative()).default([]),

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { isBoldsweepError } from '../../src/core/errors.js';
 import { parseSweepSpecShape } from '../../src/sweep/spec.js';
+import { parseSweepSpec } from '../../src/sweep/parse-sweep-spec.js';
 import { settingsGrid, settingLabel } from '../../src/sweep/settings-grid.js';
 import { firstVariedStep, planSweep } from '../../src/sweep/plan.js';
 import { parseShard, shardCells } from '../../src/sweep/shard.js';
@@ -25,7 +26,7 @@ describe('sweep spec shape', () => {
     const s = parseSweepSpecShape(base);
     expect(s.version).toBe(1);
     expect(s.threshold).toEqual({ kind: 'fwe-rft', alpha: 0.05, q: 0.05, clusterFormingP: 0.001 });
-    expect(s.model).toEqual({ ar1: true, highpassCutoffSec: 128, trialType: null, censorVolumes: [] });
+    expect(s.model).toEqual({ ar1: true, ar1SmoothFwhmMm: 15, highpassCutoffSec: 128, trialType: null, censorVolumes: [] });
     expect(s.events).toEqual({ kind: 'run' });
     expect(s.plant.marginMm).toBeNull();
     expect(s.plant.shape).toBe('gaussian');
@@ -92,6 +93,16 @@ describe('grid and plan', () => {
     expect(plan.cells[0].model.ar1).toBe(true);
     expect(plan.cells[1].model.ar1).toBe(false);
     expect(plan.cells[1].suffix).toEqual([]);
+  });
+
+  it('the AR(1) autocorrelation smoothing width is a model option that can be varied, never negative', () => {
+    const spec = parseSweepSpec({ ...base, vary: { 'model.ar1SmoothFwhmMm': [0, 15] } });
+    const plan = planSweep(spec, { runHash: 'r', contextHash: 'c' });
+    expect([plan.cells[0].model.ar1SmoothFwhmMm, plan.cells[1].model.ar1SmoothFwhmMm]).toEqual([0, 15]);
+    expect(plan.cells[0].group).toBe(plan.cells[1].group);
+    expect(plan.cells[0].key).not.toBe(plan.cells[1].key); // a cached cell of one width is not reused for the other
+    expect(codeOf(() => parseSweepSpec({ ...base, vary: { 'model.ar1SmoothFwhmMm': [-1] } }))).toBe('SPEC_INVALID');
+    expect(codeOf(() => parseSweepSpecShape({ ...base, model: { ar1SmoothFwhmMm: -1 } }))).toBe('SPEC_INVALID');
   });
 
   it('keys change with the inputs and not with the number of workers', () => {
