@@ -36,8 +36,9 @@ export interface GlmAr1Options extends GlmOptions {
  * 1. OLS fit of every voxel; lag-1 autocorrelation of its residuals, bias-corrected with the
  *    Worsley et al. (2002, NeuroImage 15:1-15) traces of the design ({@link correctAr1}), clipped;
  * 2. the rho map is smoothed with a Gaussian kernel (15 mm FWHM by default) within the fitted
- *    voxels, as Worsley et al. (2002) do: a single voxel's estimate from ~100-200 volumes has a
- *    standard error near 0.1, and whitening with that noise inflates the tails of t;
+ *    voxels, as Worsley et al. (2002) do: a single voxel's estimate has a standard error of about
+ *    1/sqrt(nt) (0.07-0.1 for 100-200 volumes; Bartlett's approximation, from memory), and
+ *    whitening with that noise inflates the tails of t;
  * 3. voxels are grouped into bins of rho (width 0.01 by default, common practice, no source) and each
  *    bin gets its own Prais-Winsten whitened design W X (rho = the bin centre);
  * 4. each voxel is refitted with its bin's design (the whitening of y is folded into the bin's

@@ -215,6 +215,13 @@ describe('fitGlmAr1: spatial smoothing of the autocorrelation map (Worsley et al
     expect(run.data).toEqual(noiseRun(dims, nt, 0.3, 12).data); // run not modified
   });
 
+  it('refuses a negative or non-finite smoothing width', () => {
+    const run = noiseRun([3, 3, 3], nt, 0.3, 14);
+    for (const bad of [-1, Number.NaN, Number.POSITIVE_INFINITY]) {
+      expect(() => fitGlmAr1(run, design, { ar1SmoothFwhmMm: bad })).toThrow(expect.objectContaining({ code: 'INVALID_ARGUMENT' }));
+    }
+  });
+
   it('shrinks the spread of estimates by the kernel\'s sum of squared weights (independent voxels, same true rho)', () => {
     // independent estimates with variance s2, smoothed by normalised weights w, have variance
     // s2 * sum(w^2) (variance of a weighted sum); for the separable kernel sum(w^2) is the product of
