@@ -15,6 +15,8 @@ import { section, simdOp, sleb, uleb, vec, wasmName } from '../core/wasm-encodin
  */
 export interface ConvKernels {
   memory: WasmMemory;
+  /** Bytes of `memory` (fixed: it is never grown). */
+  bytes: number;
   conv: Map<number, (dst: number, src: number, len: number, offs: number, w: number) => void>;
   /** Float32 rows (stride nx values) -> Float64 rows (stride px values): (dst, src, rows, nx, px). */
   widen: (dst: number, src: number, rows: number, nx: number, px: number) => void;
@@ -25,11 +27,11 @@ export interface ConvKernels {
 /** The part of WebAssembly.Memory used here (the project's TypeScript lib has no WebAssembly types). */
 export interface WasmMemory {
   readonly buffer: ArrayBuffer;
-  grow(pages: number): number;
 }
 interface WasmApi {
   Module: new (bytes: Uint8Array) => object;
-  Instance: new (module: object) => { exports: Record<string, unknown> };
+  Instance: new (module: object, imports: Record<string, Record<string, unknown>>) => { exports: Record<string, unknown> };
+  Memory: new (descriptor: { initial: number }) => WasmMemory;
 }
 const wasm = (globalThis as unknown as { WebAssembly: WasmApi }).WebAssembly;
 
@@ -128,7 +130,8 @@ function copyRowsBody(widen: boolean): number[] {
 }
 
 /**
- * Bytes of a WebAssembly module exporting `memory`, one function `conv<r>` per radius, `widen` and `narrow`.
+ * Bytes of a WebAssembly module importing `env.memory` and exporting one function `conv<r>` per
+ * radius, `widen` and `narrow`.
  * @param radii - distinct kernel radii (0 allowed)
  * @returns the module bytes
  * @example new WebAssembly.Module(convModuleBytes([3]))
@@ -138,10 +141,9 @@ export function convModuleBytes(radii: readonly number[]): Uint8Array {
   const bytes = [
     0x00, 0x61, 0x73, 0x6d, 0x01, 0x00, 0x00, 0x00,
     ...section(1, vec([type])),
+    ...section(2, vec([[...str('env'), ...str('memory'), 0x02, 0x00, 1]])), // imported memory, at least one 64 KiB page
     ...section(3, vec([...radii.map(() => [0]), [0], [0]])),
-    ...section(5, vec([[0x00, 1]])), // one memory, at least one 64 KiB page, grown on demand
     ...section(7, vec([
-      [...str('memory'), 0x02, 0],
       ...radii.map((r, k) => [...str(`conv${r}`), 0x00, ...uleb(k)]),
       [...str('widen'), 0x00, ...uleb(radii.length)],
       [...str('narrow'), 0x00, ...uleb(radii.length + 1)],
@@ -151,28 +153,41 @@ export function convModuleBytes(radii: readonly number[]): Uint8Array {
   return Uint8Array.from(bytes);
 }
 
-let current: { maxRadius: number; kernels: ConvKernels } | null = null;
+let current: { maxRadius: number; module: object; kernels: ConvKernels } | null = null;
 
 /**
- * The convolution kernels for radii 0..R (R at least the largest requested and at least 8),
- * compiled once per thread. One module (and one memory) serves every plan of the thread; a larger
- * radius replaces it, so memory does not pile up across a sweep of widths.
+ * The convolution kernels for radii 0..R (R at least the largest requested and at least 8) working in
+ * a memory of at least `bytes` bytes. The module is compiled once per thread (again only for a larger
+ * radius) and one instance serves every plan of the thread. A call that needs more memory gets a new
+ * instance with a new, larger memory; the old one is left to the garbage collector and is never grown:
+ * growing a WebAssembly memory detaches its ArrayBuffer, and in V8 the first detach in a thread
+ * switches every typed-array access of all later optimised code to a slower checked form (a plain
+ * summing loop took twice as long afterwards, measured in Node 20; see src/look/voxel-sums-wasm.ts).
  * @param radii - kernel radii needed (e.g. [rx, ry, rz])
- * @returns memory, one function per radius 0..R, widen and narrow
- * @throws BoldsweepError INVALID_ARGUMENT when a radius is not an integer in 0..4096
- * @example const k = convKernels([3, 3, 2]); k.conv.get(3)!(dst, src, len, offs, w)
+ * @param bytes - memory the caller needs. __Default value:__ one 64 KiB page
+ * @returns memory (and its size), one function per radius 0..R, widen and narrow
+ * @throws BoldsweepError INVALID_ARGUMENT when a radius is not an integer in 0..4096 or bytes is not a
+ *   non-negative integer below 4 GiB
+ * @example const k = convKernels([3, 3, 2], 1 << 20); k.conv.get(3)!(dst, src, len, offs, w)
  */
-export function convKernels(radii: readonly number[]): ConvKernels {
+export function convKernels(radii: readonly number[], bytes = 65536): ConvKernels {
   for (const r of radii) if (!Number.isInteger(r) || r < 0 || r > 4096) fail('INVALID_ARGUMENT', `kernel radius must be an integer in 0..4096, got ${r}`);
+  if (!Number.isInteger(bytes) || bytes < 0 || bytes >= 2 ** 32) fail('INVALID_ARGUMENT', `memory size must be an integer number of bytes below 4 GiB, got ${bytes}`);
   const need = Math.max(0, ...radii);
-  if (!current || current.maxRadius < need) {
-    const maxRadius = Math.max(8, need);
-    const all = Array.from({ length: maxRadius + 1 }, (_, r) => r);
-    const instance = new wasm.Instance(new wasm.Module(convModuleBytes(all)));
-    const conv = new Map<number, (dst: number, src: number, len: number, offs: number, w: number) => void>();
-    for (const r of all) conv.set(r, instance.exports[`conv${r}`] as (dst: number, src: number, len: number, offs: number, w: number) => void);
-    type RowCopy = (dst: number, src: number, rows: number, nx: number, px: number) => void;
-    current = { maxRadius, kernels: { memory: instance.exports.memory as WasmMemory, conv, widen: instance.exports.widen as RowCopy, narrow: instance.exports.narrow as RowCopy } };
-  }
+  if (current && current.maxRadius >= need && current.kernels.bytes >= bytes) return current.kernels;
+  const maxRadius = Math.max(8, need, current?.maxRadius ?? 0);
+  const all = Array.from({ length: maxRadius + 1 }, (_, r) => r);
+  const module = current && current.maxRadius === maxRadius ? current.module : new wasm.Module(convModuleBytes(all));
+  // never smaller than the memory it replaces, and a quarter more than asked when it grows: plans for
+  // slightly wider kernels on the same grid (a sweep of widths) then fit without another instance
+  const grown = current !== null && bytes > current.kernels.bytes;
+  const pages = Math.max(1, Math.ceil(Math.max(grown ? bytes * 1.25 : bytes, current?.kernels.bytes ?? 0) / 65536));
+  const memory = new wasm.Memory({ initial: pages });
+  const instance = new wasm.Instance(module, { env: { memory } });
+  type Conv = (dst: number, src: number, len: number, offs: number, w: number) => void;
+  type RowCopy = (dst: number, src: number, rows: number, nx: number, px: number) => void;
+  const conv = new Map<number, Conv>();
+  for (const r of all) conv.set(r, instance.exports[`conv${r}`] as Conv);
+  current = { maxRadius, module, kernels: { memory, bytes: pages * 65536, conv, widen: instance.exports.widen as RowCopy, narrow: instance.exports.narrow as RowCopy } };
   return current.kernels;
 }

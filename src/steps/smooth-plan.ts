@@ -40,7 +40,8 @@ export interface SmoothScratch {
 const align16 = (n: number): number => Math.ceil(n / 16) * 16;
 
 /**
- * Reserve (and grow, if needed) the WebAssembly memory a plan needs.
+ * Lay out the WebAssembly memory a plan needs (the kernels come with a memory at least that large,
+ * made at that size: see conv-wasm.ts).
  * @param plan - the plan
  * @returns the layout for {@link applySmoothPlan}
  * @example const s = makeSmoothScratch(plan)
@@ -52,7 +53,6 @@ export function makeSmoothScratch(plan: Pick<SmoothPlan, 'dims' | 'kernels'>): S
   const rx = radii[0];
   const px = nx + 2 * rx;
   const plane = px * ny;
-  const kernels = convKernels(radii);
   const weights = 0;
   const offsets = align16(weights + 3 * (rmax + 1) * 8);
   const zero = align16(offsets + Math.max(1, 2 * rmax) * 4);
@@ -60,8 +60,7 @@ export function makeSmoothScratch(plan: Pick<SmoothPlan, 'dims' | 'kernels'>): S
   const p = align16(io + nx * ny * nz * 4);
   const a = align16(p + plane * nz * 8);
   const bytes = a + plane * nz * 8 + 64;
-  const pages = Math.ceil(bytes / 65536) - kernels.memory.buffer.byteLength / 65536;
-  if (pages > 0) kernels.memory.grow(pages);
+  const kernels = convKernels(radii, bytes);
   return { kernels, px, rx, weights, offsets, zero, io, p, a };
 }
 

@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { isBoldsweepError } from '../../src/core/errors.js';
 import { createRng } from '../../src/core/random.js';
 import { convKernels, convModuleBytes } from '../../src/steps/conv-wasm.js';
 
@@ -8,8 +9,7 @@ describe('WebAssembly convolution kernel', () => {
   });
   for (const [r, len] of [[0, 9], [1, 10], [3, 21], [7, 40]] as const) {
     it(`r = ${r}, ${len} values: the same bits as the scalar expression evaluated left to right`, () => {
-      const k = convKernels([r]);
-      if (k.memory.buffer.byteLength < 65536 * 2) k.memory.grow(1);
+      const k = convKernels([r], 65536 * 2);
       const f64 = new Float64Array(k.memory.buffer);
       const i32 = new Int32Array(k.memory.buffer);
       const rng = createRng(r + 1);
@@ -38,5 +38,22 @@ describe('WebAssembly convolution kernel', () => {
     for (let q = 0; q < rows; q++) for (let i = 0; i < nx; i++) f64[8192 / 8 + q * px + i] = rng.normal(0, 1000);
     k.narrow(2048, 8192, rows, nx, px);
     for (let q = 0; q < rows; q++) for (let i = 0; i < nx; i++) expect(f32[2048 / 4 + q * nx + i]).toBe(Math.fround(f64[8192 / 8 + q * px + i]));
+  });
+  it('never grows a memory: a larger request gets a new memory and leaves the old buffer attached', () => {
+    const small = convKernels([1], 3 * 65536);
+    const buffer = small.memory.buffer;
+    expect(small.bytes).toBeGreaterThanOrEqual(3 * 65536);
+    expect(convKernels([1], 65536)).toBe(small); // a smaller need reuses the instance
+    const large = convKernels([2], small.bytes + 1);
+    expect(large).not.toBe(small);
+    expect(large.memory.buffer.byteLength).toBeGreaterThan(small.bytes);
+    // a grown memory would have detached `buffer` (byteLength 0); this one keeps its size
+    expect(buffer.byteLength).toBe(small.bytes);
+    expect(convKernels([2, 1, 0], large.bytes)).toBe(large);
+  });
+  it('rejects a memory size that is not a byte count below 4 GiB', () => {
+    for (const bytes of [-1, 1.5, 2 ** 32]) {
+      try { convKernels([1], bytes); expect.unreachable(); } catch (e) { expect(isBoldsweepError(e, 'INVALID_ARGUMENT')).toBe(true); }
+    }
   });
 });
