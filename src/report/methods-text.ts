@@ -90,8 +90,8 @@ export function methodsText(r: DecisionRecord): MethodsText {
   const glm = `Each voxel inside the brain mask was fitted with a general linear model (${cite(METHOD_REFERENCES.glm)}) whose regressor of interest was ${cond} convolved with a canonical double-gamma haemodynamic response (${cite(METHOD_REFERENCES.hrf)})${drift}${censored} and an intercept.`;
   // the chosen value when the sweep varied it; a record from before the option existed was unsmoothed
   const arFwhm = Number(choice.setting['model.ar1SmoothFwhmMm'] ?? spec.model.ar1SmoothFwhmMm ?? 0);
-  const arSmooth = arFwhm > 0 ? `, spatially smoothed with a ${arFwhm} mm FWHM Gaussian kernel within the brain mask` : ', estimated separately at each voxel';
-  const ar = spec.model.ar1 ? ` Serial correlation was modelled as a first-order autoregressive process whose lag-1 autocorrelation was bias-corrected${arSmooth} and removed by prewhitening (${cite(METHOD_REFERENCES.ar1)}).` : ' Serial correlation was not modelled (ordinary least squares).';
+  const arSmooth = arFwhm > 0 ? `bias-corrected and spatially smoothed with a ${arFwhm} mm FWHM Gaussian kernel within the brain mask` : 'bias-corrected and estimated separately at each voxel';
+  const ar = spec.model.ar1 ? ` Serial correlation was modelled as a first-order autoregressive process and removed by prewhitening; its lag-1 autocorrelation was ${arSmooth} (${cite(METHOD_REFERENCES.ar1)}).` : ' Serial correlation was not modelled (ordinary least squares).';
   paragraphs.push(`${glm}${ar} The effect was tested with a one-sided t contrast. ${thresholdSentence(r, cite)}`);
 
   // 3. how the choice was made
