@@ -43,7 +43,7 @@ export function shiftEvents(events: readonly BoldEvent[], shiftSec: number): Shi
 
 /**
  * Preprocessing step: remove the first `count` volumes (those acquired before the signal reached
- * steady state). Event onsets in the returned context are shifted by count x TR; events that
+ * steady state). The shorter run's data is a view of the input's last volumes (no copy). Event onsets in the returned context are shifted by count x TR; events that
  * started earlier are trimmed or removed and counted. The sidecar's BIDS field
  * NumberOfVolumesDiscardedByUser is increased by `count`.
  * @param volume - the run (not modified)
@@ -63,7 +63,8 @@ export const dropInitialVolumesStep: StepFunction<DropInitialVolumesParams> = (v
     fail('TR_MISSING', 'drop-initial-volumes: event onsets cannot be shifted because the run has no repetition time');
   }
   const n = voxelsPerVolume(volume);
-  const data = volume.data.slice(count * n);
+  // a view, not a copy: the kept volumes are one contiguous block at the end of the run
+  const data = volume.data.subarray(count * n);
   const out = makeVolume({ dims: [volume.dims[0], volume.dims[1], volume.dims[2], nt - count], spacingMm: [...volume.spacingMm], trSec: volume.trSec, affine: new Float64Array(volume.affine), data });
   const shifted = context.events ? shiftEvents(context.events, shiftSec) : null;
   const sidecar = context.sidecar

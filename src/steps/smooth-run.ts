@@ -23,9 +23,11 @@ export interface SmoothRunOptions {
    */
   workers?: number;
   /**
-   * Where to write the smoothed run (length nx*ny*nz*nt), e.g. a buffer reused across a sweep.
-   * Workers write into it directly when it lives in a SharedArrayBuffer; otherwise the result is
-   * copied into it once at the end. __Default value:__ a new array.
+   * Where to write the smoothed run (length nx*ny*nz*nt), e.g. a buffer reused across a sweep. It
+   * may be the input's own array (smoothing in place: the caller gives up the input; each volume is
+   * read whole before it is overwritten), but no other view that overlaps it. Workers write into it
+   * directly when it lives in a SharedArrayBuffer; otherwise the result is copied into it once at
+   * the end. __Default value:__ a new array.
    */
   out?: Float32Array;
 }
@@ -39,15 +41,18 @@ export const SMOOTH_RUN_IN_THREAD_BELOW = 2_000_000;
 
 /**
  * Smooth every volume of a run with the same 3D Gaussian kernel, in parallel across volumes.
+ * A FWHM of 0 (no mask) copies the run unchanged (into `out` when given; nothing when `out` is the
+ * input itself).
  * With workers > 1 the input is copied once into shared memory (not at all when it already lives
  * there) and the workers write the result in place into a shared output buffer: no per-volume
  * copies. The result's `data` is then a Float32Array over a SharedArrayBuffer. Worker and
  * main-thread paths run the same code and give identical bytes. Small runs stay in the main thread
  * (see {@link SMOOTH_RUN_IN_THREAD_BELOW}).
- * @param volume - the run (not modified)
+ * @param volume - the run (not modified, unless `out` is its own array)
  * @param options - fwhmMm, mode, mask, truncate, workers, out
  * @returns a new volume with the same grid, TR and affine (its data is `out` when given)
- * @throws BoldsweepError INVALID_ARGUMENT for bad widths or worker counts; GRID_MISMATCH for a mask of another size;
+ * @throws BoldsweepError INVALID_ARGUMENT for bad widths or worker counts, or an `out` that partly overlaps the
+ *   input; GRID_MISMATCH for a mask of another size;
  *   WORKER_SCRIPT_MISSING when workers are needed but the package is not built
  * @example const smoothed = await smoothRun(run.volume, { fwhmMm: 6, mask })
  */
@@ -64,7 +69,14 @@ export async function smoothRun(volume: Volume, options: SmoothRunOptions): Prom
   const like = { dims: [nx, ny, nz, nt] as Volume['dims'], spacingMm: [...volume.spacingMm] as Volume['spacingMm'], trSec: volume.trSec, affine: new Float64Array(volume.affine) };
 
   if (options.out && options.out.length !== total) fail('INVALID_ARGUMENT', `out has ${options.out.length} values, the run has ${total}`);
-  if (options.out === volume.data) fail('INVALID_ARGUMENT', 'out must not be the input run (the input is never modified)');
+  if (options.out && options.out !== volume.data && overlaps(options.out, volume.data)) fail('INVALID_ARGUMENT', 'out overlaps the input run without being the same array (pass the input itself to smooth in place)');
+  if (plan.kernels.every((k) => k.length === 1) && !plan.mask) {
+    // every kernel is the identity (FWHM 0, or narrower than the sampling): the result is the input,
+    // so copy it (nothing to do in place); the kernels would give the same values
+    const output = options.out ?? new Float32Array(total);
+    if (output !== volume.data) output.set(volume.data);
+    return makeVolume({ ...like, data: output });
+  }
   if (workers === 1 || nt < 2 || total < SMOOTH_RUN_IN_THREAD_BELOW) {
     const output = options.out ?? new Float32Array(total);
     smoothVolumesTask({ ...base, input: volume.data, output, tStart: 0, tEnd: nt });
@@ -92,6 +104,12 @@ export async function smoothRun(volume: Volume, options: SmoothRunOptions): Prom
     return makeVolume({ ...like, data: options.out });
   }
   return makeVolume({ ...like, data: output });
+}
+
+/** Whether two arrays share any byte of memory. */
+function overlaps(a: Float32Array, b: Float32Array): boolean {
+  if (a.buffer !== b.buffer) return false;
+  return a.byteOffset < b.byteOffset + b.byteLength && b.byteOffset < a.byteOffset + a.byteLength;
 }
 
 /** A copy of a typed array in shared memory (workers see it without copying). */

@@ -47,10 +47,11 @@ const MODE_TEXT: Record<BoundaryMode, string> = {
  * smoothing is restricted to the brain mask by normalised convolution (Knutsson & Westin 1993):
  * smooth(data*mask) / smooth(mask), so voxels near the mask edge keep their level. Runs in worker
  * threads from the main thread and in the calling thread when already inside a worker (smoothRun's
- * default).
- * @param volume - the run (not modified)
+ * default). Writes into the array the context's `outputBuffer` gives, when there is one (in place
+ * when that is the input's own data).
+ * @param volume - the run (not modified, unless the context's outputBuffer gives its own data)
  * @param params - fwhmMm, mode, withinMask
- * @param context - needs `mask` when withinMask is true
+ * @param context - needs `mask` when withinMask is true; outputBuffer optional
  * @returns the smoothed run and its step note
  * @throws BoldsweepError INVALID_ARGUMENT for a negative, non-finite or too large FWHM (> maxFwhmMm), an unknown
  *   mode, or withinMask without a mask; GRID_MISMATCH for a mask of another size
@@ -66,7 +67,7 @@ export const smoothStep: StepFunction<SmoothStepParams> = async (volume, params,
   if (!BOUNDARY_MODES.includes(mode)) fail('INVALID_ARGUMENT', `smooth: mode must be one of ${BOUNDARY_MODES.join(', ')}, got ${String(mode)}`);
   let mask: Uint8Array | undefined;
   if (withinMask) mask = requireMask(volume, context, 'smooth (withinMask)');
-  const out = await smoothRun(volume, { fwhmMm, mode, mask });
+  const out = await smoothRun(volume, { fwhmMm, mode, mask, out: context.outputBuffer?.(volume.data.length) });
 
   const sv = sigmaVoxels(fwhmMm, volume.spacingMm);
   const taps = sv.map((s) => gaussianKernel1d(s).length);

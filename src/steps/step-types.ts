@@ -26,9 +26,22 @@ export interface StepContext {
   events: BoldEvent[] | null;
   /** Brain mask on the run's grid (1 = in), when known. */
   mask: Uint8Array | null;
+  /**
+   * Gives an array of the length asked for that a step whose output has its input's size may write
+   * that output into instead of allocating one (a sweep reuses one such array per thread for every
+   * cell: src/sweep/work-buffer.ts). The array is either the input's own data (the caller then gives
+   * up the input, and the step must read each part of it before writing over it) or shares no memory
+   * with it. Steps that cannot use it ignore it; it is not passed on to later steps.
+   * __Default value:__ none (the step allocates its output).
+   */
+  outputBuffer?: ((length: number) => Float32Array) | null;
 }
 
-/** A step's output: a new volume (the input is never modified) and its note. */
+/**
+ * A step's output: a new volume and its note. The input is never modified (unless the caller hands
+ * its data over as the context's `outputBuffer`); the output's data may share the input's memory
+ * (a step that only selects volumes returns a view), so treat it as read-only as well.
+ */
 export interface StepResult {
   volume: Volume;
   note: StepNote;

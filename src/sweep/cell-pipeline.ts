@@ -17,8 +17,12 @@ import { runRecipeStep } from './recipe-step.js';
 import { collectGarbage } from './collect-garbage.js';
 import { isMainThread } from 'node:worker_threads';
 import { readGroupStage, writeCachedCell, writeCachedTsnr, writeGroupStage, type GroupStage } from './stage-cache.js';
+import { applyStagePatch, stagePatch, type StagePatch } from './stage-patch.js';
+import { sharesMemory } from './shares-memory.js';
+import { currentWorkBuffer, workBuffer } from './work-buffer.js';
 import { fail } from '../core/fail.js';
 import type { CellPlan, CellGroup } from './plan.js';
+import type { RecipeStep } from './spec.js';
 import type { CellResult, SweepContext, SweepTask, TsnrResult, TsnrTask } from './sweep-task.js';
 import type { BoldEvent } from '../io/run-types.js';
 import { randomBlockEvents } from './random-block-events.js';
@@ -31,11 +35,18 @@ import { randomBlockEvents } from './random-block-events.js';
  *                -> threshold rule -> score against the planted truth -> ROC samples -> cache
  *   per setting: the run as it is -> the whole recipe -> tSNR in the brain mask   (a tsnr task)
  *
- * Memory: the group stage is dropped as soon as the first per-setting step has produced its output
- * and is read back from the disk cache (or recomputed) for the next cell; the preprocessed run is
- * dropped once the model is fitted; dropped arrays are collected at once. A worker so holds at most
- * two run-sized arrays at a time (a step's input and output, or the run and the GLM residuals),
- * plus the run itself, shared by all workers.
+ * Memory (per thread; the run itself lives once in shared memory for all workers):
+ *   - one reusable run-sized work buffer (work-buffer.ts): each cell's input is rebuilt in it, and the
+ *     varied step writes its output over it (smoothing in place), so a cell allocates no run of its own
+ *     besides the model's residuals;
+ *   - the group stage between cells: when the shared steps only select volumes of the unplanted run
+ *     (dropping initial volumes), as that selection plus the planted voxels' series (stage-patch.ts,
+ *     a few percent of a run); otherwise as a whole run (memory mode) or on disk (disk mode, read
+ *     back into the work buffer);
+ *   - while the model runs: the work buffer and the residuals. Dropped run-sized arrays (the planted
+ *     run once its patch is taken, the residuals after each cell) are collected at once.
+ * A worker so holds two run-sized arrays at the peak of a cell (three while a group's planted run
+ * is being patched, or with a whole held stage).
  */
 
 function sharedRunVolume(ctx: SweepContext): Volume {
@@ -107,25 +118,116 @@ async function computeGroupStage(ctx: SweepContext, group: CellGroup, trialType:
   return { volume, truth, context, notes };
 }
 
-async function obtainStage(task: SweepTask, trialType: string): Promise<{ stage: GroupStage; how: CellResult['groupStage'] }> {
+/**
+ * A group stage as a task keeps it between cells: its geometry, context, notes and planted truth,
+ * and its voxels either as a whole run or as the unplanted base plus a patch.
+ */
+interface HeldStage extends Omit<GroupStage, 'volume'> {
+  geometry: Omit<Volume, 'data'>;
+  voxels: { whole: Float32Array } | { base: Float32Array; patch: StagePatch };
+}
+
+/** A stage may hold at most this fraction of a volume's voxels in its patch (blobs cover a few percent). */
+const MAX_PATCH_FRACTION = 0.25;
+
+/** Recipe prefixes (as JSON) whose output on the unplanted run is an array of its own, so no free base exists. */
+const prefixesWithoutBase = new Set<string>();
+
+/**
+ * The shared steps applied to the unplanted run, when their output is a view of the shared run (steps
+ * that only select volumes): a base to patch a group stage against at no memory cost. null otherwise.
+ */
+async function unplantedBase(ctx: SweepContext, group: CellGroup, context: StepContext): Promise<Float32Array | null> {
+  const prefix = JSON.stringify(group.prefix);
+  if (prefixesWithoutBase.has(prefix)) return null;
+  let volume = sharedRunVolume(ctx);
+  let c = context;
+  for (const step of group.prefix) {
+    const r = await runRecipeStep(step, volume, c);
+    volume = r.volume;
+    c = r.context ?? c;
+  }
+  if (sharesMemory(volume.data, ctx.run.data)) return volume.data;
+  prefixesWithoutBase.add(prefix);
+  release(); // the base the steps computed
+  return null;
+}
+
+/**
+ * The group stage of a task: read from the disk cache into the work buffer, or computed (plant, then
+ * the shared steps), written to the disk cache in disk mode, and kept as base + patch when it can be.
+ */
+async function obtainStage(task: SweepTask, trialType: string): Promise<{ stage: HeldStage; how: CellResult['groupStage'] }> {
   const ctx = task.context;
+  const toHeld = (s: GroupStage, voxels: HeldStage['voxels']): HeldStage => {
+    const { data: _data, ...geometry } = s.volume;
+    return { geometry, voxels, truth: s.truth, context: s.context, notes: s.notes };
+  };
   if (ctx.stageMode === 'disk' && ctx.cacheDir) {
-    const cached = readGroupStage(ctx.cacheDir, task.group.key);
-    if (cached) return { stage: cached, how: 'cached' };
+    const cached = readGroupStage(ctx.cacheDir, task.group.key, workBuffer);
+    if (cached) return { stage: toHeld(cached, { whole: cached.volume.data }), how: 'cached' };
   }
   const stage = await computeGroupStage(ctx, task.group, trialType);
   if (ctx.stageMode === 'disk' && ctx.cacheDir) await writeGroupStage(ctx.cacheDir, task.group.key, stage);
-  return { stage, how: 'computed' };
+  // nothing planted and only volumes selected: the stage is the shared run itself
+  if (sharesMemory(stage.volume.data, ctx.run.data)) return { stage: toHeld(stage, { whole: stage.volume.data }), how: 'computed' };
+  const base = await unplantedBase(ctx, task.group, { sidecar: ctx.sidecar, events: groupEvents(ctx, task.group), mask: ctx.brainMask });
+  const patch = base ? stagePatch(stage.volume.data, base, voxelsPerVolume(stage.volume), MAX_PATCH_FRACTION) : null;
+  if (base && patch) {
+    release(); // the planted run
+    return { stage: toHeld(stage, { base, patch }), how: 'computed' };
+  }
+  return { stage: toHeld(stage, { whole: stage.volume.data }), how: 'computed' };
+}
+
+/**
+ * Whether a task keeps its stage for the next cell (stage modes other than 'none'): always when it
+ * costs no run of its own (a patch, or the shared run itself); a whole run only in memory mode, and
+ * never the work buffer (the next cell overwrites it).
+ */
+function keepBetweenCells(stage: HeldStage, ctx: SweepContext): boolean {
+  if (!('whole' in stage.voxels)) return true;
+  const whole = stage.voxels.whole;
+  if (sharesMemory(whole, ctx.run.data)) return true;
+  const work = currentWorkBuffer();
+  return ctx.stageMode === 'memory' && !(work !== null && sharesMemory(whole, work));
+}
+
+/** The stage's run for a cell: a whole stage as it is, a patched one rebuilt in the work buffer. */
+function stageVolume(stage: HeldStage): Volume {
+  const v = stage.voxels;
+  if ('whole' in v) return makeVolume({ ...stage.geometry, data: v.whole });
+  const n = stage.geometry.dims[0] * stage.geometry.dims[1] * stage.geometry.dims[2];
+  return makeVolume({ ...stage.geometry, data: applyStagePatch(v.base, v.patch, n, workBuffer(v.base.length)) });
+}
+
+/** Whether a step's input lives on after the step: in the work buffer, or in one of `others`. */
+function keptElsewhere(input: Float32Array, others: Float32Array[]): boolean {
+  const work = currentWorkBuffer();
+  return (work !== null && sharesMemory(work, input)) || others.some((a) => sharesMemory(a, input));
+}
+
+/**
+ * Run one step with the thread's work buffer offered as its output (when the buffer is the input
+ * itself or shares no memory with it, as the step context requires).
+ */
+async function runStepIntoWork(step: RecipeStep, volume: Volume, context: StepContext): Promise<{ volume: Volume; context: StepContext; note: StepNote }> {
+  const outputBuffer = (length: number): Float32Array => {
+    const work = workBuffer(length);
+    return work === volume.data || !sharesMemory(work, volume.data) ? work : new Float32Array(length);
+  };
+  const r = await runRecipeStep(step, volume, { ...context, outputBuffer });
+  const { outputBuffer: _given, ...next } = r.context ?? context;
+  return { volume: r.volume, context: next, note: r.note };
 }
 
 const finite = (x: number): number | null => (Number.isFinite(x) ? x : null);
 
 /**
  * Collect dropped run-sized arrays now (in a worker thread). V8 frees such external memory lazily,
- * so without this a worker would hold the dead planted run, stage and smoothed run of a cell while
- * the model allocates its residuals; with it, at most two run-sized arrays are alive at any time.
- * A full collection costs about 20 ms, so it runs only before the next run-sized allocation: after
- * each step and at the end of each cell.
+ * so without this a worker would keep a dead planted run or the last cell's residuals while the
+ * model allocates new ones. A full collection costs 10-20 ms, so it runs only when a run-sized
+ * array was dropped: once per cell (the residuals) and once per group (the planted run).
  */
 function release(): void {
   if (!isMainThread) collectGarbage();
@@ -187,27 +289,26 @@ export async function runSweepTask(task: SweepTask, onCell?: (done: number) => v
   const ctx = task.context;
   const trialType = conditionOf(groupEvents(ctx, task.group), task.group, task.cells[0]?.model.trialType ?? null);
   const out: CellResult[] = [];
-  let held: GroupStage | null = null;
+  let held: HeldStage | null = null;
   for (const cell of task.cells) {
     const t0 = performance.now();
     let how: CellResult['groupStage'] = 'memory';
-    let stage: GroupStage | null = held;
-    if (!stage) {
-      ({ stage, how } = await obtainStage(task, trialType));
-      if (how === 'computed') release(); // the planted run before the shared steps
-    }
-    let volume: Volume | null = stage.volume;
+    let stage: HeldStage | null = held;
+    if (!stage) ({ stage, how } = await obtainStage(task, trialType));
+    held = ctx.stageMode !== 'none' && keepBetweenCells(stage, ctx) ? stage : null;
+    let volume: Volume | null = stageVolume(stage);
     let context = stage.context;
     const notes = [...stage.notes];
     const truth = stage.truth;
-    held = ctx.stageMode === 'memory' ? stage : null;
     stage = null;
     for (const step of cell.suffix) {
-      const r = await runRecipeStep(step, volume!, context);
+      const input: Float32Array = volume!.data;
+      const r = await runStepIntoWork(step, volume!, context);
       volume = r.volume;
-      context = r.context ?? context;
+      context = r.context;
       notes.push(r.note);
-      release(); // the step's input (the group stage, unless it is held for the next cell)
+      // the step's input, when nothing else keeps it (a whole stage computed for this cell alone)
+      if (!keptElsewhere(input, [ctx.run.data, volume.data, ...(held && 'whole' in held.voxels ? [held.voxels.whole] : [])])) release();
     }
     const holder = { volume };
     volume = null;
@@ -215,11 +316,7 @@ export async function runSweepTask(task: SweepTask, onCell?: (done: number) => v
     const result: CellResult = { key: cell.key, metrics, tpr, notes, seconds: (performance.now() - t0) / 1000, groupStage: how };
     if (ctx.cacheDir) await writeCachedCell(ctx.cacheDir, result);
     out.push(result);
-    context = null as unknown as StepContext;
-    release();
-    // free this cell's run-sized arrays before the next cell allocates its own (bounded peak memory)
-    volume = null as unknown as Volume;
-    context = null as unknown as StepContext;
+    // free this cell's residuals before the next cell's model allocates its own (bounded peak memory)
     collectGarbage();
     if (ctx.progress) Atomics.add(ctx.progress, task.index, 1);
     onCell?.(out.length);
@@ -240,10 +337,11 @@ export async function runTsnrTask(task: TsnrTask): Promise<TsnrResult> {
   let volume: Volume | null = sharedRunVolume(ctx);
   let context: StepContext = { sidecar: ctx.sidecar, events: ctx.events, mask: ctx.brainMask };
   for (const step of task.steps) {
-    const r = await runRecipeStep(step, volume!, context);
+    const input: Float32Array = volume!.data;
+    const r = await runStepIntoWork(step, volume!, context);
     volume = r.volume;
-    context = r.context ?? context;
-    release();
+    context = r.context;
+    if (!keptElsewhere(input, [ctx.run.data, volume.data])) release();
   }
   const stats = voxelTimeStats(volume!, { detrendOrder: 2 });
   volume = null;
@@ -251,6 +349,5 @@ export async function runTsnrTask(task: TsnrTask): Promise<TsnrResult> {
   for (let v = 0; v < ctx.brainMask.length; v++) if (ctx.brainMask[v] && Number.isFinite(stats.tsnr[v])) inMask.push(stats.tsnr[v]);
   const result: TsnrResult = { key: task.key, tsnrMedian: inMask.length ? medianOf(inMask) : null, seconds: (performance.now() - t0) / 1000 };
   if (ctx.cacheDir) await writeCachedTsnr(ctx.cacheDir, result);
-  release();
   return result;
 }

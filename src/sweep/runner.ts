@@ -19,6 +19,7 @@ import { parseSweepSpec } from './parse-sweep-spec.js';
 import type { SweepSpec, SweepSpecInput } from './spec.js';
 import { stableHash } from './stable-hash.js';
 import { readCachedCell, readCachedTsnr, removeGroupStage } from './stage-cache.js';
+import { releaseWorkBuffer } from './work-buffer.js';
 import type { CellResult, SweepContext, SweepJob, SweepTask, TsnrResult, TsnrTask } from './sweep-task.js';
 
 /*
@@ -116,10 +117,15 @@ function without(mask: Uint8Array, exclude: Uint8Array | null): Uint8Array {
 export function volumeHash(v: Volume): string {
   const h = createHash('sha256');
   h.update(JSON.stringify({ dims: v.dims, spacingMm: v.spacingMm, trSec: v.trSec, affine: Array.from(v.affine) }));
-  // hash in slices: a view of a SharedArrayBuffer cannot be passed to update() directly
+  // a view of a SharedArrayBuffer cannot be passed to update() directly: copy 1 MiB at a time into
+  // one small buffer (slices of many MB each left tens of MB of freed memory in the process)
   const bytes = new Uint8Array(v.data.buffer, v.data.byteOffset, v.data.byteLength);
-  const step = 1 << 24;
-  for (let o = 0; o < bytes.byteLength; o += step) h.update(Buffer.from(bytes.slice(o, Math.min(bytes.byteLength, o + step))));
+  const chunk = Buffer.alloc(Math.min(bytes.byteLength, 1 << 20));
+  for (let o = 0; o < bytes.byteLength; o += chunk.byteLength) {
+    const part = bytes.subarray(o, Math.min(bytes.byteLength, o + chunk.byteLength));
+    chunk.set(part);
+    h.update(chunk.subarray(0, part.byteLength));
+  }
   return h.digest('hex');
 }
 
@@ -256,10 +262,14 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
     if (left === 0 && cacheDir && !options.keepStages) removeGroupStage(cacheDir, t.group.key);
   };
   if (!useThreads) {
-    for (const t of tsnrTasks) tsnrByKey.set(t.key, await runTsnrTask(t));
-    for (const t of tasks) {
-      keep(await runSweepTask(t, () => report()), t);
-      finishGroup(t);
+    try {
+      for (const t of tsnrTasks) tsnrByKey.set(t.key, await runTsnrTask(t));
+      for (const t of tasks) {
+        keep(await runSweepTask(t, () => report()), t);
+        finishGroup(t);
+      }
+    } finally {
+      releaseWorkBuffer(); // the cells' reusable run-sized array (worker threads drop theirs when they end)
     }
   } else {
     const pool = createWorkerPool<SweepJob, CellResult[] | TsnrResult>(new URL('./sweep-worker.js', import.meta.url), { size: Math.min(workers, jobCount) });

@@ -1,4 +1,4 @@
-import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs';
+import { closeSync, existsSync, fstatSync, mkdirSync, openSync, readFileSync, readSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
 import { writeFileAtomic } from '../io/atomic-write.js';
 import type { Volume } from '../core/volume.js';
@@ -104,23 +104,49 @@ export async function writeCachedCell(dir: string, result: CellResult): Promise<
  * Read a group stage from the cache.
  * @param dir - cache folder
  * @param key - group key
+ * @param into - optional: gives the array (of the length asked for) the voxel data is read into, so a
+ *   sweep worker reuses one array instead of allocating a run per read. __Default value:__ a new array
  * @returns the stage, or null when absent or incomplete
  * @example const stage = readGroupStage(dir, group.key)
  */
-export function readGroupStage(dir: string, key: string): GroupStage | null {
+export function readGroupStage(dir: string, key: string, into?: (length: number) => Float32Array): GroupStage | null {
   const meta = join(dir, 'groups', `${key}.json`);
   const data = join(dir, 'groups', `${key}.f32`);
   if (!existsSync(meta) || !existsSync(data)) return null;
   try {
     const m = readCacheJson<Omit<GroupStage, 'volume'> & { volume: Omit<Volume, 'data'> }>(readFileSync(meta, 'utf8'));
-    const bytes = readFileSync(data);
     const n = m.volume.dims[0] * m.volume.dims[1] * m.volume.dims[2] * m.volume.dims[3];
-    if (bytes.byteLength !== n * 4) return null;
-    // Buffer pools small files; a run is large, so its Buffer owns its memory and can be viewed directly
-    const f32 = bytes.byteOffset % 4 === 0 ? new Float32Array(bytes.buffer, bytes.byteOffset, n) : new Float32Array(new Uint8Array(bytes).buffer);
+    const f32 = into ? readInto(data, into, n) : readWhole(data, n);
+    if (!f32) return null;
     return { ...m, volume: { ...m.volume, affine: new Float64Array(m.volume.affine), data: f32 } };
   } catch {
     return null;
+  }
+}
+
+/** The file's n Float32 values in a new array, or null when its size is not 4n bytes. */
+function readWhole(path: string, n: number): Float32Array | null {
+  const bytes = readFileSync(path);
+  if (bytes.byteLength !== n * 4) return null;
+  // Buffer pools small files; a run is large, so its Buffer owns its memory and can be viewed directly
+  return bytes.byteOffset % 4 === 0 ? new Float32Array(bytes.buffer, bytes.byteOffset, n) : new Float32Array(new Uint8Array(bytes).buffer);
+}
+
+/** The file's n Float32 values read straight into into(n), or null when its size is not 4n bytes. */
+function readInto(path: string, into: (length: number) => Float32Array, n: number): Float32Array | null {
+  const fd = openSync(path, 'r');
+  try {
+    if (fstatSync(fd).size !== n * 4) return null;
+    const out = into(n);
+    const bytes = new Uint8Array(out.buffer, out.byteOffset, n * 4);
+    for (let at = 0; at < bytes.byteLength;) {
+      const got = readSync(fd, bytes, at, bytes.byteLength - at, at);
+      if (got <= 0) return null;
+      at += got;
+    }
+    return out;
+  } finally {
+    closeSync(fd);
   }
 }
 

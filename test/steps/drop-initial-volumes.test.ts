@@ -24,6 +24,9 @@ describe('drop-initial-volumes', () => {
     expect(res.context?.sidecar?.NumberOfVolumesDiscardedByUser).toBe(3);
     expect(events[1].onsetSec).toBe(4); // input events untouched
     expect(Array.from(run.data)).toEqual(Array.from({ length: 2 * nt }, (_, i) => i));
+    // the kept volumes are a view of the input (no copy)
+    expect(res.volume.data.buffer).toBe(run.data.buffer);
+    expect(res.volume.data.byteOffset).toBe(run.data.byteOffset + 6 * 4);
   });
   it('keeps events unchanged for count 0', () => {
     expect(shiftEvents([ev(1, 1)], 0)).toEqual({ events: [ev(1, 1)], trimmed: 0, removed: 0 });

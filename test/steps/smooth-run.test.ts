@@ -62,7 +62,36 @@ describe('smoothRun', () => {
     const b = await smoothRun(big, { fwhmMm: 6, workers: 2, out: plain });
     expect(b.data).toBe(plain);
     expect(sameBytes(plain, ref.data)).toBe(true);
-    await expect(smoothRun(big, { fwhmMm: 6, out: big.data })).rejects.toSatisfy((e) => isBoldsweepError(e, 'INVALID_ARGUMENT'));
+    // a view overlapping the input without being it would be overwritten before it is read
+    const overlapping = new Float32Array(big.data.length + 10);
+    overlapping.set(big.data);
+    const shifted = makeVolume({ ...big, data: overlapping.subarray(0, big.data.length) });
+    await expect(smoothRun(shifted, { fwhmMm: 6, out: overlapping.subarray(10) })).rejects.toSatisfy((e) => isBoldsweepError(e, 'INVALID_ARGUMENT'));
+  });
+  it('smooths in place when out is the input itself (one thread, and workers on shared memory)', async () => {
+    const ref = await smoothRun(big, { fwhmMm: 6, workers: 1 });
+    const plain = makeVolume({ ...big, data: Float32Array.from(big.data) });
+    const a = await smoothRun(plain, { fwhmMm: 6, workers: 1, out: plain.data });
+    expect(a.data).toBe(plain.data);
+    expect(sameBytes(plain.data, ref.data)).toBe(true);
+    const shared = new Float32Array(new SharedArrayBuffer(big.data.length * 4));
+    shared.set(big.data);
+    const b = await smoothRun(makeVolume({ ...big, data: shared }), { fwhmMm: 6, workers: 2, out: shared });
+    expect(b.data).toBe(shared);
+    expect(sameBytes(shared, ref.data)).toBe(true);
+  });
+  it('FWHM 0 without a mask copies the run (the same bytes as the identity kernel), and does nothing in place', async () => {
+    const small = randomRun([12, 10, 8, 5], 4);
+    const copy = await smoothRun(small, { fwhmMm: 0 });
+    expect(copy.data).not.toBe(small.data);
+    expect(sameBytes(copy.data, small.data)).toBe(true);
+    const n = 12 * 10 * 8;
+    // the identity kernel through the convolution code (one volume at a time) gives these bytes too
+    for (let t = 0; t < 5; t++) expect(sameBytes(smoothVolume3d(small.data.subarray(n * t, n * (t + 1)), [12, 10, 8], small.spacingMm, 0), small.data.subarray(n * t, n * (t + 1)))).toBe(true);
+    const before = Float32Array.from(small.data);
+    const same = await smoothRun(small, { fwhmMm: 0, out: small.data });
+    expect(same.data).toBe(small.data);
+    expect(sameBytes(small.data, before)).toBe(true);
   });
   it('equals smoothVolume3d applied volume by volume', async () => {
     const small = randomRun([12, 10, 8, 5], 3);

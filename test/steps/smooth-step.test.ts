@@ -52,4 +52,17 @@ describe('smooth step', () => {
     expect(note.diagnostics.maskVoxels).toBe(719);
     expect(note.methodsText).toContain('normalised convolution');
   });
+  it('writes into the array the context offers: the same bytes, in place or into a separate array', async () => {
+    const ref = await smoothStep(run, { fwhmMm: 6 }, ctx);
+    const separate = new Float32Array(run.data.length);
+    const asked: number[] = [];
+    const a = await smoothStep(run, { fwhmMm: 6 }, { ...ctx, outputBuffer: (length) => { asked.push(length); return separate; } });
+    expect(asked).toEqual([run.data.length]);
+    expect(a.volume.data).toBe(separate);
+    expect(Array.from(separate)).toEqual(Array.from(ref.volume.data));
+    const own = makeVolume({ ...run, data: Float32Array.from(run.data) });
+    const b = await smoothStep(own, { fwhmMm: 6 }, { ...ctx, outputBuffer: () => own.data });
+    expect(b.volume.data).toBe(own.data);
+    expect(Array.from(own.data)).toEqual(Array.from(ref.volume.data));
+  });
 });
