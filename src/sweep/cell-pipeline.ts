@@ -19,7 +19,7 @@ import { isMainThread } from 'node:worker_threads';
 import { readGroupStage, writeCachedCell, writeCachedTsnr, writeGroupStage, type GroupStage } from './stage-cache.js';
 import { applyStagePatch, stagePatch, type StagePatch } from './stage-patch.js';
 import { sharesMemory } from './shares-memory.js';
-import { currentWorkBuffer, workBuffer } from './work-buffer.js';
+import { adoptWorkBuffer, currentWorkBuffer, releaseWorkBuffer, workBuffer } from './work-buffer.js';
 import { fail } from '../core/fail.js';
 import type { CellPlan, CellGroup } from './plan.js';
 import type { RecipeStep } from './spec.js';
@@ -38,15 +38,14 @@ import { randomBlockEvents } from './random-block-events.js';
  * Memory (per thread; the run itself lives once in shared memory for all workers):
  *   - one reusable run-sized work buffer (work-buffer.ts): each cell's input is rebuilt in it, and the
  *     varied step writes its output over it (smoothing in place), so a cell allocates no run of its own
- *     besides the model's residuals;
+ *     besides the model's residuals; at the start of a group the planted run takes its place;
  *   - the group stage between cells: when the shared steps only select volumes of the unplanted run
  *     (dropping initial volumes), as that selection plus the planted voxels' series (stage-patch.ts,
  *     a few percent of a run); otherwise as a whole run (memory mode) or on disk (disk mode, read
  *     back into the work buffer);
- *   - while the model runs: the work buffer and the residuals. Dropped run-sized arrays (the planted
- *     run once its patch is taken, the residuals after each cell) are collected at once.
- * A worker so holds two run-sized arrays at the peak of a cell (three while a group's planted run
- * is being patched, or with a whole held stage).
+ *   - while the model runs: the work buffer and the residuals. Dropped run-sized arrays (the work
+ *     buffer before planting, the residuals after each cell) are collected at once.
+ * A worker so holds at most two run-sized arrays at a time (three with a whole held stage).
  */
 
 function sharedRunVolume(ctx: SweepContext): Volume {
@@ -167,6 +166,12 @@ async function obtainStage(task: SweepTask, trialType: string): Promise<{ stage:
     const cached = readGroupStage(ctx.cacheDir, task.group.key, workBuffer);
     if (cached) return { stage: toHeld(cached, { whole: cached.volume.data }), how: 'cached' };
   }
+  if (!isMainThread && task.group.plant.count > 0) {
+    // planting makes a copy of the run: free the work buffer first (its contents are not needed),
+    // so the copy takes its place rather than sitting beside it
+    releaseWorkBuffer();
+    release();
+  }
   const stage = await computeGroupStage(ctx, task.group, trialType);
   if (ctx.stageMode === 'disk' && ctx.cacheDir) await writeGroupStage(ctx.cacheDir, task.group.key, stage);
   // nothing planted and only volumes selected: the stage is the shared run itself
@@ -174,7 +179,9 @@ async function obtainStage(task: SweepTask, trialType: string): Promise<{ stage:
   const base = await unplantedBase(ctx, task.group, { sidecar: ctx.sidecar, events: groupEvents(ctx, task.group), mask: ctx.brainMask });
   const patch = base ? stagePatch(stage.volume.data, base, voxelsPerVolume(stage.volume), MAX_PATCH_FRACTION) : null;
   if (base && patch) {
-    release(); // the planted run
+    // the planted run (made for this stage alone) becomes the work buffer; rebuilding the stage in
+    // it then writes the values it already holds
+    if (!isMainThread) adoptWorkBuffer(stage.volume.data);
     return { stage: toHeld(stage, { base, patch }), how: 'computed' };
   }
   return { stage: toHeld(stage, { whole: stage.volume.data }), how: 'computed' };
@@ -227,7 +234,8 @@ const finite = (x: number): number | null => (Number.isFinite(x) ? x : null);
  * Collect dropped run-sized arrays now (in a worker thread). V8 frees such external memory lazily,
  * so without this a worker would keep a dead planted run or the last cell's residuals while the
  * model allocates new ones. A full collection costs 10-20 ms, so it runs only when a run-sized
- * array was dropped: once per cell (the residuals) and once per group (the planted run).
+ * array was dropped: once per cell (the residuals) and once per group (the work buffer, before
+ * planting).
  */
 function release(): void {
   if (!isMainThread) collectGarbage();

@@ -22,6 +22,18 @@ export function workBuffer(length: number): Float32Array {
 }
 
 /**
+ * Make an array this thread's work buffer (replacing the current one): a sweep worker hands over a
+ * group's planted run once its patch is taken, so the planted run's memory becomes the work buffer
+ * instead of sitting beside it. Nothing else may hold on to the array.
+ * @param array - an array the caller owns and gives up
+ * @returns nothing
+ * @example adoptWorkBuffer(stage.volume.data)
+ */
+export function adoptWorkBuffer(array: Float32Array): void {
+  buffer = array;
+}
+
+/**
  * This thread's work buffer as it is, without making one.
  * @returns the array, or null when none was made (or it was released)
  * @example const work = currentWorkBuffer()

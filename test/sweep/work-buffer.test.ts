@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { sharesMemory } from '../../src/sweep/shares-memory.js';
-import { currentWorkBuffer, releaseWorkBuffer, workBuffer } from '../../src/sweep/work-buffer.js';
+import { adoptWorkBuffer, currentWorkBuffer, releaseWorkBuffer, workBuffer } from '../../src/sweep/work-buffer.js';
 
 describe('work buffer', () => {
   it('is one array per length, replaced for another length and dropped on release', () => {
@@ -15,6 +15,15 @@ describe('work buffer', () => {
     expect(b.length).toBe(20);
     releaseWorkBuffer();
     expect(currentWorkBuffer()).toBeNull();
+  });
+  it('adopts an array the caller gives up and hands it out for its length', () => {
+    const planted = new Float32Array(50);
+    const stage = planted.subarray(10);
+    adoptWorkBuffer(stage);
+    expect(currentWorkBuffer()).toBe(stage);
+    expect(workBuffer(40)).toBe(stage);
+    expect(workBuffer(50)).not.toBe(stage);
+    releaseWorkBuffer();
   });
   it('tells arrays that share memory from those that do not', () => {
     const a = new Float32Array(10);
