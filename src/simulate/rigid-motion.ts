@@ -14,10 +14,15 @@ export interface MotionRow {
   rotZDeg: number;
 }
 
-/** An abrupt head movement: from `volume` on, the head sits at a new position (added to the slow wander). */
+/**
+ * An abrupt head movement: from `volume` on, the head sits at a new position (added to the slow
+ * wander), either for good or, like a cough or a swallow, for a few volumes before it settles back.
+ */
 export interface MotionJerk {
   /** First volume (0-based) at the new position. */
   volume: number;
+  /** Volumes spent at the new position before the head returns; null: it stays there. __Default value:__ null */
+  durationVolumes?: number | null;
   /** Step in x, y, z shift, mm. */
   shiftMm: Vec3;
   /** Step in rotation about x, y, z, degrees. */
@@ -60,7 +65,7 @@ export function rigidMotionAffine(row: Omit<MotionRow, 'volume'>, centreMm: Read
 
 /**
  * A motion table: each of the six parameters follows a slow random walk starting at 0 (volume 0 is
- * the reference position), plus an optional abrupt step (jerk).
+ * the reference position), plus an optional abrupt step (jerk), lasting or transient.
  * @param nVolumes - number of volumes
  * @param spec - wander step sizes and the jerk
  * @param rng - seeded random stream (consumed: six normal draws per volume after the first)
@@ -72,6 +77,9 @@ export function simulatedMotionTable(nVolumes: number, spec: MotionSpec, rng: Rn
   if (!(spec.wanderStepMm >= 0) || !(spec.wanderStepDeg >= 0)) fail('INVALID_ARGUMENT', `wanderStepMm and wanderStepDeg must be >= 0, got ${spec.wanderStepMm} and ${spec.wanderStepDeg}`);
   const jerk = spec.jerk;
   if (jerk && (!Number.isInteger(jerk.volume) || jerk.volume < 1 || jerk.volume >= nVolumes)) fail('INVALID_ARGUMENT', `motion jerk volume must be an integer in 1..${nVolumes - 1}, got ${jerk.volume}`);
+  const duration = jerk?.durationVolumes ?? null;
+  if (duration !== null && (!Number.isInteger(duration) || duration < 1)) fail('INVALID_ARGUMENT', `motion jerk durationVolumes must be a positive integer or null, got ${duration}`);
+  const jerkEnd = jerk ? (duration === null ? Infinity : jerk.volume + duration) : 0;
   const p = [0, 0, 0, 0, 0, 0];
   const rows: MotionRow[] = [];
   for (let v = 0; v < nVolumes; v++) {
@@ -79,7 +87,7 @@ export function simulatedMotionTable(nVolumes: number, spec: MotionSpec, rng: Rn
       // a standard draw scaled (stdlib returns NaN for a zero standard deviation)
       for (let a = 0; a < 6; a++) p[a] += (a < 3 ? spec.wanderStepMm : spec.wanderStepDeg) * rng.normal();
     }
-    const step = jerk && v >= jerk.volume ? [...jerk.shiftMm, ...jerk.rotationDeg] : [0, 0, 0, 0, 0, 0];
+    const step = jerk && v >= jerk.volume && v < jerkEnd ? [...jerk.shiftMm, ...jerk.rotationDeg] : [0, 0, 0, 0, 0, 0];
     // rounded to 1e-6 mm / deg so the written table and the applied transform agree exactly
     const q = p.map((x, a) => Math.round((x + step[a]) * 1e6) / 1e6);
     rows.push({ volume: v, shiftXMm: q[0], shiftYMm: q[1], shiftZMm: q[2], rotXDeg: q[3], rotYDeg: q[4], rotZDeg: q[5] });

@@ -29,6 +29,13 @@ describe('motion table', () => {
     for (const r of rows.slice(0, 4)) expect([r.shiftXMm, r.shiftYMm, r.shiftZMm, r.rotXDeg, r.rotYDeg, r.rotZDeg]).toEqual([0, 0, 0, 0, 0, 0]);
     for (const r of rows.slice(4)) expect([r.shiftXMm, r.shiftYMm, r.shiftZMm, r.rotXDeg, r.rotYDeg, r.rotZDeg]).toEqual([0.5, -1, 2, 1, 0, -0.5]);
   });
+  it('a transient jerk holds its step for durationVolumes, then the head is back where it was', () => {
+    const rows = simulatedMotionTable(10, { wanderStepMm: 0, wanderStepDeg: 0, jerk: { volume: 4, durationVolumes: 2, shiftMm: [0.5, -1, 2], rotationDeg: [1, 0, -0.5] } }, createRng(1));
+    const pose = (r: (typeof rows)[number]) => [r.shiftXMm, r.shiftYMm, r.shiftZMm, r.rotXDeg, r.rotYDeg, r.rotZDeg];
+    for (const v of [0, 1, 2, 3, 6, 7, 8, 9]) expect(pose(rows[v])).toEqual([0, 0, 0, 0, 0, 0]);
+    for (const v of [4, 5]) expect(pose(rows[v])).toEqual([0.5, -1, 2, 1, 0, -0.5]);
+    expect(() => simulatedMotionTable(10, { wanderStepMm: 0, wanderStepDeg: 0, jerk: { volume: 4, durationVolumes: 0, shiftMm: [1, 0, 0], rotationDeg: [0, 0, 0] } }, createRng(1))).toThrow(/durationVolumes/);
+  });
   it('the demo jerk stands out of the slow wander in the truth table', () => {
     const spec = demoPhantomSpec();
     const rows = simulatedMotionTable(spec.nVolumes, spec.motion!, createRng(7));
