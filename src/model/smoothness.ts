@@ -95,59 +95,69 @@ export function estimateSmoothness(
   const method = options.method ?? 'derivative-variance';
   if (method !== 'derivative-variance' && method !== 'lag1-autocorrelation') fail('INVALID_ARGUMENT', `method must be 'derivative-variance' or 'lag1-autocorrelation', got ${String(method)}`);
 
-  // 1. per-voxel inverse norm (0 = not used)
+  // 1. inverse norm of each in-mask voxel (0 = not used), on a compact list of those voxels
   let count = 0;
   for (let v = 0; v < n; v++) if (mask[v]) count++;
   const inMask = new Int32Array(count);
   for (let v = 0, j = 0; v < n; v++) if (mask[v]) inMask[j++] = v;
-  const sumSq = new Float64Array(n);
+  const sumSq = new Float64Array(count);
   for (let t = 0; t < nt; t++) {
     const base = t * n;
-    for (let j = 0; j < count; j++) { const v = inMask[j]; const r = residuals[base + v]; sumSq[v] += r * r; }
+    for (let j = 0; j < count; j++) { const r = residuals[base + inMask[j]]; sumSq[j] += r * r; }
   }
-  const invNorm = new Float64Array(n);
+  const invNorm = new Float64Array(count);
   let bad = 0, constantVoxels = 0;
   for (let j = 0; j < count; j++) {
-    const v = inMask[j], s = sumSq[v];
+    const s = sumSq[j];
     if (!Number.isFinite(s)) bad++;
     else if (s === 0) constantVoxels++;
-    else invNorm[v] = 1 / Math.sqrt(s);
+    else invNorm[j] = 1 / Math.sqrt(s);
   }
   if (bad > 0) fail('NON_FINITE_VOXELS', `residuals hold non-finite values in ${bad} in-mask voxels`, { details: { count: bad } });
 
-  // 2. neighbour pairs per axis (voxel v and v + stride both used), then the pooled squared differences
+  // 2. neighbour pairs per axis (voxels v - stride and v both used), then the pooled squared
+  // differences. Each used voxel knows the compact index of its used neighbour one step back along
+  // x, y and z (-1: none), so one pass per volume computes u and closes every pair it ends; each
+  // axis's pairs are then added in the order of their first voxel, in one sum per volume.
+  const compact = new Int32Array(n).fill(-1);
+  for (let j = 0; j < count; j++) if (invNorm[j] !== 0) compact[inMask[j]] = j;
   const strides = [1, nx, nx * ny] as const;
-  const lists: number[][] = [[], [], []];
-  for (let z = 0; z < nz; z++) {
-    for (let y = 0; y < ny; y++) {
-      for (let x = 0, v = nx * (y + ny * z); x < nx; x++, v++) {
-        if (invNorm[v] === 0) continue;
-        if (x + 1 < nx && invNorm[v + 1] !== 0) lists[0].push(v);
-        if (y + 1 < ny && invNorm[v + nx] !== 0) lists[1].push(v);
-        if (z + 1 < nz && invNorm[v + nx * ny] !== 0) lists[2].push(v);
-      }
+  const back = strides.map(() => new Int32Array(count).fill(-1));
+  const pairs = [0, 0, 0];
+  for (let j = 0; j < count; j++) {
+    if (invNorm[j] === 0) continue;
+    const v = inMask[j];
+    const before = [v % nx > 0, Math.floor(v / nx) % ny > 0, Math.floor(v / (nx * ny)) > 0];
+    for (let axis = 0; axis < 3; axis++) {
+      const k = before[axis] ? compact[v - strides[axis]] : -1;
+      if (k >= 0) { back[axis][j] = k; pairs[axis]++; }
     }
   }
-  const pairStarts = lists.map((l) => Int32Array.from(l));
-  pairStarts.forEach((list, axis) => {
-    if (list.length === 0) fail('INVALID_ARGUMENT', `no in-mask neighbour pairs along axis ${'xyz'[axis]}, so smoothness along it cannot be estimated`);
+  pairs.forEach((m, axis) => {
+    if (m === 0) fail('INVALID_ARGUMENT', `no in-mask neighbour pairs along axis ${'xyz'[axis]}, so smoothness along it cannot be estimated`);
   });
+  const [bx, by, bz] = back;
   const sums = [0, 0, 0];
-  const u = new Float64Array(n);
+  const u = new Float64Array(count);
   for (let t = 0; t < nt; t++) {
     const base = t * n;
-    for (let j = 0; j < count; j++) { const v = inMask[j]; u[v] = residuals[base + v] * invNorm[v]; }
-    for (let axis = 0; axis < 3; axis++) {
-      const list = pairStarts[axis], stride = strides[axis];
-      let acc = 0;
-      for (let i = 0; i < list.length; i++) { const v = list[i]; const d = u[v + stride] - u[v]; acc += d * d; }
-      sums[axis] += acc;
+    let ax = 0, ay = 0, az = 0;
+    for (let j = 0; j < count; j++) {
+      const uj = residuals[base + inMask[j]] * invNorm[j];
+      u[j] = uj;
+      const kx = bx[j], ky = by[j], kz = bz[j];
+      if (kx >= 0) { const d = uj - u[kx]; ax += d * d; }
+      if (ky >= 0) { const d = uj - u[ky]; ay += d * d; }
+      if (kz >= 0) { const d = uj - u[kz]; az += d * d; }
     }
+    sums[0] += ax;
+    sums[1] += ay;
+    sums[2] += az;
   }
 
   // 3-4. bias correction and FWHM
   const dofCorrection = (dof - 2) / (dof - 1);
-  const lambda = sums.map((s, axis) => (dofCorrection * s) / pairStarts[axis].length) as [number, number, number];
+  const lambda = sums.map((s, axis) => (dofCorrection * s) / pairs[axis]) as [number, number, number];
   const lag1 = lambda.map((l) => 1 - l / 2) as [number, number, number];
   const fwhmMmDerivative = lambda.map((l, axis) => fwhmFromDerivativeVariance(l) * spacingMm[axis]) as [number, number, number];
   const fwhmMmLag1 = lag1.map((r, axis) => fwhmFromLag1(r, spacingMm[axis])) as [number, number, number];
@@ -160,7 +170,7 @@ export function estimateSmoothness(
     lag1,
     dof,
     dofCorrection,
-    pairs: [pairStarts[0].length, pairStarts[1].length, pairStarts[2].length],
+    pairs: [pairs[0], pairs[1], pairs[2]],
     voxelsUsed: count - constantVoxels,
     constantVoxels,
   };
