@@ -230,6 +230,13 @@ async function runStepIntoWork(step: RecipeStep, volume: Volume, context: StepCo
 
 const finite = (x: number): number | null => (Number.isFinite(x) ? x : null);
 
+/** Whether the scored voxels hold both truth and non-truth voxels (an ROC curve needs both). */
+function hasBothClasses(truth: Uint8Array, scored: Uint8Array): boolean {
+  let pos = false, neg = false;
+  for (let v = 0; v < scored.length && !(pos && neg); v++) if (scored[v]) { if (truth[v]) pos = true; else neg = true; }
+  return pos && neg;
+}
+
 /**
  * Collect dropped run-sized arrays now (in a worker thread). V8 frees such external memory lazily,
  * so without this a worker would keep a dead planted run or the last cell's residuals while the
@@ -269,8 +276,10 @@ function modelAndScore(holder: { volume: Volume | null }, context: StepContext, 
   const smooth = estimateSmoothness(fit.residuals!.data, fit.residuals!.dims, brain, grid.spacingMm, { dof: fit.dof });
   fit.residuals = null;
   const thr = applyThresholdRule(maps.t.data, brain, grid.dims, ctx.threshold, { kind: 't', dof: maps.dof }, smooth.fwhmMm, grid.spacingMm);
-  const score = scoreDetection({ statistic: maps.t, survivors: thr.survivors, truth, brainMask: ctx.scoreMask, effectPct: maps.percentSignalChange, threshold: thr.threshold, thresholdMethod: thr.rule });
-  const tpr = score.truthVoxels > 0 ? (() => { const c = rocCurve(maps.t.data, truth.mask, ctx.scoreMask); return tprAtFpr(c.fpr, c.tpr, DEFAULT_FPR_GRID); })() : [];
+  // one ROC curve for both the scorecard's area and the curve table (it sorts every scored voxel)
+  const curve = hasBothClasses(truth.mask, ctx.scoreMask) ? rocCurve(maps.t.data, truth.mask, ctx.scoreMask) : undefined;
+  const score = scoreDetection({ statistic: maps.t, survivors: thr.survivors, truth, brainMask: ctx.scoreMask, effectPct: maps.percentSignalChange, threshold: thr.threshold, thresholdMethod: thr.rule, rocCurve: curve });
+  const tpr = score.truthVoxels > 0 && curve ? tprAtFpr(curve.fpr, curve.tpr, DEFAULT_FPR_GRID) : [];
   const [fx, fy, fz] = smooth.fwhmMm;
   const metrics: Record<string, number | null> = {};
   for (const [k, v] of Object.entries(score)) if (typeof v === 'number') metrics[k] = finite(v);

@@ -7,7 +7,7 @@ import { diceCoefficient } from './dice.js';
 import { effectBias } from './effect-bias.js';
 import { blobPeaks } from './blob-peaks.js';
 import { rocArea } from './roc-area.js';
-import { rocCurve } from './roc-curve.js';
+import { rocCurve, type RocCurve } from './roc-curve.js';
 
 /**
  * One flat row of a scorecard: how well one detection map found the planted activations.
@@ -102,6 +102,12 @@ export interface ScoreInput {
   connectivity?: Connectivity;
   /** ROC thresholds (see rocCurve). __Default value:__ every distinct statistic value (exact area). */
   rocThresholds?: number | ArrayLike<number>;
+  /**
+   * The ROC curve of this statistic against the truth mask within the brain mask, when the caller has
+   * already computed it (a sweep also samples it for its curve table): its area is used instead of
+   * computing the curve again. __Default value:__ computed here (with `rocThresholds`).
+   */
+  rocCurve?: RocCurve;
 }
 
 /**
@@ -144,7 +150,7 @@ export function scoreDetection(input: ScoreInput): ScoreRow {
   const clusters = clusterCounts(inBrainSurvivors, truth.mask, truth.dims, input.connectivity ?? 26);
 
   // 3. threshold-free measures: ROC area, peak location, effect size
-  const rocAuc = truthVoxels > 0 && brainVoxels > truthVoxels ? rocArea(rocCurve(stat, truth.mask, brain, input.rocThresholds)) : NaN;
+  const rocAuc = truthVoxels > 0 && brainVoxels > truthVoxels ? rocArea(input.rocCurve ?? rocCurve(stat, truth.mask, brain, input.rocThresholds)) : NaN;
   const peaks = blobPeaks(stat, truth.dims, truth.affine, truth.centresVoxel, radius, brain);
   const bias = effect && truthVoxels > 0 ? effectBias(effect, truth, brain) : undefined;
 

@@ -7,6 +7,7 @@ import { clusterCounts } from '../../src/sweep/cluster-counts.js';
 import { diceCoefficient } from '../../src/sweep/dice.js';
 import { effectBias } from '../../src/sweep/effect-bias.js';
 import { blobPeaks } from '../../src/sweep/blob-peaks.js';
+import { rocCurve } from '../../src/sweep/roc-curve.js';
 import { scoreDetection } from '../../src/sweep/score.js';
 
 // A 10 x 10 x 1 grid of 2 mm voxels; voxel (i, j) is index i + 10 j.
@@ -142,6 +143,20 @@ describe('scoreDetection', () => {
     expect(row.hitRate).toBe(1);
     expect(row.falseAlarmRate).toBe(0);
     expect(row.falseClusters).toBe(0);
+  });
+
+  it('uses a ROC curve the caller computed instead of computing it again (same row when it is the same curve)', () => {
+    const truth = handTruth();
+    const brain = new Uint8Array(100).fill(1);
+    const stat = Float32Array.from(truth.mask, (m, v) => ((v * 37) % 11) + (m ? 3 : 0));
+    const own = scoreDetection({ statistic: stat, survivors: truth.mask, truth, brainMask: brain });
+    const given = scoreDetection({ statistic: stat, survivors: truth.mask, truth, brainMask: brain, rocCurve: rocCurve(stat, truth.mask, brain) });
+    expect(given).toEqual(own);
+    expect(own.rocAuc).toBeGreaterThan(0.5);
+    expect(own.rocAuc).toBeLessThan(1);
+    // a different curve changes only the area: the row takes what it is given
+    const flat = { thresholds: Float64Array.of(Infinity, -Infinity), tpr: Float64Array.of(0, 1), fpr: Float64Array.of(0, 1), positives: 7, negatives: 93 };
+    expect(scoreDetection({ statistic: stat, survivors: truth.mask, truth, brainMask: brain, rocCurve: flat }).rocAuc).toBe(0.5);
   });
 
   it('scores a null planting (nothing planted): every survivor is a false alarm, per-blob measures undefined', () => {
