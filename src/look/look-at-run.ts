@@ -25,6 +25,14 @@ export const LOOK_MIN_VOLUMES = 12;
 /** Spikes in this many voxels of one volume (not otherwise flagged) make the volume one to censor. */
 export const SPIKE_VOXELS_FOR_CENSOR = 10;
 
+/**
+ * In a volume the volume measures already flag, this many slices or more off their usual mean are
+ * the whole image moving or changing (a head jerk shifts the slices at the edges of the head most),
+ * not separate slice dropouts; they are reported with the volume's finding. Fewer stay slice findings,
+ * so a dropout inside a flagged volume is still named.
+ */
+export const SLICES_FOR_VOLUME_EVENT = 3;
+
 /** Options of {@link lookAtRun}; every cutoff is a robust z (median / 1.4826 MAD units). */
 export interface LookOptions {
   /** A brain mask to use instead of the one made from the mean image (same grid, 3D). */
@@ -257,8 +265,9 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
   const findings: Finding[] = [];
   if (nonFiniteCount > 0) findings.push(nonFiniteFinding(nonFinite, [nx, ny, nz]));
   if (drop > 0) findings.push(steadyFinding(drop, auto, onset, modelCount, model, perVoxel, traces.globalMean));
-  findings.push(...volumeFindings(vol, traces.dvars, dvarsStd, traces.globalMean));
-  findings.push(...sliceFindings(sl));
+  const { slicesWithVolume, sliceOnly } = splitSliceFlags(sl, new Set(vol.flagged.map((f) => f.volume)));
+  findings.push(...volumeFindings(vol, traces.dvars, dvarsStd, traces.globalMean, slicesWithVolume));
+  findings.push(...sliceFindings(sl, sliceOnly));
   const explainedVolume = new Set(sl.wholeVolumeEvents);
   const unexplained = spikes.filter((s) => !explainedVolume.has(s.volume));
   findings.push(...spikeFindings(unexplained, maxSpikeFindings, spikeCutoffZ));
@@ -375,7 +384,16 @@ function steadyFinding(drop: number, auto: boolean, onset: SteadyStateOnset, mod
   };
 }
 
-function volumeFindings(vol: VolumeOutliers, dvars: Float64Array, dvarsStd: Float64Array, g: Float64Array): Finding[] {
+/** Slice flags of flagged volumes with {@link SLICES_FOR_VOLUME_EVENT} or more of them (per volume) apart from the rest. */
+function splitSliceFlags(sl: SliceOutliers, flaggedVolumes: Set<number>): { slicesWithVolume: Map<number, number[]>; sliceOnly: SliceOutliers['flagged'] } {
+  const perVolume = new Map<number, number[]>();
+  for (const f of sl.flagged) perVolume.set(f.volume, [...(perVolume.get(f.volume) ?? []), f.slice]);
+  const slicesWithVolume = new Map<number, number[]>();
+  for (const [t, slices] of perVolume) if (flaggedVolumes.has(t) && slices.length >= SLICES_FOR_VOLUME_EVENT) slicesWithVolume.set(t, slices.sort((a, b) => a - b));
+  return { slicesWithVolume, sliceOnly: sl.flagged.filter((f) => !slicesWithVolume.has(f.volume)) };
+}
+
+function volumeFindings(vol: VolumeOutliers, dvars: Float64Array, dvarsStd: Float64Array, g: Float64Array, slicesWithVolume: Map<number, number[]>): Finding[] {
   const runs: Array<typeof vol.flagged> = [];
   for (const f of vol.flagged) {
     const last = runs[runs.length - 1];
@@ -388,15 +406,21 @@ function volumeFindings(vol: VolumeOutliers, dvars: Float64Array, dvarsStd: Floa
     const kind = jump ? 'volume-jump' as const : 'global-signal' as const;
     const maxD = Math.max(...group.map((f) => f.dvarsZ).filter(Number.isFinite));
     const maxG = group.reduce((m, f) => (Math.abs(f.globalZ) > Math.abs(m) ? f.globalZ : m), 0);
-    const reason = jump
+    const withSlices = volumes.filter((t) => slicesWithVolume.has(t));
+    const slices = [...new Set(withSlices.flatMap((t) => slicesWithVolume.get(t)!))].sort((a, b) => a - b);
+    const sliceText = withSlices.length
+      ? `; slice means move with it (${withSlices.map((t) => `${slicesWithVolume.get(t)!.length} slices of volume ${t}`).join(', ')}), as when the whole head moves`
+      : '';
+    const reason = (jump
       ? `DVARS robust z up to ${maxD.toFixed(1)} (cutoff ${vol.cutoffZ}, one-sided): the image changes abruptly from the volume before`
-      : `global mean robust z ${signed(maxG)} (cutoff +-${vol.cutoffZ}) after removing drift`;
+      : `global mean robust z ${signed(maxG)} (cutoff +-${vol.cutoffZ}) after removing drift`) + sliceText;
     return {
-      kind, volumes, slices: [], voxels: [],
+      kind, volumes, slices, voxels: [],
       evidence: {
         dvarsSignal: volumes.map((t) => round(dvars[t], 3)), dvarsStandardised: volumes.map((t) => round(dvarsStd[t], 3)),
         dvarsZ: group.map((f) => round(f.dvarsZ, 2)), globalMean: volumes.map((t) => round(g[t], 3)), globalZ: group.map((f) => round(f.globalZ, 2)),
         cutoffZ: vol.cutoffZ,
+        slicesOffPerVolume: volumes.map((t) => slicesWithVolume.get(t)?.length ?? 0),
       },
       reason,
       advice: FINDING_ADVICE[kind],
@@ -407,8 +431,8 @@ function volumeFindings(vol: VolumeOutliers, dvars: Float64Array, dvarsStd: Floa
   });
 }
 
-function sliceFindings(sl: SliceOutliers): Finding[] {
-  return sl.flagged.map((f) => {
+function sliceFindings(sl: SliceOutliers, flagged: SliceOutliers['flagged']): Finding[] {
+  return flagged.map((f) => {
     const kind = f.direction === 'dark' ? 'slice-dropout' as const : 'slice-bright' as const;
     const pct = (100 * (f.value - f.typical)) / f.typical;
     return {

@@ -172,15 +172,27 @@ export function defaultPhantomSpec(): PhantomSpec {
 }
 
 /**
- * The spec of the committed demo run (data-demo/): the defaults plus one head jerk at volume 83,
- * field inhomogeneity around the sinus, three single-voxel spikes and one slice dropout.
+ * The spec of the committed demo run (data-demo/): the defaults with weaker spatially coherent noise
+ * (grey-matter physiological fluctuation 0.2 %, smooth field 0.1 %), plus a two-volume head jerk at
+ * volume 83, field inhomogeneity around the sinus, three single-voxel spikes and one slice dropout.
  * @returns a fresh spec
  * @example const run = simulatePhantomRun(demoPhantomSpec())
  */
 export function demoPhantomSpec(): PhantomSpec {
   const spec = defaultPhantomSpec();
   spec.seed = 20240611;
-  spec.motion = { wanderStepMm: 0.01, wanderStepDeg: 0.01, jerk: { volume: 83, shiftMm: [0.3, 0.8, 1.2], rotationDeg: [1.5, 0.2, -0.4] } };
+  // the head jerks at volume 83 and settles back two volumes later (a cough or a swallow): the look
+  // must find it, and censoring those volumes leaves a run a recipe without motion correction can use
+  spec.motion = { wanderStepMm: 0.01, wanderStepDeg: 0.01, jerk: { volume: 83, durationVolumes: 2, shiftMm: [0.3, 0.8, 1.2], rotationDeg: [1.5, 0.2, -0.4] } };
+  // noise mostly thermal, hence close to white in space: spatially coherent fluctuation (physiology,
+  // the smooth field) is kept small so that planted blobs are found best near their own width, as the
+  // matched-filter principle predicts for white noise; coloured noise pulls the best width lower
+  spec.physio = {
+    ...spec.physio!,
+    cardiacPercent: { ...spec.physio!.cardiacPercent, 'grey-matter': 0.2, 'white-matter': 0.1 },
+    respirationPercent: { ...spec.physio!.respirationPercent, 'grey-matter': 0.2, 'white-matter': 0.1 },
+  };
+  spec.smoothNoise = { fwhmMm: 12, percent: 0.1 };
   spec.b0 = { susceptibilityDifferencePpm: 9.4, dephasing: true, distortion: true };
   spec.spikes = [
     { volume: 37, amplitude: 2500 },

@@ -11,7 +11,7 @@ export interface DefaultSmoothingOptions {
   fwhmsMm?: number[];
   /** Planted blob sizes (FWHM, mm). __Default value:__ [8] */
   sizesFwhmMm?: number[];
-  /** Planted peak amplitude, percent signal change. __Default value:__ 1.5 */
+  /** Planted peak amplitude, percent signal change. __Default value:__ 1 */
   amplitudePct?: number;
   /** Blobs per planting. __Default value:__ 6 */
   count?: number;
@@ -27,7 +27,7 @@ export interface DefaultSmoothingOptions {
 
 /**
  * The default smoothing sweep: Gaussian smoothing FWHM over 0-14 mm in 2 mm steps, 20 plantings of six
- * 8 mm FWHM Gaussian activations at 1.5 % peak signal change, GLM with AR(1) (autocorrelation map
+ * 8 mm FWHM Gaussian activations at 1 % peak signal change, GLM with AR(1) (autocorrelation map
  * smoothed at 15 mm FWHM) and a 128 s cosine drift set, family-wise error 0.05 by random-field
  * theory. (A 1-2 % BOLD change at 3 T and a 128 s drift cutoff are common practice, no source.)
  * @param o - overrides
@@ -44,7 +44,7 @@ export function defaultSmoothingSpec(o: DefaultSmoothingOptions = {}): SweepSpec
       { step: 'smooth', params: { fwhmMm: fwhms[0], mode: 'reflect', withinMask: false } },
     ],
     vary: { 'smooth.fwhmMm': fwhms },
-    plant: { shape: 'gaussian', sizesFwhmMm: o.sizesFwhmMm ?? [8], amplitudesPct: [o.amplitudePct ?? 1.5], count: o.count ?? 6, marginMm: o.marginMm ?? null, separation: 2 },
+    plant: { shape: 'gaussian', sizesFwhmMm: o.sizesFwhmMm ?? [8], amplitudesPct: [o.amplitudePct ?? 1], count: o.count ?? 6, marginMm: o.marginMm ?? null, separation: 2 },
     repeats: o.repeats ?? 20,
     threshold: { kind: 'fwe-rft', alpha: 0.05, q: 0.05, clusterFormingP: 0.001 },
     model: { ar1: true, ar1SmoothFwhmMm: DEFAULT_AR1_SMOOTH_FWHM_MM, highpassCutoffSec: 128, trialType: null, censorVolumes: o.censorVolumes ?? [] },

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { lookAtRun, type LookResult } from '../../src/look/look-at-run.js';
+import { lookAtRun, SLICES_FOR_VOLUME_EVENT, type LookResult } from '../../src/look/look-at-run.js';
 import { findingsTable } from '../../src/look/findings-table.js';
 import { demoPhantomSpec } from '../../src/simulate/phantom-spec.js';
 import { simulatePhantomRun } from '../../src/simulate/simulate-phantom-run.js';
@@ -28,6 +28,16 @@ describe('look at the demo phantom', () => {
     const f = look.findings.find((x) => x.kind === 'volume-jump' && x.volumes.includes(jerk!.volume));
     expect(f, look.verdicts.join('\n')).toBeTruthy();
     expect(look.recommendation.censorVolumes).toContain(jerk!.volume);
+  });
+
+  it('reports the jerk as one abrupt change, not as slice dropouts of its volumes', () => {
+    // the jerk moves the head for durationVolumes volumes; slices at the edges of the head change most
+    const jerk = phantom.truth.spec.motion!.jerk!;
+    const moved = Array.from({ length: (jerk.durationVolumes ?? 1) + 1 }, (_, i) => jerk.volume + i);
+    const sliceKinds = look.findings.filter((f) => (f.kind === 'slice-dropout' || f.kind === 'slice-bright') && moved.includes(f.volumes[0]));
+    expect(sliceKinds.map((f) => f.verdict)).toEqual([]);
+    const jump = look.findings.find((f) => f.kind === 'volume-jump' && f.volumes.includes(jerk.volume))!;
+    expect(jump.slices.length).toBeGreaterThanOrEqual(SLICES_FOR_VOLUME_EVENT);
   });
 
   it('finds every planted spike at its voxel and volume', () => {
