@@ -233,7 +233,8 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
   const tsnrTasks: TsnrTask[] = [...tsnrTodo.values()].map((t, i) => ({ kind: 'tsnr', index: taskCells.length + i, key: t.key, steps: t.steps, context: ctxPlain }));
   const tasks: SweepTask[] = taskCells.map((t, i) => ({
     kind: 'cells', index: i, group: plan.groups[t.group], cells: t.cells,
-    // a group stage goes to disk when other tasks (or a resumed sweep) can reuse it
+    // a group stage goes to disk when other tasks (or a resumed sweep) can reuse it (cell-pipeline.ts
+    // keeps a stage it can patch in memory instead)
     context: reuse && cacheDir && (splitGroups.has(t.group) || plan.splitAt > 0) ? ctxDisk : ctxPlain,
   }));
 

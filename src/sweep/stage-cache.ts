@@ -12,7 +12,8 @@ import type { CellResult, TsnrResult } from './sweep-task.js';
  *
  *   <dir>/cells/<key>.json    one finished cell (its metrics, curve, notes, seconds)
  *   <dir>/tsnr/<key>.json     the tSNR of one setting's recipe on the run
- *   <dir>/groups/<key>.f32    a group stage: the planted run after the shared steps (raw float32)
+ *   <dir>/groups/<key>.f32    a group stage: the planted run after the shared steps (raw float32), when
+ *                             a sweep cannot keep it as a small patch (see cell-pipeline.ts)
  *   <dir>/groups/<key>.json   its geometry, step context, notes and planted truth (written last)
  */
 

@@ -1,4 +1,4 @@
-import { mkdtempSync, readdirSync, rmSync } from 'node:fs';
+import { existsSync, mkdtempSync, readdirSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -62,11 +62,30 @@ describe('runSweep', () => {
     expect(scorecardToTsv(here.scorecard)).toBe(scorecardToTsv(one.scorecard));
   });
 
+  it('same scorecard whichever way a group stage is kept: patched, whole in memory, whole on disk, or recomputed', async () => {
+    // grand-mean-scale rescales every voxel, so its stage cannot be a patch of the unplanted run
+    const whole: SweepSpecInput = { ...spec, recipe: [spec.recipe[0], { step: 'grand-mean-scale', params: {} }, spec.recipe[1]] };
+    const ref = scorecardToTsv((await runSweep(run, whole, { workers: 1, placementMask: run.greyMatter, reuseStages: false })).scorecard);
+    const inMemory = await runSweep(run, whole, { workers: 2, placementMask: run.greyMatter });
+    expect(scorecardToTsv(inMemory.scorecard)).toBe(ref);
+    const dir = mkdtempSync(join(tmpdir(), 'boldsweep-runner-whole-'));
+    try {
+      const onDisk = await runSweep(run, whole, { workers: 2, placementMask: run.greyMatter, cacheDir: dir, keepStages: true });
+      expect(scorecardToTsv(onDisk.scorecard)).toBe(ref);
+      expect(readdirSync(join(dir, 'groups')).filter((f) => f.endsWith('.f32'))).toHaveLength(2); // one whole stage per repeat
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+    const recomputed = await runSweep(run, spec, { workers: 2, placementMask: run.greyMatter, reuseStages: false });
+    expect(scorecardToTsv(recomputed.scorecard)).toBe(scorecardToTsv(one.scorecard));
+  });
+
   it('resumes from its cache: only missing cells are computed, with the same result', async () => {
     const first = await runSweep(run, spec, { workers: 2, placementMask: run.greyMatter, cacheDir: cache });
     expect(first.stats.cellsComputed).toBe(4);
-    // group stages are removed once their cells are done; cell results stay
-    expect(readdirSync(join(cache, 'groups'))).toEqual([]);
+    // no group stage is left once its cells are done (a stage kept as a patch is never written); cell results stay
+    const groups = join(cache, 'groups');
+    expect(existsSync(groups) ? readdirSync(groups) : []).toEqual([]);
     // an interrupted sweep: two finished cells lost
     const cells = readdirSync(join(cache, 'cells'));
     expect(cells).toHaveLength(4);
