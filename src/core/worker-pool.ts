@@ -2,7 +2,7 @@ import { existsSync, statSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
 import { dirname, join, relative, sep } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
-import { Worker, type Transferable } from 'node:worker_threads';
+import { Worker, type ResourceLimits, type Transferable } from 'node:worker_threads';
 import { BoldsweepError } from './errors.js';
 import { fail } from './fail.js';
 import { ERROR_ADVICE, messageFor, type ErrorCode } from './messages.js';
@@ -88,14 +88,15 @@ function reviveError(e: { name: string; message: string; code?: string; details?
  * Start a pool of worker threads running `script` (resolved with {@link resolveWorkerScript}).
  * Idle workers are unref'd, so a pool left open never keeps the process alive.
  * @param script - worker script URL, e.g. new URL('./smooth-worker.js', import.meta.url)
- * @param options - size: number of threads (default {@link defaultWorkerCount})
+ * @param options - size: number of threads (default {@link defaultWorkerCount}); resourceLimits:
+ *   passed to each Worker (e.g. a small young generation for threads whose data are typed arrays)
  * @returns the pool
  * @throws BoldsweepError INVALID_ARGUMENT for a bad size, WORKER_SCRIPT_MISSING when the script is not built
  * @example
  * const pool = createWorkerPool<Task, Out>(new URL('./my-worker.js', import.meta.url), { size: 2 });
  * const out = await pool.run(task); await pool.close();
  */
-export function createWorkerPool<T, R>(script: URL, options: { size?: number } = {}): WorkerPool<T, R> {
+export function createWorkerPool<T, R>(script: URL, options: { size?: number; resourceLimits?: ResourceLimits } = {}): WorkerPool<T, R> {
   const size = options.size ?? defaultWorkerCount();
   if (!Number.isInteger(size) || size < 1) fail('INVALID_ARGUMENT', `worker pool size must be a positive integer, got ${size}`);
   const url = resolveWorkerScript(script);
@@ -105,7 +106,7 @@ export function createWorkerPool<T, R>(script: URL, options: { size?: number } =
   let closed = false;
 
   const spawn = (): Slot<T, R> => {
-    const slot: Slot<T, R> = { worker: new Worker(url), busy: null };
+    const slot: Slot<T, R> = { worker: new Worker(url, options.resourceLimits ? { resourceLimits: options.resourceLimits } : {}), busy: null };
     slot.worker.unref();
     slot.worker.on('message', (msg: WorkerReply<R>) => {
       const job = slot.busy;

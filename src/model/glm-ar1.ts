@@ -2,7 +2,7 @@ import { fail } from '../core/fail.js';
 import { volumeLike, voxelsPerVolume, type Volume } from '../core/volume.js';
 import { ar1BiasTraces, correctAr1 } from './ar1.js';
 import { designPseudoInverse, type DesignMatrix } from './design-matrix.js';
-import { checkRunAndDesign, fittedVoxels, gridOf, type GlmFit, type GlmOptions } from './glm-fit.js';
+import { checkRunAndDesign, fittedVoxels, gridOf, residualsArray, type GlmFit, type GlmOptions } from './glm-fit.js';
 import { sweepVoxels, transposeToTimeMajor } from './glm-kernel.js';
 import { smoothWithinMask } from './smooth-within-mask.js';
 
@@ -127,7 +127,7 @@ export function fitGlmAr1(run: Volume, design: DesignMatrix, options: GlmAr1Opti
     }
   });
   const rss = new Float64Array(n);
-  const residuals = options.keepResiduals ? new Float32Array(nvox * nt) : null;
+  const residuals = residualsArray(options, nvox, nt, idx);
   sweepVoxels({ data: run.data, nvox, nt, p, idx, x, proj, group, rhoOfGroup, betas, rss, mean: null, lag1: null, residuals });
   const sigma2 = new Float64Array(n);
   for (let i = 0; i < n; i++) sigma2[i] = rss[i] / dof;

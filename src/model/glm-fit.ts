@@ -51,6 +51,36 @@ export interface GlmOptions {
   mask?: Volume | Uint8Array;
   /** Keep the residuals as a run (one more run-sized Float32 array). __Default value:__ false */
   keepResiduals?: boolean;
+  /**
+   * Write the kept residuals into this array (nx*ny*nz*nt values) instead of a new one; implies
+   * `keepResiduals`. It may be the fitted run's own data, which the fit then overwrites: each voxel's
+   * series is read in full before its residuals are written. Voxels outside the fit are set to 0.
+   * __Default value:__ none (a new array when `keepResiduals`)
+   */
+  residualsOut?: Float32Array;
+}
+
+/**
+ * The array the residuals of a fit go into: `options.residualsOut` (checked, with the voxels outside
+ * the fit set to 0, as in a new array), a new array when `options.keepResiduals`, else null.
+ * @param options - the fit's options
+ * @param nvox - voxels per volume
+ * @param nt - volumes
+ * @param idx - fitted voxels, ascending
+ * @returns the array, or null when residuals are not kept
+ * @throws BoldsweepError INVALID_ARGUMENT when residualsOut has the wrong length
+ * @example const residuals = residualsArray({ keepResiduals: true }, nvox, nt, idx)
+ */
+export function residualsArray(options: GlmOptions, nvox: number, nt: number, idx: Int32Array): Float32Array | null {
+  const out = options.residualsOut;
+  if (!out) return options.keepResiduals ? new Float32Array(nvox * nt) : null;
+  if (out.length !== nvox * nt) fail('INVALID_ARGUMENT', `residualsOut has ${out.length} values; the run needs ${nvox} x ${nt} = ${nvox * nt}`);
+  if (idx.length < nvox) {
+    const fitted = new Uint8Array(nvox);
+    for (let i = 0; i < idx.length; i++) fitted[idx[i]] = 1;
+    for (let t = 0, o = 0; t < nt; t++, o += nvox) for (let v = 0; v < nvox; v++) if (!fitted[v]) out[o + v] = 0;
+  }
+  return out;
 }
 
 /**

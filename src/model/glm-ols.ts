@@ -1,7 +1,7 @@
 import { volumeLike, voxelsPerVolume, type Volume } from '../core/volume.js';
 import { designPseudoInverse } from './design-matrix.js';
 import type { DesignMatrix } from './design-matrix.js';
-import { checkRunAndDesign, fittedVoxels, gridOf, type GlmFit, type GlmOptions } from './glm-fit.js';
+import { checkRunAndDesign, fittedVoxels, gridOf, residualsArray, type GlmFit, type GlmOptions } from './glm-fit.js';
 import { sweepVoxels, transposeToTimeMajor } from './glm-kernel.js';
 
 /**
@@ -33,7 +33,7 @@ export function fitGlm(run: Volume, design: DesignMatrix, options: GlmOptions = 
   const betas = new Float64Array(p * n);
   const rss = new Float64Array(n);
   const mean = new Float64Array(n);
-  const residuals = options.keepResiduals ? new Float32Array(nvox * nt) : null;
+  const residuals = residualsArray(options, nvox, nt, idx);
   sweepVoxels({ data: run.data, nvox, nt, p, idx, x, proj, group: null, rhoOfGroup: null, betas, rss, mean, lag1: null, residuals });
   const sigma2 = new Float64Array(n);
   for (let i = 0; i < n; i++) sigma2[i] = rss[i] / dof;

@@ -269,7 +269,12 @@ function modelAndScore(holder: { volume: Volume | null }, context: StepContext, 
     drift: cell.model.highpassCutoffSec ? { kind: 'dct', cutoffSec: cell.model.highpassCutoffSec } : { kind: 'none' },
     nuisance,
   });
-  const fit = cell.model.ar1 ? fitGlmAr1(volume, design, { mask: brain, keepResiduals: true, ar1SmoothFwhmMm: cell.model.ar1SmoothFwhmMm }) : fitGlm(volume, design, { mask: brain, keepResiduals: true });
+  // when the preprocessed run is this thread's work buffer (rebuilt by the next cell anyway), the
+  // residuals overwrite it: no run-sized array of the cell's own
+  const work = currentWorkBuffer();
+  const residualsOut = work !== null && work.buffer === volume.data.buffer && work.byteOffset === volume.data.byteOffset && work.length === volume.data.length ? volume.data : undefined;
+  const glmOptions = { mask: brain, keepResiduals: true, residualsOut };
+  const fit = cell.model.ar1 ? fitGlmAr1(volume, design, { ...glmOptions, ar1SmoothFwhmMm: cell.model.ar1SmoothFwhmMm }) : fitGlm(volume, design, glmOptions);
   // the preprocessed run is not needed any more: let it go before the residuals are used
   const grid = { dims: [volume.dims[0], volume.dims[1], volume.dims[2]], spacingMm: volume.spacingMm };
   holder.volume = null;

@@ -273,7 +273,9 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
       releaseWorkBuffer(); // the cells' reusable run-sized array (worker threads drop theirs when they end)
     }
   } else {
-    const pool = createWorkerPool<SweepJob, CellResult[] | TsnrResult>(new URL('./sweep-worker.js', import.meta.url), { size: Math.min(workers, jobCount) });
+    // a sweep worker's data are typed arrays outside the JavaScript heap: a small young generation
+    // (4 MB instead of V8's default) lowers its resident memory without slowing it measurably
+    const pool = createWorkerPool<SweepJob, CellResult[] | TsnrResult>(new URL('./sweep-worker.js', import.meta.url), { size: Math.min(workers, jobCount), resourceLimits: { maxYoungGenerationSizeMb: 4 } });
     const timer = setInterval(report, 250);
     try {
       // the short tSNR jobs first, then the groups

@@ -169,6 +169,17 @@ describe('fitGlmAr1', () => {
       expect(Math.abs(fit.sigma2[v] - rss / fit.dof) / fit.sigma2[v]).toBeLessThan(1e-9);
     }
   });
+
+  it('residualsOut over the run itself gives the same fit and residuals as a fresh array, bit for bit', () => {
+    // the whitened residuals of a fresh array are checked against the explicit Prais-Winsten fit above
+    const fresh = fitGlmAr1(noiseRun(37, nt, 0.3, 7), design, { keepResiduals: true });
+    const run = noiseRun(37, nt, 0.3, 7);
+    const fit = fitGlmAr1(run, design, { residualsOut: run.data });
+    expect(fit.residuals!.data).toBe(run.data);
+    expect(Array.from(run.data)).toEqual(Array.from(fresh.residuals!.data));
+    expect(Array.from(fit.betas)).toEqual(Array.from(fresh.betas));
+    expect(Array.from(fit.rho!)).toEqual(Array.from(fresh.rho!));
+  });
 });
 
 describe('fitGlmAr1: spatial smoothing of the autocorrelation map (Worsley et al. 2002, NeuroImage 15:1-15)', () => {

@@ -91,6 +91,27 @@ describe('fitGlm (OLS) against numpy.linalg.lstsq(rcond=None)', () => {
     }
   });
 
+  it('residualsOut: written over the run itself, the residuals match the numpy fixture and a fresh array bit for bit; voxels outside the mask are 0', () => {
+    const design = fixtureDesign();
+    const fresh = fitGlm(fixtureRun(), design, { keepResiduals: true }).residuals!.data;
+    const run = fixtureRun();
+    const fit = fitGlm(run, design, { residualsOut: run.data });
+    expect(fit.residuals!.data).toBe(run.data);
+    expect(Array.from(run.data)).toEqual(Array.from(fresh));
+    // against numpy's lstsq residuals (same float32 tolerance as above)
+    for (const v of [0, 77, 150]) for (let t = 0; t < nt; t++) {
+      let fitted = 0;
+      for (let j = 0; j < p; j++) fitted += fx.ols.x[t * p + j] * fx.ols.betas[j * nvox + v];
+      expect(Math.abs(run.data[t * nvox + v] - (fx.ols.y[t * nvox + v] - fitted))).toBeLessThan(1e-4);
+    }
+    const mask = new Uint8Array(nvox);
+    for (let v = 0; v < nvox; v += 3) mask[v] = 1;
+    const masked = fixtureRun();
+    fitGlm(masked, design, { mask, residualsOut: masked.data });
+    for (let t = 0; t < nt; t++) for (let v = 0; v < nvox; v++) expect(masked.data[t * nvox + v]).toBe(mask[v] ? fresh[t * nvox + v] : 0);
+    expect(() => fitGlm(fixtureRun(), design, { residualsOut: new Float32Array(5) })).toThrow(/residualsOut has 5 values/);
+  });
+
   it('recovers known betas from noise-free data and leaves the inputs untouched', () => {
     const design = fixtureDesign();
     const truth = [1.5, -2, 30, 12, 1000];
