@@ -37,14 +37,15 @@ import { randomBlockEvents } from './random-block-events.js';
  *
  * Memory (per thread; the run itself lives once in shared memory for all workers):
  *   - one reusable run-sized work buffer (work-buffer.ts): each cell's input is rebuilt in it, and the
- *     varied step writes its output over it (smoothing in place), so a cell allocates no run of its own
- *     besides the model's residuals; at the start of a group the planted run takes its place;
+ *     varied step writes its output over it (smoothing in place) and the model its residuals, so a
+ *     cell allocates no run of its own; at the start of a group the planted run takes its place;
  *   - the group stage between cells: when the shared steps only select volumes of the unplanted run
  *     (dropping initial volumes), as that selection plus the planted voxels' series (stage-patch.ts,
  *     a few percent of a run; not written to the disk cache, as planting again is cheaper);
  *     otherwise as a whole run (memory mode) or on disk (disk mode, read back into the work buffer);
- *   - while the model runs: the work buffer and the residuals. Dropped run-sized arrays (the work
- *     buffer before planting, the residuals after each cell) are collected at once.
+ *   - while the model runs: the work buffer, holding the residuals once the fit has read each voxel
+ *     (a separate residuals array only when the cell's run is not the work buffer). Dropped run-sized
+ *     arrays (the work buffer before planting, separate residuals after a cell) are collected at once.
  * A worker so holds at most two run-sized arrays at a time (three with a whole held stage).
  */
 
@@ -243,8 +244,8 @@ function hasBothClasses(truth: Uint8Array, scored: Uint8Array): boolean {
  * Collect dropped run-sized arrays now (in a worker thread). V8 frees such external memory lazily,
  * so without this a worker would keep a dead planted run or the last cell's residuals while the
  * model allocates new ones. A full collection costs 10-20 ms, so it runs only when a run-sized
- * array was dropped: once per cell (the residuals) and once per group (the work buffer, before
- * planting).
+ * array was dropped: once per cell when the residuals had an array of their own, and once per
+ * group (the work buffer, before planting).
  */
 function release(): void {
   if (!isMainThread) collectGarbage();
@@ -254,7 +255,7 @@ function release(): void {
  * Model, threshold and score one preprocessed run.
  * @returns metrics, ROC samples
  */
-function modelAndScore(holder: { volume: Volume | null }, context: StepContext, truth: PlantTruth, ctx: SweepContext, cell: CellPlan, trialType: string): { metrics: Record<string, number | null>; tpr: number[] } {
+function modelAndScore(holder: { volume: Volume | null }, context: StepContext, truth: PlantTruth, ctx: SweepContext, cell: CellPlan, trialType: string): { metrics: Record<string, number | null>; tpr: number[]; residualsInWork: boolean } {
   const brain = ctx.brainMask;
   let volume = holder.volume!;
 
@@ -272,8 +273,8 @@ function modelAndScore(holder: { volume: Volume | null }, context: StepContext, 
   // when the preprocessed run is this thread's work buffer (rebuilt by the next cell anyway), the
   // residuals overwrite it: no run-sized array of the cell's own
   const work = currentWorkBuffer();
-  const residualsOut = work !== null && work.buffer === volume.data.buffer && work.byteOffset === volume.data.byteOffset && work.length === volume.data.length ? volume.data : undefined;
-  const glmOptions = { mask: brain, keepResiduals: true, residualsOut };
+  const residualsInWork = work !== null && sharesMemory(work, volume.data) && work.length === volume.data.length;
+  const glmOptions = { mask: brain, keepResiduals: true, residualsOut: residualsInWork ? volume.data : undefined };
   const fit = cell.model.ar1 ? fitGlmAr1(volume, design, { ...glmOptions, ar1SmoothFwhmMm: cell.model.ar1SmoothFwhmMm }) : fitGlm(volume, design, glmOptions);
   // the preprocessed run is not needed any more: let it go before the residuals are used
   const grid = { dims: [volume.dims[0], volume.dims[1], volume.dims[2]], spacingMm: volume.spacingMm };
@@ -297,7 +298,7 @@ function modelAndScore(holder: { volume: Volume | null }, context: StepContext, 
     threshold: finite(thr.threshold),
     smoothnessFwhmMm: finite(Math.cbrt(fx * fy * fz)), smoothnessXMm: finite(fx), smoothnessYMm: finite(fy), smoothnessZMm: finite(fz), dof: maps.dof,
   });
-  return { metrics, tpr };
+  return { metrics, tpr, residualsInWork };
 }
 
 /**
@@ -336,12 +337,13 @@ export async function runSweepTask(task: SweepTask, onCell?: (done: number) => v
     }
     const holder = { volume };
     volume = null;
-    const { metrics, tpr } = modelAndScore(holder, context, truth, ctx, cell, trialType);
+    const { metrics, tpr, residualsInWork } = modelAndScore(holder, context, truth, ctx, cell, trialType);
     const result: CellResult = { key: cell.key, metrics, tpr, notes, seconds: (performance.now() - t0) / 1000, groupStage: how };
     if (ctx.cacheDir) await writeCachedCell(ctx.cacheDir, result);
     out.push(result);
-    // free this cell's residuals before the next cell's model allocates its own (bounded peak memory)
-    collectGarbage();
+    // free this cell's residuals, when they had an array of their own, before the next cell's model
+    // allocates its own (bounded peak memory)
+    if (!residualsInWork) collectGarbage();
     if (ctx.progress) Atomics.add(ctx.progress, task.index, 1);
     onCell?.(out.length);
   }
