@@ -8,8 +8,8 @@
 import { diagonalAffine } from '../src/core/affine.js';
 import { createRng } from '../src/core/random.js';
 import { makeVolume } from '../src/core/volume.js';
-import { plantActivations } from '../src/simulate/plant.js';
-import { scoreDetection } from '../src/sweep/score.js';
+import { plantActivations } from '../src/plant/plant-activations.js';
+import { scoreDetection } from '../src/score/score-detection.js';
 import { timeMedianSec } from './bench-kit.js';
 
 /** Median milliseconds of 5 calls of `f`, no warm-up call. */

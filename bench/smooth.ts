@@ -17,7 +17,7 @@ import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { makeVolume } from '../src/core/volume.js';
 import { closeSharedWorkerPools } from '../src/core/worker-pool.js';
-import { smoothRun } from '../src/steps/smooth-run.js';
+import { smoothRun } from '../src/filter/smooth-run.js';
 import { noisyHeadRun, packageRoot, timeMedianSec } from './bench-kit.js';
 
 const DIMS: [number, number, number, number] = [64, 64, 36, 200];

@@ -19,7 +19,7 @@ import { estimateSmoothness } from '../src/model/smoothness.js';
 import { thresholdClusterExtent } from '../src/model/threshold-cluster.js';
 import { thresholdFdr } from '../src/model/threshold-fdr.js';
 import { thresholdRft } from '../src/model/threshold-rft.js';
-import { smoothVolume3d } from '../src/steps/gaussian-smooth.js';
+import { smoothVolume3d } from '../src/filter/gaussian-smooth.js';
 import { packageRoot, timeMedianSec } from './bench-kit.js';
 
 const DIMS: [number, number, number, number] = [64, 64, 36, 200];

@@ -1,32 +1,61 @@
 /**
- * boldsweep public API. Re-exports only; every export is documented where it is defined.
+ * boldsweep public API: what the README and the notebooks use, in the order of the main job.
+ * Everything else (kernels, engine parts) is under `boldsweep/internals` (src/internals.ts).
  *
- *   open run -> look -> plant -> recipe -> model -> score -> sweep -> decide
+ *   open run -> look -> plant -> recipe -> model -> score -> sweep -> decide -> report
  */
 
-// core
+// core types and errors
 export { BoldsweepError, isBoldsweepError } from './core/errors.js';
 export { ERROR_ADVICE, type ErrorCode } from './core/messages.js';
-export {
-  type Affine, type Vec3, type NiftiQuaternion, identityAffine, affineFromRows, composeAffine, invertAffine, applyAffine,
-  affineDeterminant, affineSpacing, diagonalAffine, affineFromQuaternion, affineToQuaternion,
-} from './core/affine.js';
-export { type Volume, type Dims4, makeVolume, volumeLike, volumeAt, voxelsPerVolume, sameGrid, assertSameGrid, runBytes } from './core/volume.js';
+export { type Affine, type Vec3, identityAffine, composeAffine, invertAffine, applyAffine, diagonalAffine } from './core/affine.js';
+export { type Volume, type Dims4, makeVolume, volumeLike, volumeAt, voxelsPerVolume, sameGrid, runBytes } from './core/volume.js';
 export { type Rng, createRng, childSeed } from './core/random.js';
 export { summariseVolume } from './core/summary.js';
+export { type BoundaryMode, BOUNDARY_MODES } from './core/boundary-mode.js';
 
-// io
+// open a run
 export type { Run, Sidecar, BoldEvent, NiftiReadInfo, TransformSource } from './io/run-types.js';
-export { labelComponents, type Connectivity, type Components } from './core/components.js';
+export { openRun, readNifti, writeNifti, readSidecar, readEvents } from './io/index.js';
 
-// each module's public API (each module's index.ts lists its exports)
-export * from './io/index.js';
-export * from './look/index.js';
-export * from './resample/index.js';
-export * from './register/index.js';
-export * from './steps/index.js';
-export * from './model/index.js';
-export * from './simulate/index.js';
-export * from './sweep/index.js';
-export * from './report/index.js';
-export * from './notebook/index.js';
+// look
+export {
+  lookAtRun, findingsTable, meanImage, voxelRasterRows,
+} from './look/index.js';
+
+// plant
+export { plantActivations, plantTimeCourse, type PlantOptions, type PlantTruth, type PlantedBlob, type BlobShapeSpec } from './plant/index.js';
+
+// recipe steps
+export {
+  type StepNote, type StepContext, type StepResult, type StepFunction, type StepDefinition,
+  registerStep, getStep, listSteps, parseStepParams, applyStep, describeStep,
+} from './steps/index.js';
+export { smoothRun, smoothVolume3d } from './filter/index.js';
+
+// model
+export { hrfValues, buildDesign, fitGlm, fitGlmAr1, contrastMaps, estimateSmoothness } from './model/index.js';
+export { thresholdUncorrected, thresholdBonferroni, thresholdFdr, thresholdRft, thresholdClusterExtent } from './model/index.js';
+
+// score
+export { scoreDetection, type ScoreRow } from './score/index.js';
+
+// sweep
+export {
+  type SweepSpec, type SweepSpecInput, parseSweepSpec, readSweepSpec, defaultSmoothingSpec, settingText,
+  runSweep, type SweepResult, gatherResults, shareVolume, buildMask, maskFromFile, lineProgress, scorecardFrame,
+  type Scorecard,
+} from './sweep/index.js';
+
+// decide
+export { summariseScorecard, recommendSetting, type Recommendation, type SettingSummary } from './decide/index.js';
+
+// report
+export {
+  RESEARCH_CAUTION, renderSvg, threePlanePng, sliceGridPng, voxelRasterSvg, lookTracesSpec, voxelTimeCourseSpec, chosenVoxels, maskCentre,
+  writeLookFolder, detectionChart, falseAlarmChart, rocChart, smoothnessChart, tsnrChart, methodsText, methodsMarkdown,
+  thresholdText, runFacts, writeReport, writeSweepFolder, readDecisionRecord, recordDir, rerunRecord,
+} from './report/index.js';
+
+// the digital phantom
+export { simulatePhantomRun, writePhantomRun, demoPhantomSpec, defaultPhantomSpec, TISSUE_LABEL } from './simulate/index.js';

@@ -1,7 +1,7 @@
 /**
  * Byte encoders for hand-built WebAssembly modules (core spec 2.0, section 5 "Binary Format"):
  * LEB128 integers, names, vectors and sections. Shared by the generated SIMD kernels
- * (src/steps/conv-wasm.ts, src/look/voxel-sums-wasm.ts) so each kernel file holds only its code.
+ * (src/filter/conv-wasm.ts, src/look/voxel-sums-wasm.ts) so each kernel file holds only its code.
  */
 
 /**

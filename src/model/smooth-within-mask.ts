@@ -1,6 +1,6 @@
 import { fail } from '../core/fail.js';
-import type { BoundaryMode } from '../steps/boundary-index.js';
-import { smoothVolume3d } from '../steps/gaussian-smooth.js';
+import type { BoundaryMode } from '../core/boundary-mode.js';
+import { smoothVolume3d } from '../filter/gaussian-smooth.js';
 
 /** Options for {@link smoothWithinMask}. */
 export interface SmoothWithinMaskOptions {

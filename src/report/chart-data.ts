@@ -1,5 +1,5 @@
 import type { Scorecard } from '../sweep/scorecard.js';
-import { summariseScorecard } from '../sweep/summarise-scorecard.js';
+import { summariseScorecard } from '../decide/summarise-scorecard.js';
 import { settingLabel, type Setting } from '../sweep/settings-grid.js';
 import { fail } from '../core/fail.js';
 

@@ -1,5 +1,5 @@
 import type { TopLevelSpec } from 'vega-lite';
-import type { CurveTable } from '../sweep/curve-table.js';
+import type { CurveTable } from '../score/curve-table.js';
 import type { Scorecard } from '../sweep/scorecard.js';
 import { plantLabel } from './chart-data.js';
 import { axisTitle, parameterLabel } from './chart-labels.js';

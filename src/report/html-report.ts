@@ -1,5 +1,5 @@
-import type { Recommendation } from '../sweep/recommend.js';
-import type { SettingSummary } from '../sweep/summarise-scorecard.js';
+import type { Recommendation } from '../decide/recommend-setting.js';
+import type { SettingSummary } from '../decide/summarise-scorecard.js';
 import { settingText } from '../sweep/settings-grid.js';
 import { RESEARCH_CAUTION } from './caution.js';
 import { escapeHtml } from './html-escape.js';

@@ -1,6 +1,6 @@
 import type { DecisionRecord } from './decision-record-types.js';
 import { parameterName, settingLabel, settingText } from '../sweep/settings-grid.js';
-import { metricWords } from '../sweep/recommend.js';
+import { metricWords } from '../decide/recommend-setting.js';
 import { unitOf } from './chart-labels.js';
 import { RESEARCH_CAUTION } from './caution.js';
 

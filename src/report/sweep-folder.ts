@@ -2,7 +2,7 @@ import { existsSync, mkdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { fail } from '../core/fail.js';
 import { writeFileAtomic } from '../io/atomic-write.js';
-import { curveTableToTsv, readCurveTableTsv } from '../sweep/curve-table.js';
+import { curveTableToTsv, readCurveTableTsv } from '../score/curve-table.js';
 import type { MaskSource } from '../sweep/mask-source.js';
 import type { SweepResult } from '../sweep/runner.js';
 import { readScorecardTsv, scorecardToTsv, timingsToTsv } from '../sweep/scorecard-tsv.js';

@@ -1,9 +1,9 @@
 import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { writeFileAtomic } from '../io/atomic-write.js';
-import { recommendSetting, type RecommendOptions, type Recommendation } from '../sweep/recommend.js';
+import { recommendSetting, type RecommendOptions, type Recommendation } from '../decide/recommend-setting.js';
 import { parameterName, settingText } from '../sweep/settings-grid.js';
-import { summariseScorecard } from '../sweep/summarise-scorecard.js';
+import { summariseScorecard } from '../decide/summarise-scorecard.js';
 import { detectionChart, falseAlarmChart, smoothnessChart, tsnrChart } from './charts-sweep.js';
 import { rocChart } from './charts-roc.js';
 import { buildDecisionRecord } from './decision-record.js';

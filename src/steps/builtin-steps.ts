@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { BOUNDARY_MODES, type BoundaryMode } from './boundary-index.js';
+import { BOUNDARY_MODES, type BoundaryMode } from '../core/boundary-mode.js';
 import { dropInitialVolumesStep, type DropInitialVolumesParams } from './drop-initial-volumes.js';
 import { grandMeanScaleStep, type GrandMeanScaleParams } from './grand-mean-scale.js';
 import { percentSignalChangeStep, type PercentSignalChangeParams } from './percent-signal-change.js';

@@ -1,9 +1,9 @@
 import { fail } from '../core/fail.js';
 import type { Volume } from '../core/volume.js';
-import { BOUNDARY_MODES, type BoundaryMode } from './boundary-index.js';
-import { DEFAULT_TRUNCATE, fwhmToSigma, gaussianKernel1d, sigmaVoxels } from './gaussian-kernel.js';
+import { BOUNDARY_MODES, type BoundaryMode } from '../core/boundary-mode.js';
+import { DEFAULT_TRUNCATE, fwhmToSigma, gaussianKernel1d, sigmaVoxels } from '../filter/gaussian-kernel.js';
 import { requireMask } from './require-mask.js';
-import { smoothRun } from './smooth-run.js';
+import { smoothRun } from '../filter/smooth-run.js';
 import type { StepFunction } from './step-types.js';
 
 /** Parameters of {@link smoothStep}. */

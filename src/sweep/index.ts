@@ -1,16 +1,4 @@
 // sweep: public exports of this module (re-exports only; src/index.ts re-exports this file).
-export { scoreDetection } from './score.js';
-export type { ScoreInput, ScoreRow } from './score.js';
-export { rocCurve } from './roc-curve.js';
-export type { RocCurve } from './roc-curve.js';
-export { rocArea } from './roc-area.js';
-export { diceCoefficient } from './dice.js';
-export { clusterCounts } from './cluster-counts.js';
-export type { ClusterCounts } from './cluster-counts.js';
-export { blobPeaks } from './blob-peaks.js';
-export type { BlobPeaks } from './blob-peaks.js';
-export { effectBias } from './effect-bias.js';
-export type { EffectBias } from './effect-bias.js';
 // sweep engine: spec, plan, runner, cache, scorecard, recommendation
 export { sweepSpecSchema, parseSweepSpecShape, type SweepSpec, type SweepSpecInput, type RecipeStep, type PlantSpec, type ThresholdRule, type ModelOptions, type EventsRule } from './spec.js';
 export { parseSweepSpec, isSpecError } from './parse-sweep-spec.js';
@@ -35,7 +23,3 @@ export { SCORECARD_METRICS, type ScorecardMetric } from './cell-metrics.js';
 export { scorecardColumns, rowSetting, SCORECARD_ID_COLUMNS, SCORECARD_PLANT_COLUMNS, type Scorecard, type ScorecardRow, type ScorecardValue } from './scorecard.js';
 export { scorecardToTsv, timingsToTsv, readScorecardTsv } from './scorecard-tsv.js';
 export { scorecardFrame } from './scorecard-frame.js';
-export { summariseScorecard, type SettingSummary } from './summarise-scorecard.js';
-export { meanInterval, proportionInterval, type MeanInterval, type ProportionInterval } from './confidence.js';
-export { DEFAULT_FPR_GRID, tprAtFpr, curveTableToTsv, readCurveTableTsv, type CurveTable } from './curve-table.js';
-export { recommendSetting, metricWords, STANDING_CAVEATS, type Recommendation, type RecommendOptions, type PlantChoice, type SettingEvidence } from './recommend.js';

@@ -9,7 +9,7 @@ import type { StepNote } from '../steps/step-types.js';
 import { runSweepTask, runTsnrTask } from './cell-pipeline.js';
 import { collectGarbage } from './collect-garbage.js';
 import { SCORECARD_METRICS } from './cell-metrics.js';
-import { DEFAULT_FPR_GRID, type CurveTable } from './curve-table.js';
+import { DEFAULT_FPR_GRID, type CurveTable } from '../score/curve-table.js';
 import { planSweep, type CellPlan, type SweepPlan } from './plan.js';
 import type { SweepProgress } from './progress.js';
 import type { Scorecard, ScorecardRow } from './scorecard.js';

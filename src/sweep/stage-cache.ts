@@ -3,7 +3,7 @@ import { join } from 'node:path';
 import { writeFileAtomic } from '../io/atomic-write.js';
 import type { Volume } from '../core/volume.js';
 import type { StepContext, StepNote } from '../steps/step-types.js';
-import type { PlantTruth } from '../simulate/plant.js';
+import type { PlantTruth } from '../plant/plant-activations.js';
 import type { CellResult, TsnrResult } from './sweep-task.js';
 
 /**

@@ -47,14 +47,14 @@ import { fitGlm } from '../../src/model/glm-ols.js';
 import { estimateSmoothness } from '../../src/model/smoothness.js';
 import { thresholdRft } from '../../src/model/threshold-rft.js';
 import { thresholdUncorrected } from '../../src/model/threshold-uncorrected.js';
-import { plantActivations } from '../../src/simulate/plant.js';
-import { plantTimeCourse } from '../../src/simulate/plant-time-course.js';
+import { plantActivations } from '../../src/plant/plant-activations.js';
+import { plantTimeCourse } from '../../src/plant/plant-time-course.js';
 import { TISSUE_LABEL } from '../../src/simulate/tissue-properties.js';
 import { resolvePhantomSpec } from '../../src/simulate/phantom-spec.js';
 import { simulatePhantomRun } from '../../src/simulate/simulate-phantom-run.js';
 import { dropInitialVolumesStep } from '../../src/steps/drop-initial-volumes.js';
-import { smoothRun } from '../../src/steps/smooth-run.js';
-import { scoreDetection, type ScoreRow } from '../../src/sweep/score.js';
+import { smoothRun } from '../../src/filter/smooth-run.js';
+import { scoreDetection, type ScoreRow } from '../../src/score/score-detection.js';
 
 const BASE = new URL('../../data-demo/sub-phantom01_task-flicker', import.meta.url).pathname;
 const KERNELS_MM = [0, 4, 8, 16] as const;

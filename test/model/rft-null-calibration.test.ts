@@ -6,7 +6,7 @@ import { rftCriticalValue } from '../../src/model/rft-critical-value.js';
 import { estimateSmoothness } from '../../src/model/smoothness.js';
 import { thresholdClusterExtent } from '../../src/model/threshold-cluster.js';
 import { thresholdRft } from '../../src/model/threshold-rft.js';
-import { smoothVolume3d } from '../../src/steps/gaussian-smooth.js';
+import { smoothVolume3d } from '../../src/filter/gaussian-smooth.js';
 
 /*
  * Null calibration of the random-field FWE threshold with estimated smoothness.

@@ -4,7 +4,7 @@ import { isBoldsweepError } from '../../src/core/errors.js';
 import { createRng } from '../../src/core/random.js';
 import { estimateSmoothness, type SmoothnessEstimate } from '../../src/model/smoothness.js';
 import { fwhmFromDerivativeVariance, fwhmFromLag1, lag1FromFwhm } from '../../src/model/smoothness-formulas.js';
-import { smoothVolume3d } from '../../src/steps/gaussian-smooth.js';
+import { smoothVolume3d } from '../../src/filter/gaussian-smooth.js';
 
 // Discrete-kernel lag-1 autocorrelations and the exact finite-dof expectation: test/reference/make_smoothness_fixture.py
 // (scipy.ndimage.gaussian_filter1d impulse responses; smoothVolume3d samples the same kernel, tested in test/steps).

@@ -1,5 +1,5 @@
 #!/usr/bin/python3
-"""Reference values for the sweep's summaries (test/sweep/confidence.test.ts, test/sweep/null-control.test.ts).
+"""Reference values for the sweep's summaries (test/decide/confidence.test.ts, test/sweep/null-control.test.ts).
 
 Run with Debian's python3-scipy / python3-numpy:  /usr/bin/python3 test/reference/make_sweep_stats_fixture.py
 Writes test/reference/sweep_stats_fixture.json.

@@ -6,7 +6,7 @@ import { createRng } from '../../src/core/random.js';
 import { makeVolume } from '../../src/core/volume.js';
 import { closeSharedWorkerPools } from '../../src/core/worker-pool.js';
 import { applyStep, describeStep, getStep, listSteps, parseStepParams, registerStep } from '../../src/steps/registry.js';
-import { smoothRun } from '../../src/steps/smooth-run.js';
+import { smoothRun } from '../../src/filter/smooth-run.js';
 import type { StepContext } from '../../src/steps/step-types.js';
 
 afterAll(async () => { await closeSharedWorkerPools(); });

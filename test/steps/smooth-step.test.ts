@@ -4,7 +4,7 @@ import { isBoldsweepError } from '../../src/core/errors.js';
 import { createRng } from '../../src/core/random.js';
 import { makeVolume } from '../../src/core/volume.js';
 import { closeSharedWorkerPools } from '../../src/core/worker-pool.js';
-import { smoothVolume3d } from '../../src/steps/gaussian-smooth.js';
+import { smoothVolume3d } from '../../src/filter/gaussian-smooth.js';
 import { maxFwhmMm, smoothStep } from '../../src/steps/smooth-step.js';
 import type { StepContext } from '../../src/steps/step-types.js';
 

@@ -5,10 +5,10 @@ import { openRun } from '../../src/io/open-run.js';
 import { lookAtRun } from '../../src/look/look-at-run.js';
 import { TISSUE_LABEL } from '../../src/simulate/tissue-properties.js';
 import { buildMask, maskFromFile } from '../../src/sweep/mask-source.js';
-import { recommendSetting } from '../../src/sweep/recommend.js';
+import { recommendSetting } from '../../src/decide/recommend-setting.js';
 import { runSweep } from '../../src/sweep/runner.js';
 import { defaultSmoothingSpec } from '../../src/sweep/default-spec.js';
-import { summariseScorecard } from '../../src/sweep/summarise-scorecard.js';
+import { summariseScorecard } from '../../src/decide/summarise-scorecard.js';
 import { shareVolume } from '../../src/sweep/shared-volume.js';
 import { gaussianNullRun } from './sweep-test-runs.js';
 

@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { proportionInterval } from '../../src/sweep/confidence.js';
+import { proportionInterval } from '../../src/decide/confidence.js';
 import { runSweep } from '../../src/sweep/runner.js';
 import type { SweepSpecInput } from '../../src/sweep/spec.js';
 import { gaussianNullRun } from './sweep-test-runs.js';

@@ -5,7 +5,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { identityAffine } from '../../src/core/affine.js';
 import { createRng } from '../../src/core/random.js';
 import { makeVolume } from '../../src/core/volume.js';
-import type { PlantTruth } from '../../src/simulate/plant.js';
+import type { PlantTruth } from '../../src/plant/plant-activations.js';
 import { readGroupStage, writeGroupStage, type GroupStage } from '../../src/sweep/stage-cache.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'boldsweep-stage-cache-'));

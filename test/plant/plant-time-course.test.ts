@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { isBoldsweepError } from '../../src/core/errors.js';
 import type { BoldEvent } from '../../src/io/run-types.js';
-import { plantTimeCourse } from '../../src/simulate/plant-time-course.js';
+import { plantTimeCourse } from '../../src/plant/plant-time-course.js';
 
 const ev = (onsetSec: number, durationSec: number, trialType = 'flicker'): BoldEvent => ({ onsetSec, durationSec, trialType, modulation: 1 });
 

@@ -1,8 +1,8 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { createRng } from '../../src/core/random.js';
-import { rocArea } from '../../src/sweep/roc-area.js';
-import { rocCurve } from '../../src/sweep/roc-curve.js';
+import { rocArea } from '../../src/score/roc-area.js';
+import { rocCurve } from '../../src/score/roc-curve.js';
 import { isBoldsweepError } from '../../src/core/errors.js';
 
 interface RocCase { name: string; positives: number[]; negatives: number[]; u: number; auc: number }

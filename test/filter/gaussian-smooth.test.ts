@@ -1,9 +1,9 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { isBoldsweepError } from '../../src/core/errors.js';
-import { boundaryIndex, type BoundaryMode } from '../../src/steps/boundary-index.js';
-import { FWHM_PER_SIGMA, fwhmToSigma, gaussianKernel1d, kernelRadius, sigmaVoxels } from '../../src/steps/gaussian-kernel.js';
-import { smoothVolume3d } from '../../src/steps/gaussian-smooth.js';
+import { boundaryIndex, type BoundaryMode } from '../../src/core/boundary-mode.js';
+import { FWHM_PER_SIGMA, fwhmToSigma, gaussianKernel1d, kernelRadius, sigmaVoxels } from '../../src/filter/gaussian-kernel.js';
+import { smoothVolume3d } from '../../src/filter/gaussian-smooth.js';
 
 interface Fixture {
   dims: [number, number, number];

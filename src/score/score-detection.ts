@@ -1,7 +1,7 @@
 import type { Connectivity } from '../core/components.js';
 import { fail } from '../core/fail.js';
 import { sameGrid, type Volume } from '../core/volume.js';
-import type { PlantTruth } from '../simulate/plant.js';
+import type { PlantTruth } from '../plant/plant-activations.js';
 import { clusterCounts } from './cluster-counts.js';
 import { diceCoefficient } from './dice.js';
 import { effectBias } from './effect-bias.js';

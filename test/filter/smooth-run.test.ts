@@ -4,8 +4,8 @@ import { isBoldsweepError } from '../../src/core/errors.js';
 import { createRng } from '../../src/core/random.js';
 import { makeVolume, type Volume } from '../../src/core/volume.js';
 import { closeSharedWorkerPools, createWorkerPool, resolveWorkerScript } from '../../src/core/worker-pool.js';
-import { smoothVolume3d } from '../../src/steps/gaussian-smooth.js';
-import { SMOOTH_RUN_IN_THREAD_BELOW, smoothRun } from '../../src/steps/smooth-run.js';
+import { smoothVolume3d } from '../../src/filter/gaussian-smooth.js';
+import { SMOOTH_RUN_IN_THREAD_BELOW, smoothRun } from '../../src/filter/smooth-run.js';
 
 // Worker threads run the compiled files under dist/: `npm test` builds first (npm run build).
 
@@ -113,8 +113,8 @@ describe('smoothRun', () => {
 
 describe('worker pool', () => {
   it('resolves a worker script under src/ to the compiled file under dist/', () => {
-    const url = resolveWorkerScript(new URL('../../src/steps/smooth-worker.js', import.meta.url));
-    expect(url.pathname).toMatch(/\/dist\/src\/steps\/smooth-worker\.js$/);
+    const url = resolveWorkerScript(new URL('../../src/filter/smooth-worker.js', import.meta.url));
+    expect(url.pathname).toMatch(/\/dist\/src\/filter\/smooth-worker\.js$/);
   });
   it('fails with WORKER_SCRIPT_MISSING for a script that exists nowhere', () => {
     try {
@@ -123,7 +123,7 @@ describe('worker pool', () => {
     } catch (e) { expect(isBoldsweepError(e, 'WORKER_SCRIPT_MISSING')).toBe(true); }
   });
   it('passes a worker error back to the caller and keeps serving', async () => {
-    const pool = createWorkerPool<unknown, number>(new URL('../../src/steps/smooth-worker.js', import.meta.url), { size: 1 });
+    const pool = createWorkerPool<unknown, number>(new URL('../../src/filter/smooth-worker.js', import.meta.url), { size: 1 });
     try {
       await expect(pool.run({ bogus: true })).rejects.toBeInstanceOf(Error);
       const input = new Float32Array(new SharedArrayBuffer(8 * 4)).fill(2);

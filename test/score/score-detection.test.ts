@@ -2,13 +2,13 @@ import { describe, expect, it } from 'vitest';
 import { diagonalAffine, type Vec3 } from '../../src/core/affine.js';
 import { isBoldsweepError } from '../../src/core/errors.js';
 import { makeVolume } from '../../src/core/volume.js';
-import type { PlantTruth } from '../../src/simulate/plant.js';
-import { clusterCounts } from '../../src/sweep/cluster-counts.js';
-import { diceCoefficient } from '../../src/sweep/dice.js';
-import { effectBias } from '../../src/sweep/effect-bias.js';
-import { blobPeaks } from '../../src/sweep/blob-peaks.js';
-import { rocCurve } from '../../src/sweep/roc-curve.js';
-import { scoreDetection } from '../../src/sweep/score.js';
+import type { PlantTruth } from '../../src/plant/plant-activations.js';
+import { clusterCounts } from '../../src/score/cluster-counts.js';
+import { diceCoefficient } from '../../src/score/dice.js';
+import { effectBias } from '../../src/score/effect-bias.js';
+import { blobPeaks } from '../../src/score/blob-peaks.js';
+import { rocCurve } from '../../src/score/roc-curve.js';
+import { scoreDetection } from '../../src/score/score-detection.js';
 
 // A 10 x 10 x 1 grid of 2 mm voxels; voxel (i, j) is index i + 10 j.
 const dims: [number, number, number] = [10, 10, 1];

@@ -1,4 +1,4 @@
-import { boundaryIndex, type BoundaryMode } from './boundary-index.js';
+import { boundaryIndex, type BoundaryMode } from '../core/boundary-mode.js';
 import { convKernels, type ConvKernels } from './conv-wasm.js';
 
 /**

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { recommendSetting } from '../../src/sweep/recommend.js';
+import { recommendSetting } from '../../src/decide/recommend-setting.js';
 import type { Scorecard, ScorecardRow } from '../../src/sweep/scorecard.js';
 
 /** A scorecard with given hit rates per setting (rows = repeats), one plant condition per size. */

@@ -1,5 +1,5 @@
 import { fail } from '../core/fail.js';
-import { BOUNDARY_MODES, type BoundaryMode } from './boundary-index.js';
+import { BOUNDARY_MODES, type BoundaryMode } from '../core/boundary-mode.js';
 import { DEFAULT_TRUNCATE, gaussianKernel1d, sigmaVoxels } from './gaussian-kernel.js';
 import { applySmoothPlan, makeSmoothPlan, makeSmoothScratch, type SmoothPlan } from './smooth-plan.js';
 

@@ -1,4 +1,4 @@
-import type { BoundaryMode } from './boundary-index.js';
+import type { BoundaryMode } from '../core/boundary-mode.js';
 import { applySmoothPlan, makeSmoothScratch, type SmoothPlan, type SmoothScratch } from './smooth-plan.js';
 
 /**

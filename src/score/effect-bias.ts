@@ -1,5 +1,5 @@
 import { fail } from '../core/fail.js';
-import type { PlantTruth } from '../simulate/plant.js';
+import type { PlantTruth } from '../plant/plant-activations.js';
 
 /** Result of {@link effectBias}; all effects in percent signal change (at the time-course peak). */
 export interface EffectBias {

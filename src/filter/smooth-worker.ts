@@ -1,5 +1,5 @@
 // Worker thread entry for smoothRun: answers SmoothVolumesTask messages. Runs as compiled
-// JavaScript (dist/src/steps/smooth-worker.js); see resolveWorkerScript in src/core/worker-pool.ts.
+// JavaScript (dist/src/filter/smooth-worker.js); see resolveWorkerScript in src/core/worker-pool.ts.
 import { serveWorkerTasks } from '../core/serve-worker-tasks.js';
 import { smoothVolumesTask, type SmoothVolumesTask } from './smooth-volumes-task.js';
 

@@ -1,6 +1,6 @@
 import { meanInterval, type MeanInterval } from './confidence.js';
-import { rowSetting, type Scorecard, type ScorecardRow } from './scorecard.js';
-import type { Setting } from './settings-grid.js';
+import { rowSetting, type Scorecard, type ScorecardRow } from '../sweep/scorecard.js';
+import type { Setting } from '../sweep/settings-grid.js';
 
 /** Summary of one setting for one plant condition, across its repeats. */
 export interface SettingSummary {

@@ -3,9 +3,9 @@ import { affineFromRows, applyAffine, diagonalAffine } from '../../src/core/affi
 import { isBoldsweepError } from '../../src/core/errors.js';
 import { createRng } from '../../src/core/random.js';
 import { makeVolume, type Volume } from '../../src/core/volume.js';
-import { plantActivations, type PlantOptions } from '../../src/simulate/plant.js';
-import { interiorVoxels } from '../../src/simulate/plant-placement.js';
-import { blobProfile, blobWeight } from '../../src/simulate/plant-profile.js';
+import { plantActivations, type PlantOptions } from '../../src/plant/plant-activations.js';
+import { interiorVoxels } from '../../src/plant/plant-placement.js';
+import { blobProfile, blobWeight } from '../../src/plant/plant-profile.js';
 
 const [NX, NY, NZ, NT] = [24, 24, 14, 30];
 const N = NX * NY * NZ;

@@ -1,8 +1,8 @@
 import { fail } from '../core/fail.js';
 import type { MeanInterval } from './confidence.js';
-import type { Scorecard } from './scorecard.js';
-import type { Setting } from './settings-grid.js';
-import { parameterName, settingText } from './settings-grid.js';
+import type { Scorecard } from '../sweep/scorecard.js';
+import type { Setting } from '../sweep/settings-grid.js';
+import { parameterName, settingText } from '../sweep/settings-grid.js';
 import { summariseScorecard, type SettingSummary } from './summarise-scorecard.js';
 
 /** Options of {@link recommendSetting}. */

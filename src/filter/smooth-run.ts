@@ -2,7 +2,7 @@ import { isMainThread } from 'node:worker_threads';
 import { fail } from '../core/fail.js';
 import { makeVolume, voxelsPerVolume, type Volume } from '../core/volume.js';
 import { defaultWorkerCount, sharedWorkerPool } from '../core/worker-pool.js';
-import type { BoundaryMode } from './boundary-index.js';
+import type { BoundaryMode } from '../core/boundary-mode.js';
 import { planGaussianSmooth } from './gaussian-smooth.js';
 import { smoothVolumesTask, type SmoothVolumesTask } from './smooth-volumes-task.js';
 

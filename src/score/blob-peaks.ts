@@ -1,6 +1,6 @@
 import type { Affine, Vec3 } from '../core/affine.js';
 import { fail } from '../core/fail.js';
-import { indexExtent } from '../simulate/plant-profile.js';
+import { indexExtent } from '../plant/plant-profile.js';
 
 /** Result of {@link blobPeaks}: one entry per blob. */
 export interface BlobPeaks {

@@ -1,0 +1,4 @@
+// decide: public exports of this module (re-exports only; src/internals.ts re-exports this file).
+export { summariseScorecard, type SettingSummary } from './summarise-scorecard.js';
+export { meanInterval, proportionInterval, type MeanInterval, type ProportionInterval } from './confidence.js';
+export { recommendSetting, metricWords, STANDING_CAVEATS, type Recommendation, type RecommendOptions, type PlantChoice, type SettingEvidence } from './recommend-setting.js';

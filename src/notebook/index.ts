@@ -1,2 +1,0 @@
-// notebook: public exports of this module (re-exports only; src/index.ts re-exports this file).
-export {};
