@@ -13,6 +13,7 @@ export { type Volume, type Dims4, makeVolume, volumeLike, volumeAt, voxelsPerVol
 export { type Rng, createRng, childSeed } from './core/random.js';
 export { summariseVolume } from './core/summary.js';
 export { type BoundaryMode, BOUNDARY_MODES } from './core/boundary-mode.js';
+export type { Grid, Frame } from './core/grid-frame.js';
 
 // open a run
 export type { Run, Sidecar, BoldEvent, NiftiReadInfo, TransformSource } from './io/run-types.js';

@@ -15,6 +15,7 @@ export { type Rng, createRng, childSeed } from './core/random.js';
 export { summariseVolume } from './core/summary.js';
 export { type BoundaryMode, BOUNDARY_MODES, boundaryIndex } from './core/boundary-mode.js';
 export { labelComponents, type Connectivity, type Components } from './core/components.js';
+export type { Grid, Frame } from './core/grid-frame.js';
 export type { Run, Sidecar, BoldEvent, NiftiReadInfo, TransformSource } from './io/run-types.js';
 
 export * from './io/index.js';

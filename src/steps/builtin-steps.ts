@@ -17,7 +17,11 @@ const smooth: StepDefinition<SmoothStepParams> = {
     mode: z.enum(modes).default('reflect'),
     withinMask: z.boolean().default(false),
   }).strict(),
+  version: 1,
+  kind: 'spatial-filter',
   apply: smoothStep,
+  labels: { fwhmMm: { name: 'smoothing FWHM', unit: 'mm' }, mode: { name: 'smoothing boundary mode', unit: '' }, withinMask: { name: 'smoothing within the mask', unit: '' } },
+  simplicity: (p) => p.fwhmMm,
   describe: (p) => `smooth ${p.fwhmMm} mm${p.withinMask ? ' in mask' : ''}${p.mode && p.mode !== 'reflect' ? ` (${p.mode})` : ''}`,
 };
 
@@ -26,31 +30,49 @@ const percentSignalChange: StepDefinition<PercentSignalChangeParams> = {
     minMeanFraction: z.number().min(0).lt(1).default(0.1),
     centred: z.boolean().default(false),
   }).strict(),
+  version: 1,
+  kind: 'temporal',
   apply: percentSignalChangeStep,
+  labels: { minMeanFraction: { name: 'smallest mean kept (fraction of the brain mean)', unit: '' }, centred: { name: 'centred percent signal change', unit: '' } },
   describe: (p) => `percent signal change${p.centred ? ' (centred)' : ''}`,
 };
 
 const grandMeanScale: StepDefinition<GrandMeanScaleParams> = {
   schema: z.object({ target: z.number().finite().positive().default(10000) }).strict(),
+  version: 1,
+  kind: 'spatial-filter',
   apply: grandMeanScaleStep,
+  labels: { target: { name: 'grand-mean target', unit: '' } },
   describe: (p) => `grand-mean scale to ${p.target}`,
 };
 
 const highpass: StepDefinition<HighpassParams> = {
   schema: z.object({ cutoffSec: z.number().positive().default(128) }).strict(),
+  version: 1,
+  kind: 'temporal',
   apply: highpassStep,
+  labels: { cutoffSec: { name: 'high-pass cutoff', unit: 's' } },
+  simplicity: (p) => -(p.cutoffSec ?? 128),
   describe: (p) => `high-pass ${p.cutoffSec} s`,
 };
 
 const detrend: StepDefinition<DetrendParams> = {
   schema: z.object({ order: z.number().int().min(0).default(2) }).strict(),
+  version: 1,
+  kind: 'temporal',
   apply: detrendStep,
+  labels: { order: { name: 'detrending order', unit: '' } },
+  simplicity: (p) => p.order ?? 2,
   describe: (p) => `detrend order ${p.order}`,
 };
 
 const dropInitialVolumes: StepDefinition<DropInitialVolumesParams> = {
   schema: z.object({ count: z.number().int().min(0) }).strict(),
+  version: 1,
+  kind: 'select-volumes',
   apply: dropInitialVolumesStep,
+  labels: { count: { name: 'initial volumes dropped', unit: '' } },
+  simplicity: (p) => p.count,
   describe: (p) => `drop ${p.count} volumes`,
 };
 

@@ -1,5 +1,5 @@
 // steps: public exports of this module (re-exports only; src/index.ts re-exports this file).
-export type { StepNote, StepContext, StepResult, StepFunction } from './step-types.js';
+export type { StepNote, StepContext, StepResult, StepFunction, StepKind, ParameterLabel } from './step-types.js';
 export { type SmoothStepParams, smoothStep, maxFwhmMm, MAX_FWHM_MM } from './smooth-step.js';
 export { type PercentSignalChangeParams, type PercentSignalChangeResult, percentSignalChange, percentSignalChangeStep } from './percent-signal-change.js';
 export { type GrandMeanScaleParams, type GrandMeanScaleResult, grandMeanScale, grandMeanScaleStep } from './grand-mean-scale.js';

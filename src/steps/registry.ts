@@ -2,19 +2,50 @@ import { z } from 'zod';
 import { fail } from '../core/fail.js';
 import type { Volume } from '../core/volume.js';
 import { registerBuiltinSteps } from './builtin-steps.js';
-import type { StepContext, StepFunction, StepResult } from './step-types.js';
+import type { Frame } from '../core/grid-frame.js';
+import type { ParameterLabel, StepContext, StepFunction, StepKind, StepResult } from './step-types.js';
 
 /**
  * A preprocessing step as the recipe and sweep engines see it: a parameter schema (zod; unknown
- * keys rejected, defaults filled in), the function, and a one-line label for a parameter setting.
+ * keys rejected, defaults filled in), what kind of step it is and where its output lives, its
+ * version, what it estimates once from the unplanted run, the function, and the words for its
+ * parameters. Everything the sweep, the recommendation and the report need to know about a step
+ * lives here, in one place.
  */
-export interface StepDefinition<P = Record<string, unknown>> {
+export interface StepDefinition<P = Record<string, unknown>, E = unknown> {
   /** Validates raw parameters (from a recipe or sweep spec) and fills defaults. */
   schema: z.ZodType<P, z.ZodTypeDef, unknown>;
+  /**
+   * Version of the step's numerics, a positive integer. It enters every cache key that involves
+   * the step: bump it whenever the step's output for the same input and parameters changes.
+   */
+  version: number;
+  /** What the step does to a run (see {@link StepKind}). */
+  kind: StepKind;
+  /**
+   * Frame of the output for an input in `input` (geometric steps that move the run to the reference
+   * frame or onto another grid). __Default value:__ the input's frame
+   */
+  outputFrame?: (params: P, input: Frame, context: StepContext) => Frame;
+  /**
+   * What the step estimates from the unplanted run (e.g. motion parameters), once per setting. The
+   * sweep caches it (keyed by run, prefix of the recipe, step, version and parameters), hashes it, and
+   * hands it to `apply` for every planting, so a planted activation never changes what is estimated.
+   * Its value must survive structured cloning (plain data and typed arrays).
+   * __Default value:__ none (the step estimates nothing)
+   */
+  estimate?: (volume: Volume, params: P, context: StepContext) => E | Promise<E>;
   /** The step itself. */
-  apply: StepFunction<P>;
+  apply: StepFunction<P, E>;
   /** Short label for one setting, e.g. "smooth 6 mm". */
   describe: (params: P) => string;
+  /** Plain name and unit of each parameter a sweep may vary, e.g. `{ fwhmMm: { name: 'smoothing FWHM', unit: 'mm' } }`. */
+  labels: Record<string, ParameterLabel>;
+  /**
+   * How simple a setting is: lower is simpler. The one-standard-error rule takes the simplest of the
+   * settings that are as good as the best. __Default value:__ the settings' order in the sweep
+   */
+  simplicity?: (params: P) => number;
 }
 
 const steps = new Map<string, StepDefinition<unknown>>();

@@ -1,5 +1,17 @@
+import type { Frame } from '../core/grid-frame.js';
 import type { Volume } from '../core/volume.js';
 import type { BoldEvent, Sidecar } from '../io/run-types.js';
+import type { NuisanceRegressor } from '../model/design.js';
+
+/**
+ * What a step does to a run, as the sweep and the report need to know it:
+ * - `select-volumes`: keeps some volumes as they are (no voxel value changes);
+ * - `temporal`: changes each voxel's time series (filters, slice-timing shifts, scaling over time);
+ * - `spatial-filter`: changes each volume in place on its grid (smoothing, masking, intensity scaling);
+ * - `geometric`: moves signal in space (resampling, motion correction, unwarping, alignment); its
+ *   output may live in another frame (see {@link Frame}).
+ */
+export type StepKind = 'select-volumes' | 'temporal' | 'spatial-filter' | 'geometric';
 
 /**
  * What one preprocessing step did: its parameters, a one-line summary, numbers worth keeping, and
@@ -35,6 +47,16 @@ export interface StepContext {
    * __Default value:__ none (the step allocates its output).
    */
   outputBuffer?: ((length: number) => Float32Array) | null;
+  /**
+   * Frame of the input run (raw grid, reference frame, or a target grid).
+   * __Default value:__ `{ kind: 'raw' }`
+   */
+  frame?: Frame;
+  /**
+   * Acquisition time of each slice within a volume (s from the volume's start), along the slice
+   * axis, when known (sidecar SliceTiming, or handed on by an earlier step). __Default value:__ null
+   */
+  sliceTimesSec?: Float64Array | null;
 }
 
 /**
@@ -47,7 +69,29 @@ export interface StepResult {
   note: StepNote;
   /** Updated context when the step changes it (e.g. dropping volumes shifts event onsets). */
   context?: StepContext;
+  /**
+   * Regressors the step hands the model (e.g. motion table columns), one value per output volume.
+   * The sweep adds them to the design as nuisance columns. __Default value:__ none
+   */
+  regressors?: NuisanceRegressor[];
+  /**
+   * Frame of the output when it differs from the input's (a geometric step). __Default value:__ the
+   * input's frame
+   */
+  frame?: Frame;
 }
 
-/** A preprocessing step: pure with respect to its inputs. */
-export type StepFunction<P> = (volume: Volume, params: P, context: StepContext) => StepResult | Promise<StepResult>;
+/**
+ * A preprocessing step: pure with respect to its inputs. `estimate` is what the step's definition
+ * estimated once from the unplanted run for these parameters (see StepDefinition.estimate), or
+ * undefined for steps that estimate nothing.
+ */
+export type StepFunction<P, E = unknown> = (volume: Volume, params: P, context: StepContext, estimate?: E) => StepResult | Promise<StepResult>;
+
+/** Plain name and unit of a step parameter, for sweep axes, tables, charts and the methods text. */
+export interface ParameterLabel {
+  /** e.g. 'smoothing FWHM'. */
+  name: string;
+  /** e.g. 'mm', 's', '%', 'deg', or '' for none. */
+  unit: string;
+}

@@ -55,6 +55,9 @@ describe('step registry', () => {
   it('accepts a new step defined by its schema', async () => {
     registerStep('scale-by', {
       schema: z.object({ factor: z.number().positive() }).strict(),
+      version: 1,
+      kind: 'spatial-filter',
+      labels: { factor: { name: 'scale factor', unit: '' } },
       apply: (v, p) => ({ volume: { ...v, data: v.data.map((x) => x * p.factor) }, note: { step: 'scale-by', params: { ...p }, summary: '', diagnostics: {}, methodsText: '', citations: [] } }),
       describe: (p) => `scale by ${p.factor}`,
     }, { replace: true });
