@@ -21,7 +21,7 @@ import { invertAffine } from '../src/core/affine.js';
 import { childSeed, createRng } from '../src/core/random.js';
 import { trilinearResample } from '../src/resample/trilinear-resample.js';
 import { demoPhantomSpec } from '../src/simulate/phantom-spec.js';
-import { rigidMotionAffine } from '../src/simulate/rigid-motion.js';
+import { rigidMotionAffine } from '../src/acquire/rigid-motion-affine.js';
 import { simulatePhantomRun } from '../src/simulate/simulate-phantom-run.js';
 import { packageRoot, timeMedianSec } from './bench-kit.js';
 

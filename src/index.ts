@@ -24,8 +24,16 @@ export {
   lookAtRun, findingsTable, meanImage, voxelRasterRows,
 } from './look/index.js';
 
+// acquisition model (head pose per volume, B0 displacement, slice times)
+export {
+  acquisitionModel, type AcquisitionModel, type AcquisitionOptions, type B0Displacement, type MotionRow, rigidMotionAffine,
+  motionTablePoses, interleavedSliceTiming, sequentialSliceTiming,
+} from './acquire/index.js';
+
 // plant
-export { plantActivations, plantTimeCourse, type PlantOptions, type PlantTruth, type PlantedBlob, type BlobShapeSpec } from './plant/index.js';
+export {
+  plantActivations, plantTimeCourse, plantTimeCourses, truthOnGrid, type PlantOptions, type PlantTruth, type PlantedBlob, type BlobShapeSpec,
+} from './plant/index.js';
 
 // recipe steps
 export {

@@ -19,7 +19,7 @@ export const ERROR_ADVICE = {
   NOT_4D: 'This needs a 4D run (x, y, z, time). A 3D image has one volume only.',
   TR_MISSING: 'No usable repetition time: set RepetitionTime (seconds) in the BIDS sidecar JSON or pixdim[4] in the header.',
   SIDECAR_INVALID: 'Fix the listed fields of the BIDS sidecar JSON (units: seconds for times, degrees for angles).',
-  SLICE_TIMING_LENGTH: 'SliceTiming must have one entry per slice (the third image dimension).',
+  SLICE_TIMING_LENGTH: 'SliceTiming must have one entry per slice (along SliceEncodingDirection: the third image dimension unless the sidecar says otherwise).',
   EVENTS_INVALID: 'Fix the listed rows of the events TSV (columns onset, duration in seconds; trial_type; optional modulation).',
   EVENTS_BEYOND_RUN: 'An event starts after the last volume was acquired. Check the events file belongs to this run and that onsets are in seconds.',
   WRITE_FAILED: 'Check the output folder exists and is writable; nothing was written.',
@@ -35,6 +35,13 @@ export const ERROR_ADVICE = {
   CONSTANT_DATA: 'The data do not vary; the requested measure is undefined for them.',
   TOO_FEW_VOLUMES: 'The run is shorter than the measure needs; use a longer run.',
   RECORD_INVALID: 'The decision record is damaged or from an incompatible version.',
+  // acquisition model (head motion, B0 field, slice times)
+  MOTION_TABLE_LENGTH: 'A motion table needs one row per volume of the run it describes (the raw run, before any volumes are dropped); give the table of this run.',
+  MOTION_TABLE_INVALID: 'Fix the named row of the motion table: shifts in mm and rotations in degrees, all finite, rows in volume order from 0 (a pose must be an invertible affine).',
+  FIELD_MAP_INVALID: 'Give one 3D field map in Hz with finite values on the run\'s grid (set voxels outside the head to 0, not NaN).',
+  READOUT_TIME_MISSING: 'A field map displaces the signal by (Hz x total readout time): set TotalReadoutTime (s) in the BIDS sidecar, or EffectiveEchoSpacing (s) from which it is computed, or pass totalReadoutTimeSec.',
+  PHASE_ENCODE_MISSING: 'A field map displaces the signal along the phase-encode axis: set PhaseEncodingDirection (i, j or k, with - for the reversed direction) in the BIDS sidecar, or pass phaseEncodingDirection.',
+  SLICE_TIMING_INVALID: 'Slice times are seconds from the start of each volume, each at least 0 and below RepetitionTime: fix SliceTiming in the BIDS sidecar (check it is in seconds, not milliseconds), or pass slice times made for your acquisition order.',
   // parallel work
   WORKER_SCRIPT_MISSING: 'Worker threads run compiled JavaScript: build the package first (npm run build) so the worker file exists under dist/.',
   WORKER_FAILED: 'A worker thread stopped unexpectedly (often out of memory). Retry with fewer workers, or workers: 1 to run in the main thread.',

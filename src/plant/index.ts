@@ -6,3 +6,7 @@ export type { BlobShapeSpec, SparseProfile } from './plant-profile.js';
 export { placeCentres, interiorVoxels } from './plant-placement.js';
 export type { PlacementOptions } from './plant-placement.js';
 export { plantTimeCourse, type PlantTimeCourseOptions } from './plant-time-course.js';
+export { plantTimeCourses, type PlantTimeCourses, type PlantTimeCoursesOptions } from './plant-time-courses.js';
+export { posedBlobWeights } from './posed-blob-weights.js';
+export { posedBlobBox, type VoxelBox } from './posed-blob-box.js';
+export { truthOnGrid } from './truth-on-grid.js';

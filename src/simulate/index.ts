@@ -11,12 +11,10 @@ export type { PhantomRun, PhantomTruth, PhantomSpike, TissueSteadyState } from '
 export { headAnatomy, headClassifier, DEFAULT_HEAD_GEOMETRY, type HeadGeometry, type HeadAnatomy, type Ellipsoid } from './head-anatomy.js';
 export { PHANTOM_TISSUES, TISSUE_LABEL, DEFAULT_TISSUE_PROPERTIES, type PhantomTissue, type TissueProperties } from './tissue-properties.js';
 export { spoiledGreSignal, mzBeforePulse, ernstAngleDeg, type GreTiming, type SpoiledGreSignal } from './spoiled-gre-signal.js';
-export { totalReadoutTimeSec, fieldMapShiftVoxels, distortAlongAxis } from './field-map-shift.js';
 export { sphereFieldMapHz, PROTON_HZ_PER_TESLA, type AirSphere } from './sphere-field-map-hz.js';
 export { intravoxelDephasing } from './intravoxel-dephasing.js';
-export { interleavedSliceTiming } from './interleaved-slice-timing.js';
 export { blockDesignEvents, type BlockDesign } from './block-design-events.js';
 export { blockResponseAt } from './block-response-at.js';
 export { physioTraces, type PhysioRates, type PhysioTraces } from './physio-traces.js';
 export { smoothGaussianField } from './smooth-gaussian-field.js';
-export { rigidMotionAffine, simulatedMotionTable, type MotionRow, type MotionJerk, type MotionSpec } from './rigid-motion.js';
+export { simulatedMotionTable, type MotionJerk, type MotionSpec } from './simulated-motion-table.js';

@@ -3,7 +3,7 @@ import { fail } from '../core/fail.js';
 import type { BlockDesign } from './block-design-events.js';
 import { DEFAULT_HEAD_GEOMETRY, type HeadGeometry } from './head-anatomy.js';
 import type { PhysioRates } from './physio-traces.js';
-import type { MotionSpec } from './rigid-motion.js';
+import type { MotionSpec } from './simulated-motion-table.js';
 import { DEFAULT_TISSUE_PROPERTIES, PHANTOM_TISSUES, type PhantomTissue, type TissueProperties } from './tissue-properties.js';
 
 /** Acquisition of the simulated run (EPI, spoiled gradient echo). */

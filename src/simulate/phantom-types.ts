@@ -2,7 +2,7 @@ import type { Vec3 } from '../core/affine.js';
 import type { Volume } from '../core/volume.js';
 import type { BoldEvent, Sidecar } from '../io/run-types.js';
 import type { PhantomSpec } from './phantom-spec.js';
-import type { MotionRow } from './rigid-motion.js';
+import type { MotionRow } from '../acquire/rigid-motion-affine.js';
 import type { PhantomTissue } from './tissue-properties.js';
 
 /** A spike as placed: where and how much was added. */

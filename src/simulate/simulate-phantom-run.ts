@@ -7,26 +7,32 @@
  *        |
  *        v
  *   rigid motion (trilinear resample) -> EPI shift along phase encode (moved field map)
+ *   [pose, field-map shift and slice times are the acquisition model's functions, src/acquire]
  *   -> drift x smooth random field -> slice dropout -> thermal noise (Rician) -> spikes
  */
 import { composeAffine, diagonalAffine, invertAffine, type Affine, type Vec3 } from '../core/affine.js';
 import { childSeed, createRng } from '../core/random.js';
 import { makeVolume, type Volume } from '../core/volume.js';
 import type { Sidecar } from '../io/run-types.js';
+import { distortAlongAxis } from '../acquire/distort-along-axis.js';
+import { headFieldShiftVoxels } from '../acquire/head-field-shift-voxels.js';
+import { interleavedSliceTiming } from '../acquire/interleaved-slice-timing.js';
+import { motionTablePoses } from '../acquire/motion-table-poses.js';
+import { phaseEncodeAxis } from '../acquire/phase-encode-axis.js';
+import type { MotionRow } from '../acquire/rigid-motion-affine.js';
 import { steadyStateModelCount } from '../look/steady-state-model.js';
 import { trilinearResample } from '../resample/trilinear-resample.js';
 import { blockDesignEvents } from './block-design-events.js';
 import { blockResponseAt } from './block-response-at.js';
-import { distortAlongAxis, totalReadoutTimeSec } from './field-map-shift.js';
 import { headAnatomy } from './head-anatomy.js';
-import { interleavedSliceTiming } from './interleaved-slice-timing.js';
 import { intravoxelDephasing } from './intravoxel-dephasing.js';
 import { resolvePhantomSpec, type PhantomSpecInput } from './phantom-spec.js';
 import type { PhantomRun, PhantomSpike, PhantomTruth, TissueSteadyState } from './phantom-types.js';
 import { physioTraces } from './physio-traces.js';
-import { rigidMotionAffine, simulatedMotionTable, type MotionRow } from './rigid-motion.js';
+import { simulatedMotionTable } from './simulated-motion-table.js';
 import { smoothGaussianField } from './smooth-gaussian-field.js';
 import { sphereFieldMapHz } from './sphere-field-map-hz.js';
+import { totalReadoutTimeSec } from '../acquire/total-readout-time.js';
 import { mzBeforePulse, spoiledGreSignal } from './spoiled-gre-signal.js';
 import { PHANTOM_TISSUES, TISSUE_LABEL, type PhantomTissue } from './tissue-properties.js';
 
@@ -103,13 +109,14 @@ export function simulatePhantomRun(input: PhantomSpecInput = {}): PhantomRun {
     ? sphereFieldMapHz(pDims, pAffine, { centreMm: spec.anatomy.geometry.sinus.centreMm, radiusMm: spec.anatomy.geometry.sinus.radiusMm, fieldStrengthT: acq.fieldStrengthT, susceptibilityDifferencePpm: spec.b0.susceptibilityDifferencePpm })
     : new Float32Array(pVox);
   const dephase = spec.b0?.dephasing ? intravoxelDephasing(fieldPadded, pDims, acq.teSec) : null;
-  const readoutSec = totalReadoutTimeSec(acq.effectiveEchoSpacingSec, ny);
-  const peSign = acq.phaseEncodingDirection === 'j' ? 1 : -1;
+  const pe = phaseEncodeAxis(acq.phaseEncodingDirection);
+  const readoutSec = totalReadoutTimeSec(acq.effectiveEchoSpacingSec, spec.dims[pe.axis]);
 
   // 6. motion table
   const motionTable: MotionRow[] = spec.motion
     ? simulatedMotionTable(nt, spec.motion, createRng(childSeed(spec.seed, 'motion')))
     : Array.from({ length: nt }, (_, volume) => ({ volume, shiftXMm: 0, shiftYMm: 0, shiftZMm: 0, rotXDeg: 0, rotYDeg: 0, rotZDeg: 0 }));
+  const poses = motionTablePoses(motionTable, nt, centreMm);
   const invPAffine = invertAffine(pAffine);
 
   // 7. the other random streams, each its own so that switching one component off leaves the others unchanged
@@ -158,14 +165,13 @@ export function simulatePhantomRun(input: PhantomSpecInput = {}): PhantomRun {
       }
     }
     // rigid motion: output voxel -> world -> head frame -> padded voxel
-    const row = motionTable[n];
-    const srcFromOut: Affine = composeAffine(invPAffine, composeAffine(invertAffine(rigidMotionAffine(row, centreMm)), affine));
+    const srcFromOut: Affine = composeAffine(invPAffine, composeAffine(invertAffine(poses[n]), affine));
     trilinearResample(base, pDims, srcFromOut, spec.dims, moved);
     let img = moved;
     if (spec.b0?.distortion) {
-      trilinearResample(fieldPadded, pDims, srcFromOut, spec.dims, movedField);
-      for (let v = 0; v < nVox; v++) shift[v] = peSign * movedField[v] * readoutSec;
-      img = distortAlongAxis(moved, shift, spec.dims, 1, distorted);
+      // the field moves with the head; the signal is displaced along phase encode in the scanner
+      headFieldShiftVoxels(fieldPadded, pDims, srcFromOut, spec.dims, { totalReadoutTimeSec: readoutSec, sign: pe.sign }, shift, undefined, movedField);
+      img = distortAlongAxis(moved, shift, spec.dims, pe.axis, distorted);
     }
     // scanner-frame multiplicative effects
     const tau = nt > 1 ? (2 * n) / (nt - 1) - 1 : 0;

@@ -1,6 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { diagonalAffine } from '../../src/core/affine.js';
-import { distortAlongAxis, fieldMapShiftVoxels, totalReadoutTimeSec } from '../../src/simulate/field-map-shift.js';
+import { distortAlongAxis } from '../../src/acquire/distort-along-axis.js';
+import { fieldMapShiftVoxels } from '../../src/acquire/field-map-shift-voxels.js';
+import { totalReadoutTimeSec } from '../../src/acquire/total-readout-time.js';
 import { intravoxelDephasing } from '../../src/simulate/intravoxel-dephasing.js';
 import { PROTON_HZ_PER_TESLA, sphereFieldMapHz } from '../../src/simulate/sphere-field-map-hz.js';
 import { simulatePhantomRun } from '../../src/simulate/simulate-phantom-run.js';

@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { applyAffine } from '../../src/core/affine.js';
 import { createRng } from '../../src/core/random.js';
-import { rigidMotionAffine, simulatedMotionTable } from '../../src/simulate/rigid-motion.js';
+import { rigidMotionAffine } from '../../src/acquire/rigid-motion-affine.js';
+import { simulatedMotionTable } from '../../src/simulate/simulated-motion-table.js';
 import { simulatePhantomRun } from '../../src/simulate/simulate-phantom-run.js';
 import { demoPhantomSpec } from '../../src/simulate/phantom-spec.js';
 import { centreOfMass, quietSpec } from './phantom-helpers.js';

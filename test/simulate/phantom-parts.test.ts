@@ -3,7 +3,7 @@ import { createRng } from '../../src/core/random.js';
 import { hrfValues } from '../../src/model/hrf.js';
 import { blockDesignEvents } from '../../src/simulate/block-design-events.js';
 import { blockResponseAt } from '../../src/simulate/block-response-at.js';
-import { interleavedSliceTiming } from '../../src/simulate/interleaved-slice-timing.js';
+import { interleavedSliceTiming } from '../../src/acquire/interleaved-slice-timing.js';
 import { physioTraces } from '../../src/simulate/physio-traces.js';
 import { smoothGaussianField } from '../../src/simulate/smooth-gaussian-field.js';
 

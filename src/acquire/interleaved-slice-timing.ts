@@ -3,7 +3,8 @@ import { fail } from '../core/fail.js';
 /**
  * Slice acquisition times of an interleaved ascending order: the even-numbered slices (0-based
  * index 0, 2, 4, ...) first, from the bottom up, then the odd ones (1, 3, 5, ...), evenly spread
- * over one TR. Returned in slice order, as the BIDS SliceTiming field wants.
+ * over one TR. Returned in slice order, as the BIDS SliceTiming field wants. (The digital phantom's
+ * order; see {@link sequentialSliceTiming} for ascending and descending orders.)
  * @param nSlices - number of slices (third image dimension)
  * @param trSec - repetition time, seconds
  * @returns acquisition time of each slice relative to the start of the volume, seconds
