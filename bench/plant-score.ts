@@ -1,12 +1,17 @@
 /**
  * Planting and scoring on generated data (a 64 x 64 x 36 run of 150 volumes, 3 mm voxels).
  * plant: plantActivations (6 Gaussian blobs, FWHM 6 mm) vs copying the run once (the floor: planting
- * must return a new run). score: scoreDetection (exact ROC over ~50k brain voxels, clusters, peaks)
+ * must return a new run). plant-posed: the same planting following a motion table in which the head
+ * moves at every volume (slow wander plus a jerk), vs planting in fixed voxels (goal: at most 2x);
+ * plant-posed-b0-timed: also a field map (displacement along phase encode) and interleaved slice times. score: scoreDetection (exact ROC over ~50k brain voxels, clusters, peaks)
  * vs sorting the brain's statistics once (what the exact ROC needs at least).
  * Prints `bench NAME VALUE UNIT` and `ratio NAME VALUE` lines; medians of 5 repeats.
  */
+import { acquisitionModel } from '../src/acquire/acquisition-model.js';
+import { interleavedSliceTiming } from '../src/acquire/interleaved-slice-timing.js';
 import { diagonalAffine } from '../src/core/affine.js';
-import { createRng } from '../src/core/random.js';
+import { childSeed, createRng } from '../src/core/random.js';
+import { simulatedMotionTable } from '../src/simulate/simulated-motion-table.js';
 import { makeVolume } from '../src/core/volume.js';
 import { plantActivations } from '../src/plant/plant-activations.js';
 import { scoreDetection } from '../src/score/score-detection.js';
@@ -36,6 +41,20 @@ export async function main(): Promise<void> {
   const copyMs = await medianMs(() => new Float32Array(run.data));
   console.log(`bench plant-6-blobs-64x64x36x150 ${plantMs.toFixed(1)} ms`);
   console.log(`ratio plant-vs-copy-run ${(plantMs / copyMs).toFixed(2)}`);
+
+  // the head moves at every volume: a 0.05 mm / 0.05 deg random walk and a 1.5 mm, 1 deg jerk
+  const motionTable = simulatedMotionTable(nt, { wanderStepMm: 0.05, wanderStepDeg: 0.05, jerk: { volume: 70, shiftMm: [1.5, -1, 0.5], rotationDeg: [1, 0, -0.5] } }, createRng(childSeed(1, 'motion')));
+  const posed = acquisitionModel({ volume: run, sidecar: null }, { motionTable });
+  const posedMs = await medianMs(() => plantActivations(run, { ...options, acquisition: posed }));
+  console.log(`bench plant-posed-6-blobs-64x64x36x150 ${posedMs.toFixed(1)} ms`);
+  console.log(`ratio plant-posed-vs-plant ${(posedMs / plantMs).toFixed(2)}`);
+  // plus a field map (a smooth +-60 Hz pattern), 25 ms readout along j, interleaved slice times
+  const fieldMapHz = Float32Array.from({ length: n }, (_, v) => 60 * Math.sin((v % nx) / 9) * Math.cos(Math.floor(v / (nx * ny)) / 7));
+  const full = acquisitionModel({ volume: run, sidecar: { PhaseEncodingDirection: 'j', TotalReadoutTime: 0.025 } }, { motionTable, fieldMapHz, sliceTimesSec: interleavedSliceTiming(nz, 2) });
+  const sliceTimeCourses = Array.from({ length: nz }, () => timeCourse);
+  const fullMs = await medianMs(() => plantActivations(run, { ...options, acquisition: full, sliceTimeCourses }));
+  console.log(`bench plant-posed-b0-timed-6-blobs-64x64x36x150 ${fullMs.toFixed(1)} ms`);
+  console.log(`ratio plant-posed-b0-timed-vs-plant ${(fullMs / plantMs).toFixed(2)}`);
 
   const { truth } = plantActivations(run, options);
   const stat = new Float32Array(n);

@@ -195,13 +195,14 @@ export function plantActivations(volume: Volume, options: PlantOptions): { volum
   const weights = moved > 0 || b0 ? new VolumeWeights(volume, profile, centresMm, spec, poses, b0) : null;
   const voxels = weights ? weights.voxels : nonZero(profile);
   const slices = sliceIndices(voxels, volume.dims, sliceAxis);
+  // volume by volume (the voxels are in storage order, so reads stay near each other); each voxel's
+  // sum still adds its values in time order
   const baseline = new Float64Array(voxels.length);
-  for (let q = 0; q < voxels.length; q++) {
-    const v = voxels[q];
-    let sum = 0;
-    for (let t = 0; t < nt; t++) sum += volume.data[v + n * t];
-    baseline[q] = sum / nt;
+  for (let t = 0; t < nt; t++) {
+    const offset = n * t;
+    for (let q = 0; q < voxels.length; q++) baseline[q] += volume.data[voxels[q] + offset];
   }
+  for (let q = 0; q < voxels.length; q++) baseline[q] /= nt;
   const scale = options.amplitudePct / 100;
   for (let t = 0; t < nt; t++) {
     const w = weights ? weights.at(t) : profile;

@@ -19,6 +19,7 @@ import { blobSupportMm, blobWeight, type BlobShapeSpec } from './plant-profile.j
 export function posedBlobWeights(dims: readonly number[], affine: Affine, pose: Affine, centresMm: readonly Vec3[], spec: BlobShapeSpec, out: Float32Array): Float32Array {
   const [nx, ny] = dims;
   const support = blobSupportMm(spec);
+  const support2 = support * support * (1 + 1e-12);
   const m = composeAffine(invertAffine(pose), affine); // voxel index -> head mm
   for (const c of centresMm) {
     const [i0, i1, j0, j1, k0, k1] = posedBlobBox(dims, affine, pose, c, support);
@@ -30,8 +31,12 @@ export function posedBlobWeights(dims: readonly number[], affine: Affine, pose: 
         let z = m[8] * i0 + m[9] * j + m[10] * k + m[11] - c[2];
         let v = i0 + nx * (j + ny * k);
         for (let i = i0; i <= i1; i++, v++) {
-          const w = blobWeight(spec, Math.sqrt(x * x + y * y + z * z));
-          if (w > 0) out[v] += Math.fround(w);
+          const r2 = x * x + y * y + z * z;
+          // the box's corners lie outside the ball
+          if (r2 <= support2) {
+            const w = blobWeight(spec, Math.sqrt(r2));
+            if (w > 0) out[v] += Math.fround(w);
+          }
           x += m[0]; y += m[4]; z += m[8];
         }
       }
