@@ -269,21 +269,37 @@ class VolumeWeights {
     this.posed = new Float32Array(n);
     this.result = b0 ? new Float32Array(n) : this.posed;
     if (b0) {
-      // displaced signal stays on its phase-encode line: the lines through the reach are the support
+      // displaced signal stays on its phase-encode line, within maxShift of where it started: on each
+      // line through the reach (positions lo..hi) weights can land on lo - M - 1 .. hi + M + 1
+      // (M = largest shift, whole voxels; 1 for the linear deposit), and the unit image's signal that
+      // lands there starts within 2M + 2 of the reach, its pieces reading one voxel further: so the
+      // unit image is needed on lo - 2M - 3 .. hi + 2M + 3 (exactly as on the whole line there) and
+      // the shift two voxels beyond that
       const axis = b0.phaseEncodeAxis;
       const stride = axis === 0 ? 1 : axis === 1 ? nx : nx * ny;
       const len = volume.dims[axis];
-      const starts = new Set<number>();
-      for (let v = 0; v < n; v++) if (reach[v]) starts.add(v - stride * (axis === 0 ? v % nx : axis === 1 ? Math.floor(v / nx) % ny : Math.floor(v / (nx * ny))));
-      this.lineStarts = Int32Array.from([...starts].sort((a, b) => a - b));
-      for (const s of this.lineStarts) for (let t = 0; t < len; t++) reach[s + t * stride] = 1;
-      this.displaced = new Float32Array(n);
+      let maxHz = 0;
+      for (let v = 0; v < n; v++) maxHz = Math.max(maxHz, Math.abs(b0.fieldMapHz[v]));
+      const margin = 2 * Math.ceil(maxHz * b0.totalReadoutTimeSec) + 3;
+      const span = new Map<number, [number, number]>();
+      for (let v = 0; v < n; v++) {
+        if (!reach[v]) continue;
+        const position = axis === 0 ? v % nx : axis === 1 ? Math.floor(v / nx) % ny : Math.floor(v / (nx * ny));
+        const start = v - stride * position;
+        const seen = span.get(start);
+        if (seen) { seen[0] = Math.min(seen[0], position); seen[1] = Math.max(seen[1], position); } else span.set(start, [position, position]);
+      }
+      this.lineStarts = Int32Array.from([...span.keys()].sort((a, b) => a - b));
       this.unit = new Float32Array(n);
+      for (const [start, [lo, hi]] of span) {
+        for (let t = Math.max(0, lo - margin - 2); t <= Math.min(len - 1, hi + margin + 2); t++) reach[start + t * stride] = 1;
+        for (let t = Math.max(0, lo - margin); t <= Math.min(len - 1, hi + margin); t++) this.unit[start + t * stride] = 1;
+      }
+      this.displaced = new Float32Array(n);
       this.unitDisplaced = new Float32Array(n);
       this.shift = new Float32Array(n);
     }
     this.voxels = nonZero(reach);
-    if (this.unit) for (const v of this.voxels) this.unit[v] = 1;
   }
 
   /**

@@ -1,6 +1,9 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { acquisitionModel } from '../../src/acquire/acquisition-model.js';
+import { distortAlongAxis } from '../../src/acquire/distort-along-axis.js';
+import { headFieldShiftVoxels } from '../../src/acquire/head-field-shift-voxels.js';
+import { posedBlobWeights } from '../../src/plant/posed-blob-weights.js';
 import type { MotionRow } from '../../src/acquire/rigid-motion-affine.js';
 import { rigidMotionAffine } from '../../src/acquire/rigid-motion-affine.js';
 import { applyAffine, composeAffine, diagonalAffine, invertAffine, type Vec3 } from '../../src/core/affine.js';
@@ -205,6 +208,48 @@ describe('planting that follows the acquisition', () => {
       expect(Math.abs(got2[1] - (c[1] + 3 * shift2))).toBeLessThan(1e-3);
       expect(Math.abs(got3[1] - (c[1] + 3 * shift3))).toBeLessThan(1e-3);
       expect(Math.abs(got3[0] - (c[0] + 6))).toBeLessThan(1e-3);
+    }
+    // the planted weight is the phantom's distortion kernel applied, over the whole grid, to the posed
+    // weight image, divided by the same kernel applied to a unit image (planting works on the lines
+    // through the blobs only and must agree); float32 storage of the run leaves 2e-5 (see above)
+    const pose = rigidMotionAffine(table[3], moved.rotationCentreMm);
+    const posedImage = posedBlobWeights(dims, run.affine, pose, truth.centresMm, truth.shape, new Float32Array(n));
+    const fieldFromOut = composeAffine(invertAffine(run.affine), composeAffine(invertAffine(pose), run.affine));
+    const shift = headFieldShiftVoxels(field, dims, fieldFromOut, dims, { totalReadoutTimeSec: 0.025, sign: 1 }, new Float32Array(n));
+    const displaced = distortAlongAxis(posedImage, shift, dims, 1);
+    const density = distortAlongAxis(new Float32Array(n).fill(1), shift, dims, 1);
+    let worst = 0;
+    for (let v = 0; v < n; v++) worst = Math.max(worst, Math.abs(w3[v] - (density[v] > 1e-6 ? displaced[v] / density[v] : 0)));
+    expect(worst).toBeLessThan(2e-5);
+  });
+
+  it('works on the lines through the blobs only and agrees with the distortion of the whole grid', () => {
+    // a long phase-encode axis (64 voxels), so the lines are cut well short of their ends
+    const long: [number, number, number] = [16, 64, 12];
+    const run = flatRun(long, 4);
+    const n = 16 * 64 * 12;
+    // a field that varies along the line (converging and spreading shifts, up to 2.3 voxels)
+    const field = Float32Array.from({ length: n }, (_, v) => 90 * Math.sin((Math.floor(v / 16) % 64) / 6) + 3 * (v % 16));
+    const table = still(4);
+    table[2] = { ...table[2], shiftYMm: 4, rotXDeg: 3 };
+    const model = acquisitionModel({ volume: run, sidecar: { RepetitionTime: 2, PhaseEncodingDirection: 'j-', TotalReadoutTime: 0.02 } }, { fieldMapHz: field, motionTable: table });
+    const { volume, truth } = plantActivations(run, { count: 1, fwhmMm: 6, amplitudePct: 5, timeCourse: [1, 1, 1, 1], placementMask: boxMask(long, 4), seed: 2, acquisition: model });
+    for (const t of [1, 2]) {
+      const w = recoveredWeights(volume, run, t, 5, 1);
+      const pose = rigidMotionAffine(table[t], model.rotationCentreMm);
+      const posedImage = posedBlobWeights(long, run.affine, pose, truth.centresMm, truth.shape, new Float32Array(n));
+      const fieldFromOut = composeAffine(invertAffine(run.affine), composeAffine(invertAffine(pose), run.affine));
+      const shift = headFieldShiftVoxels(field, long, fieldFromOut, long, { totalReadoutTimeSec: 0.02, sign: -1 }, new Float32Array(n));
+      const displaced = distortAlongAxis(posedImage, shift, long, 1);
+      const density = distortAlongAxis(new Float32Array(n).fill(1), shift, long, 1);
+      let worst = 0, planted = 0;
+      for (let v = 0; v < n; v++) {
+        worst = Math.max(worst, Math.abs(w[v] - (density[v] > 1e-6 ? displaced[v] / density[v] : 0)));
+        if (w[v] > 0.01) planted++;
+      }
+      // float32 storage of the run: 2e-5 (see above)
+      expect(worst, `volume ${t}`).toBeLessThan(2e-5);
+      expect(planted).toBeGreaterThan(20);
     }
   });
 
