@@ -67,4 +67,4 @@ export {
 } from './report/index.js';
 
 // the digital phantom
-export { simulatePhantomRun, writePhantomRun, demoPhantomSpec, defaultPhantomSpec, TISSUE_LABEL } from './simulate/index.js';
+export { simulatePhantomRun, writePhantomRun, demoPhantomSpec, defaultPhantomSpec, phantomAcquisitionModel, TISSUE_LABEL } from './simulate/index.js';

@@ -18,3 +18,4 @@ export { blockResponseAt } from './block-response-at.js';
 export { physioTraces, type PhysioRates, type PhysioTraces } from './physio-traces.js';
 export { smoothGaussianField } from './smooth-gaussian-field.js';
 export { simulatedMotionTable, type MotionJerk, type MotionSpec } from './simulated-motion-table.js';
+export { phantomAcquisitionModel } from './phantom-acquisition-model.js';
