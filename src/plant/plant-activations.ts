@@ -132,18 +132,22 @@ export interface PlantTruth {
  * displaced weight image over the displaced unit image (the mean blob weight of the head positions
  * whose signal lands in the voxel, for a baseline that varies slowly over the displacement; the
  * raw baseline already carries the pile-up and thinning). Only voxels the blobs can reach are
- * touched (the blobs' support carried by every pose; whole phase-encode lines with a field map).
+ * touched (the blobs' support carried by every pose; with a field map, the stretch of each
+ * phase-encode line through the blobs that displaced signal can reach).
  * With no acquisition, identity poses, no field map and no slice times the output is byte-identical
  * to planting in fixed scanner voxels.
  * @param volume - the raw 4D run (not modified)
- * @param options - blob shape, size, count, amplitude, time course, mask, seed
- * @returns the new run and its ground truth
+ * @param options - blob shape, size, count, amplitude, time course (and per-slice courses), mask, seed,
+ *   acquisition model
+ * @returns the new run and its ground truth (reference frame, run's grid)
  * @throws BoldsweepError INVALID_ARGUMENT for bad sizes or time courses (or slice time courses
  *   missing when the acquisition has slice times), NOT_4D for a 3D image, GRID_MISMATCH for a mask
  *   or an acquisition model on another grid, PLANTING_DOES_NOT_FIT when the blobs do not fit
  * @example
  * const { volume, truth } = plantActivations(run.volume, { count: 6, fwhmMm: 6, amplitudePct: 1,
  *   timeCourse: regressor, placementMask: greyMatter, seed: 7 })
+ * // following the acquisition: acquisitionModel(run, { motionTable }), courses from plantTimeCourses
+ * plantActivations(run.volume, { ...options, timeCourse, sliceTimeCourses, acquisition: model })
  */
 export function plantActivations(volume: Volume, options: PlantOptions): { volume: Volume; truth: PlantTruth } {
   const [nx, ny, nz, nt] = volume.dims;
