@@ -225,7 +225,7 @@ function refuseNonNifti(probe: Uint8Array, path: string): void {
   const head = probe.subarray(0, Math.min(probe.byteLength, 256));
   const text = head.every((b) => b === 9 || b === 10 || b === 13 || (b >= 32 && b < 127) || b >= 128);
   const gz = /\.gz$/i.test(path);
-  const what = text ? `it holds text (it starts with ${JSON.stringify(Buffer.from(head.subarray(0, 40)).toString('utf8'))})` : `its first 4 bytes are ${[...head.subarray(0, 4)].map((b) => b.toString(16).padStart(2, '0')).join(' ')}`;
+  const what = text ? `it holds text (it starts with ${JSON.stringify(Buffer.from(head.subarray(0, 40)).toString('utf8'))})` : `sizeof_hdr is ${sizes[0]} (should be 348 for NIfTI-1 or 540 for NIfTI-2)`;
   fail('NIFTI_BAD_MAGIC', `${basename(path)} is not a NIfTI file: ${gz ? 'it is named .gz but is not gzip-compressed, and ' : ''}${what}`, { file: path });
 }
 
