@@ -69,6 +69,7 @@ export function starterSpecYaml(look: LookFolderFacts | null): string {
   note(doc, ['recipe', i], 'Gaussian spatial smoothing. fwhmMm: kernel width in mm (0 = none; swept below). mode: how the\nimage is extended past its edge (reflect, nearest, mirror, constant, wrap). withinMask: smooth\nonly inside the brain mask.');
   flowLists(doc, [['recipe', i, 'params'], ['recipe', 0, 'params']]);
   note(doc, ['vary'], 'The settings compared: "<step>.<parameter>" (or "model.<option>") and its candidate values.\nThe sweep runs every combination; keep the list short, each value costs a full set of repeats.');
+  note(doc, ['vary', 'smooth.fwhmMm'], 'Candidate smoothing widths (FWHM, mm; 0 = none). Widths near the activation size are the ones to\ncover: detection is best when the kernel matches the activation (the matched-filter theorem).');
   flowLists(doc, [['vary', 'smooth.fwhmMm']]);
   note(doc, ['plant'], 'The activations planted into the real run, whose detection scores each setting.');
   note(doc, ['plant', 'shape'], 'Profile of each planted activation: gaussian or sphere.');
