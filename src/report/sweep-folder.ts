@@ -12,10 +12,12 @@ import { privateMasks, privateRunFacts, type RunFacts } from './run-facts.js';
 /**
  * A sweep folder: what `boldsweep sweep` writes and `boldsweep report` / `gather` read.
  *
- *   scorecard.tsv   one row per cell (reproducible bytes)
+ *   scorecard.tsv   header line, then one row per cell (reproducible bytes; identifier column names)
  *   timings.tsv     seconds per cell (not reproducible: a clock)
  *   roc.tsv         true-positive rate at fixed false-positive rates, per cell
- *   sweep.json      spec, plan summary, step notes, input hashes, masks, run facts, statistics
+ *   sweep.json      spec, scorecard key and varied parameters, plan summary, step notes, input
+ *                   file names and hashes, masks, run facts, statistics
+ *   .boldsweep-output.json   the marker naming the files boldsweep wrote (see claimOutputFolder)
  */
 export interface SweepFolder {
   result: SweepResult;
