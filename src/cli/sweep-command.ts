@@ -90,6 +90,7 @@ Example:
         const applied = applyLookToSpec(spec, look);
         spec = applied.spec;
         for (const n of applied.notes) console.log(`look: ${n}`);
+        if (!applied.notes.length) console.log(`look: the spec treats the look's findings (drop ${look.dropInitialVolumes}, censor ${look.censorVolumes.join(', ') || 'none'})`);
       } else {
         const warnings = untreatedFindings(spec, lookAtRun(run).recommendation);
         for (const w of warnings) console.error(`warning: ${w}`);

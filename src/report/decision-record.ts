@@ -41,8 +41,6 @@ export interface DecisionInputs {
   scorecardFile?: string;
   /** Sidecar fields the analysis used. __Default value:__ ['RepetitionTime'] when the TR came from the sidecar */
   sidecarFields?: string[];
-  /** No longer used: inputs are recorded by file name and hash only (kept so older callers still compile). */
-  relativeTo?: string;
 }
 
 /**

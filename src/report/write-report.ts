@@ -68,7 +68,7 @@ export async function writeReport(dir: string, folder: SweepFolder, options: Rec
   const { result } = folder;
   const thr = thresholdText(result.spec.threshold);
   const recommendation = recommendSetting(result.scorecard, { thresholdText: thr, ...options });
-  const record = await buildDecisionRecord({ result, recommendation, run: folder.run, masks: folder.masks, relativeTo: dir });
+  const record = await buildDecisionRecord({ result, recommendation, run: folder.run, masks: folder.masks });
   const methods = methodsText(record);
   const charts = await sweepCharts(folder, recommendation);
   const spec = result.spec;
