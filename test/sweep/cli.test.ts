@@ -90,7 +90,9 @@ describe('boldsweep sweep / gather / report', () => {
     expect((await boldsweep('sweep', bold, '--out', 'x')).status).toBe(2); // --spec missing
     expect((await boldsweep('sweep', bold, '--spec', 'spec.yaml', '--out', 'x', '--workers', 'two')).status).toBe(2);
     expect((await boldsweep('report', 'no-such-folder')).status).toBe(2);
-    expect((await boldsweep('gather', 'shard1', '--out', 'partial')).status).toBe(2); // cells missing
+    const partial = await boldsweep('gather', 'shard1', '--out', 'partial'); // cells missing
+    expect(partial.status).toBe(2);
+    expect(partial.stderr).toContain('--allow-partial');
     const help = await boldsweep('sweep', '--help');
     expect(help.status).toBe(0);
     expect(help.stdout).toContain('Exit codes');
