@@ -100,11 +100,14 @@ describe('boldsweep sweep / gather / report', () => {
   });
 
   it('exits 2 on bad usage everywhere, prints its version, and every help has an example', async () => {
-    expect((await boldsweep('frobnicate')).status).toBe(2); // unknown command
-    expect((await boldsweep('look', bold, '--out', 'l', '--bogus')).status).toBe(2); // unknown option
-    expect((await boldsweep('spec')).status).toBe(2); // missing argument
-    expect((await boldsweep('report', 'x', '--prefer', 'middle')).status).toBe(2); // bad value
-    const neg = await boldsweep('look', bold, '--out', 'l', '--drop', '-1');
+    const [unknownCommand, unknownOption, missingArgument, badValue, neg] = await Promise.all([
+      boldsweep('frobnicate'),
+      boldsweep('look', bold, '--out', 'l', '--bogus'),
+      boldsweep('spec'),
+      boldsweep('report', 'x', '--prefer', 'middle'),
+      boldsweep('look', bold, '--out', 'l', '--drop', '-1'),
+    ]);
+    for (const r of [unknownCommand, unknownOption, missingArgument, badValue]) expect(r.status, r.stderr).toBe(2);
     expect(neg.status).toBe(2);
     expect(neg.stderr).toContain('must be a whole number, 0 or more');
     const v = await boldsweep('--version');
@@ -113,7 +116,9 @@ describe('boldsweep sweep / gather / report', () => {
     const top = (await boldsweep('--help')).stdout;
     const order = ['boldsweep look', 'boldsweep spec', 'boldsweep sweep', 'boldsweep report'].map((c) => top.indexOf(`${c} `, top.indexOf('order of work')));
     expect(order.every((i, k) => i > 0 && (k === 0 || i > order[k - 1]))).toBe(true);
-    for (const c of ['look', 'spec', 'sweep', 'gather', 'report', 'demo']) expect((await boldsweep(c, '--help')).stdout, c).toMatch(/Example:\n  boldsweep /);
+    const commands = ['look', 'spec', 'sweep', 'gather', 'report', 'demo'];
+    const helps = await Promise.all(commands.map((c) => boldsweep(c, '--help')));
+    helps.forEach((h, k) => expect(h.stdout, commands[k]).toMatch(/Example:\n  boldsweep /));
   });
 
   it('names the missing events file and the option', async () => {
