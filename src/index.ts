@@ -53,7 +53,7 @@ export { scoreDetection, type ScoreRow } from './score/index.js';
 export {
   type SweepSpec, type SweepSpecInput, parseSweepSpec, readSweepSpec, defaultSmoothingSpec, settingText,
   runSweep, type SweepResult, gatherResults, shareVolume, buildMask, maskFromFile, lineProgress, scorecardFrame,
-  type Scorecard,
+  type Scorecard, applyLookToSpec, untreatedFindings,
 } from './sweep/index.js';
 
 // decide
@@ -64,6 +64,7 @@ export {
   RESEARCH_CAUTION, renderSvg, threePlanePng, sliceGridPng, voxelRasterSvg, lookTracesSpec, voxelTimeCourseSpec, chosenVoxels, maskCentre,
   writeLookFolder, detectionChart, falseAlarmChart, rocChart, smoothnessChart, tsnrChart, methodsText, methodsMarkdown,
   thresholdText, runFacts, writeReport, writeSweepFolder, readDecisionRecord, recordDir, rerunRecord,
+  readLookFolder, starterSpecYaml,
 } from './report/index.js';
 
 // the digital phantom

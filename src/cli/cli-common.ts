@@ -17,10 +17,19 @@ Exit codes:
 export function withExitCodes(cmd: Command): Command {
   return cmd
     .addHelpText('after', EXIT_CODES_HELP)
-    .exitOverride((err: CommanderError) => {
-      // help and version end with code 0; anything else commander rejects is bad input
-      process.exit(err.exitCode === 0 ? 0 : 2);
-    });
+    .exitOverride(exitTwoOnUsage)
+    .showHelpAfterError(`(boldsweep ${cmd.name()} --help shows the options and an example)`);
+}
+
+/**
+ * Commander's exit hook: help and version end with 0; anything else commander rejects (unknown
+ * command or option, missing argument, bad value) is bad usage and ends with 2.
+ * @param err - commander's error
+ * @returns never (the process exits)
+ * @example new Command().exitOverride(exitTwoOnUsage)
+ */
+export function exitTwoOnUsage(err: CommanderError): never {
+  process.exit(err.exitCode === 0 ? 0 : 2);
 }
 
 /**
@@ -61,3 +70,32 @@ export function positiveNumber(value: string): number {
   if (!(n > 0) || !Number.isFinite(n)) throw new InvalidArgumentError('must be a positive number.');
   return n;
 }
+
+/**
+ * Parse a count that may be zero (volumes to drop).
+ * @param value - option text
+ * @returns the integer
+ * @throws InvalidArgumentError for a negative or fractional number (commander prints it and exits 2)
+ * @example cmd.option('--drop <n>', 'volumes', nonNegativeInt)
+ */
+export function nonNegativeInt(value: string): number {
+  const n = Number(value);
+  if (!Number.isInteger(n) || n < 0) throw new InvalidArgumentError(`must be a whole number, 0 or more (got ${value}).`);
+  return n;
+}
+
+/**
+ * Parse a finite number option (z cutoffs).
+ * @param value - option text
+ * @returns the number
+ * @throws InvalidArgumentError for anything else
+ * @example cmd.option('--volume-cutoff-z <z>', 'cutoff', finiteNumber, 5)
+ */
+export function finiteNumber(value: string): number {
+  const n = Number(value);
+  if (value.trim() === '' || !Number.isFinite(n)) throw new InvalidArgumentError(`must be a number (got ${value}).`);
+  return n;
+}
+
+/** Help text of every command's --force. */
+export const FORCE_HELP = 'write into a non-empty folder boldsweep did not write (its files are added; nothing there is deleted or replaced)';

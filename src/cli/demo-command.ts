@@ -1,9 +1,10 @@
 import { existsSync } from 'node:fs';
-import { join, resolve } from 'node:path';
+import { basename, join, resolve } from 'node:path';
 import type { Command } from 'commander';
 import { fail } from '../core/fail.js';
 import { summariseVolume } from '../core/summary.js';
 import { openRun } from '../io/open-run.js';
+import { addOutputFiles, checkOutputFolder, claimOutputFolder } from '../io/output-folder.js';
 import { lookAtRun } from '../look/look-at-run.js';
 import { RESEARCH_CAUTION } from '../report/caution.js';
 import { runFacts } from '../report/run-facts.js';
@@ -16,7 +17,7 @@ import { buildMask, maskFromFile, type MaskSource } from '../sweep/mask-source.j
 import { runSweep } from '../sweep/runner.js';
 import { shareVolume } from '../sweep/shared-volume.js';
 import { terminalProgress } from '../sweep/terminal-progress.js';
-import { positiveInt, withExitCodes } from './cli-common.js';
+import { FORCE_HELP, positiveInt, withExitCodes } from './cli-common.js';
 
 /** File name stem of the demo run in data-demo/. */
 export const DEMO_RUN_STEM = 'sub-phantom01_task-flicker';
@@ -30,6 +31,7 @@ interface DemoCliOptions {
   repeats?: number;
   workers?: number;
   progress: boolean;
+  force?: boolean;
 }
 
 /**
@@ -43,12 +45,14 @@ export async function runDemo(o: DemoCliOptions): Promise<void> {
   const dataDir = resolve(o.data ?? join(packageRoot(), 'data-demo'));
   const image = join(dataDir, `${DEMO_RUN_STEM}_bold.nii.gz`);
   if (!existsSync(image)) fail('FILE_NOT_FOUND', `the demo run ${image} is missing (regenerate it with "npm run make-demo-data")`);
+  const write = { force: o.force, inputs: [image] };
+  checkOutputFolder(o.out, write);
   let run = await openRun(image);
   // one copy of the run, in shared memory (the original becomes garbage)
   run = { ...run, volume: shareVolume(run.volume) };
 
   // 1. the run and a first look
-  console.log(`Run: ${image}`);
+  console.log(`Run: ${basename(image)}`);
   console.log(`     ${summariseVolume(run.volume)}`);
   const look = lookAtRun(run);
   for (const v of look.verdicts.slice(0, 6)) console.log(`look: ${v}`);
@@ -72,6 +76,8 @@ export async function runDemo(o: DemoCliOptions): Promise<void> {
   // 3. the default smoothing sweep
   const spec = defaultSmoothingSpec({ dropInitialVolumes: drop, censorVolumes: censor, repeats: o.repeats, workers: o.workers });
   console.log(`sweep: smoothing FWHM ${spec.vary['smooth.fwhmMm'].join(', ')} mm x ${spec.repeats} plantings of ${spec.plant.count} blobs (${spec.plant.sizesFwhmMm.join(', ')} mm FWHM, ${spec.plant.amplitudesPct.join(', ')} %)${drop ? `, after dropping ${drop} initial volumes` : ''}${censor.length ? `, censoring volumes ${censor.join(', ')}` : ''}`);
+  await claimOutputFolder(o.out, write);
+  await addOutputFiles(o.out, ['cache/']);
   const bar = o.progress ? terminalProgress() : null;
   let result;
   try {
@@ -84,8 +90,8 @@ export async function runDemo(o: DemoCliOptions): Promise<void> {
 
   // 4. report
   const folder = { result, run: runFacts(run), masks };
-  await writeSweepFolder(o.out, folder);
-  const { recommendation, files } = await writeReport(o.out, folder);
+  await writeSweepFolder(o.out, folder, write);
+  const { recommendation, files } = await writeReport(o.out, folder, {}, write);
   console.log('');
   console.log(recommendation.summary);
   console.log('');
@@ -106,12 +112,16 @@ export async function runDemo(o: DemoCliOptions): Promise<void> {
 export function registerDemoCommand(program: Command): Command {
   return withExitCodes(program.command('demo'))
     .description('Run the default smoothing sweep on the demo run (an invented digital phantom) and write report.html, scorecard.tsv, decision-record.json and methods.md.')
-    .option('--out <dir>', 'output folder', 'out/demo')
+    .option('--out <dir>', 'output folder: new, empty, or written by boldsweep before', 'out/demo')
     .option('--data <dir>', 'folder holding the demo run (default: the package\'s data-demo/)')
     .option('--repeats <n>', 'plantings per setting (default 20)', positiveInt)
     .option('--workers <n>', 'worker threads (default 2)', positiveInt)
-    .option('--no-progress', 'do not draw the progress bar')
+    .option('--no-progress', 'no progress bar or progress lines')
+    .option('--force', FORCE_HELP)
     .addHelpText('after', `
+Example:
+  boldsweep demo --out demo-results --repeats 5
+
 The sweep's stage cache is kept in <out>/cache: run the command again to reuse it, or delete the
 folder to start over. An interrupted demo resumes from the cells it finished.`)
     .action(async (o: DemoCliOptions) => runDemo(o));

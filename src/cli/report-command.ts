@@ -1,4 +1,4 @@
-import type { Command } from 'commander';
+import { InvalidArgumentError, type Command } from 'commander';
 import { readSweepFolder } from '../report/sweep-folder.js';
 import { writeReport } from '../report/write-report.js';
 import { RESEARCH_CAUTION } from '../report/caution.js';
@@ -8,6 +8,12 @@ interface ReportCliOptions {
   metric: string;
   targetSize?: number;
   prefer: 'smallest' | 'largest';
+  force?: boolean;
+}
+
+function preferEnd(value: string): 'smallest' | 'largest' {
+  if (value !== 'smallest' && value !== 'largest') throw new InvalidArgumentError('must be smallest or largest.');
+  return value;
 }
 
 /**
@@ -19,15 +25,19 @@ interface ReportCliOptions {
  */
 export function registerReportCommand(program: Command): Command {
   return withExitCodes(program.command('report'))
-    .description('Write the report of a sweep folder: recommendation with its evidence, charts, methods text and decision record.')
+    .description('Step 4. Write the report of a sweep folder into it: recommendation with its evidence, charts, methods text and decision record.')
     .argument('<dir>', 'a folder written by "boldsweep sweep" or "boldsweep gather"')
     .option('--metric <name>', 'detection metric to maximise (a scorecard column, e.g. hitRate, rocAuc, blobHitRate)', 'hitRate')
     .option('--target-size <mm>', 'planted size the choice is made for (default: the median planted size)', positiveNumber)
-    .option('--prefer <end>', 'which end of the parameter range is simpler: smallest or largest', 'smallest')
+    .option('--prefer <end>', 'which end of the parameter range is simpler: smallest or largest', preferEnd, 'smallest')
+    .option('--force', 'write into a sweep folder made before output folders carried boldsweep\'s marker (only the report\'s own files are written)')
+    .addHelpText('after', `
+Example:
+  boldsweep report sweep-sub-01
+  (then open sweep-sub-01/report.html; methods.md holds the methods paragraph)`)
     .action(async (dir: string, o: ReportCliOptions) => {
       const folder = readSweepFolder(dir);
-      const prefer = o.prefer === 'largest' ? 'largest' : 'smallest';
-      const { recommendation, files } = await writeReport(dir, folder, { metric: o.metric, targetSizeMm: o.targetSize, prefer });
+      const { recommendation, files } = await writeReport(dir, folder, { metric: o.metric, targetSizeMm: o.targetSize, prefer: o.prefer }, { force: o.force, inputs: [] });
       console.log(recommendation.summary);
       console.log(`wrote ${files.report}, ${files.methods}, ${files.record}`);
       console.log(RESEARCH_CAUTION);

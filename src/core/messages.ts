@@ -23,6 +23,13 @@ export const ERROR_ADVICE = {
   EVENTS_INVALID: 'Fix the listed rows of the events TSV (columns onset, duration in seconds; trial_type; optional modulation).',
   EVENTS_BEYOND_RUN: 'An event starts after the last volume was acquired. Check the events file belongs to this run and that onsets are in seconds.',
   WRITE_FAILED: 'Check the output folder exists and is writable; nothing was written.',
+  OUTPUT_NOT_OURS: 'Choose a new or empty output folder, or one boldsweep wrote before. --force writes boldsweep\'s files beside the others (it never deletes or replaces them).',
+  OUTPUT_FILE_NOT_OURS: 'Move or rename that file, or choose another output folder; boldsweep replaces only files it wrote itself.',
+  OUTPUT_IS_INPUT_FOLDER: 'Write the outputs to a folder of their own (e.g. --out derivatives/boldsweep/<name>), never into the folder of the data they come from.',
+  OUTPUT_IS_CURRENT_FOLDER: 'Name a subfolder for the outputs (e.g. --out look-sub-01); boldsweep does not write into the current folder as a whole.',
+  LOOK_FROM_OTHER_RUN: 'Give the look folder made from this very run (boldsweep look <run> --out <dir>), or look at this run again.',
+  EVENTS_MISSING: 'Put the events TSV beside the run under the expected name, pass it with --events <file>, or set the spec\'s events to a random block design.',
+  SPEC_FILE_EXISTS: 'Choose another file name, or pass --force to replace a spec that boldsweep spec wrote earlier (other files are never replaced).',
   // arguments
   INVALID_ARGUMENT: 'Check the value passed; the message names the argument and the accepted range.',
   GRID_MISMATCH: 'Both images must share dimensions and voxel-to-world mapping. Resample one onto the other first.',

@@ -15,3 +15,4 @@ export { readEvents, writeEvents, parseEvents, formatEvents, eventRowSchema, DEF
 export { openRun, type OpenRunOptions } from './open-run.js';
 export { findRunSiblings, siblingCandidates, type RunSiblings } from './run-siblings.js';
 export { hashFile } from './hash-file.js';
+export { OUTPUT_MARKER, checkOutputFolder, claimOutputFolder, addOutputFiles, prepareOutputFiles, settleOutputSet, readOutputMarker, type OutputMarker, type ClaimOptions } from './output-folder.js';

@@ -1,3 +1,4 @@
+import { basename } from 'node:path';
 import { open, type FileHandle } from 'node:fs/promises';
 import { constants as bufferConstants } from 'node:buffer';
 import { constants as zlibConstants, gunzipSync } from 'node:zlib';
@@ -55,6 +56,7 @@ export async function readNifti(path: string, options: ReadNiftiOptions = {}): P
     const probe = new Uint8Array(Math.min(size, HEADER_PROBE_BYTES));
     await readFully(fh, probe, 0, path);
     compressed = probe.byteLength >= 2 && probe[0] === 0x1f && probe[1] === 0x8b;
+    if (!compressed) refuseNonNifti(probe, path);
     ({ header, data } = compressed ? await readCompressed(fh, path) : await readPlain(fh, probe, size, path));
   } finally {
     await fh.close();
@@ -209,6 +211,22 @@ function checkDataLength(h: NiftiHeaderFacts, have: number, need: number, path: 
   const what = `header dims ${h.dims4.join('x')} of ${h.datatype.name} need ${need} bytes after vox_offset ${h.voxOffset}`;
   if (have < need) fail('NIFTI_TRUNCATED', `${what}, but the file holds ${Math.max(0, have)}`, { file: path, details: { needBytes: need, haveBytes: have } });
   if (have > need) fail('NIFTI_SIZE_MISMATCH', `${what}, but the file holds ${have} (${have - need} extra)`, { file: path, details: { needBytes: need, haveBytes: have } });
+}
+
+/**
+ * Say plainly what a file that is neither gzip nor a NIfTI header is: a .gz name on an uncompressed
+ * file, or text (an error page or a list saved under an image's name is a common mix-up).
+ */
+function refuseNonNifti(probe: Uint8Array, path: string): void {
+  if (probe.byteLength < 4) return; // parseNiftiHeader reports a too-short file
+  const view = new DataView(probe.buffer, probe.byteOffset, probe.byteLength);
+  const sizes = [view.getInt32(0, true), view.getInt32(0, false)];
+  if (sizes.some((n) => n === 348 || n === 540)) return;
+  const head = probe.subarray(0, Math.min(probe.byteLength, 256));
+  const text = head.every((b) => b === 9 || b === 10 || b === 13 || (b >= 32 && b < 127) || b >= 128);
+  const gz = /\.gz$/i.test(path);
+  const what = text ? `it holds text (it starts with ${JSON.stringify(Buffer.from(head.subarray(0, 40)).toString('utf8'))})` : `sizeof_hdr is ${sizes[0]} (should be 348 for NIfTI-1 or 540 for NIfTI-2)`;
+  fail('NIFTI_BAD_MAGIC', `${basename(path)} is not a NIfTI file: ${gz ? 'it is named .gz but is not gzip-compressed, and ' : ''}${what}`, { file: path });
 }
 
 function gzipFailure(e: unknown, path: string, where: 'header' | 'data'): never {

@@ -204,7 +204,8 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
   }
   const auto = options.dropInitialVolumes === undefined || options.dropInitialVolumes === 'auto';
   const drop = auto ? Math.max(onset.count, perVoxel?.count ?? 0) : (options.dropInitialVolumes as number);
-  if (!Number.isInteger(drop) || drop < 0 || nt - drop < LOOK_MIN_VOLUMES) {
+  if (!Number.isInteger(drop) || drop < 0) fail('INVALID_ARGUMENT', `dropInitialVolumes must be a whole number of volumes, 0 or more (or 'auto'); got ${drop}`);
+  if (nt - drop < LOOK_MIN_VOLUMES) {
     fail(auto ? 'TOO_FEW_VOLUMES' : 'INVALID_ARGUMENT', `dropping ${drop} initial volumes leaves ${nt - drop}; a look needs ${LOOK_MIN_VOLUMES}`);
   }
 

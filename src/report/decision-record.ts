@@ -1,12 +1,12 @@
 import { createHash } from 'node:crypto';
-import { readFileSync } from 'node:fs';
-import { dirname, resolve } from 'node:path';
+import { existsSync, readFileSync } from 'node:fs';
+import { basename, dirname, resolve } from 'node:path';
 import { z } from 'zod';
 import { fail } from '../core/fail.js';
 import { hashFile } from '../io/hash-file.js';
 import { openRun } from '../io/open-run.js';
-import type { RunFacts } from './run-facts.js';
-import { fileFacts, buildMask, type MaskSource } from '../sweep/mask-source.js';
+import { privateMasks, privateRunFacts, type RunFacts } from './run-facts.js';
+import { buildMask, type MaskSource } from '../sweep/mask-source.js';
 import type { Recommendation } from '../decide/recommend-setting.js';
 import { runSweep, type SweepOptions, type SweepResult } from '../sweep/runner.js';
 import { scorecardToTsv } from '../sweep/scorecard-tsv.js';
@@ -41,8 +41,6 @@ export interface DecisionInputs {
   scorecardFile?: string;
   /** Sidecar fields the analysis used. __Default value:__ ['RepetitionTime'] when the TR came from the sidecar */
   sidecarFields?: string[];
-  /** Write input paths relative to this folder (so the record travels with the data). */
-  relativeTo?: string;
 }
 
 /**
@@ -53,9 +51,10 @@ export interface DecisionInputs {
  * @example const record = await buildDecisionRecord({ result, recommendation: rec, run, masks: { brain: { kind: 'otsu-mean' }, placement: { kind: 'brain' } } })
  */
 export async function buildDecisionRecord(d: DecisionInputs): Promise<DecisionRecord> {
-  const { result, recommendation: rec, run } = d;
-  const rel = (p: string | null) => (p === null ? null : d.relativeTo ? relPath(d.relativeTo, p) : p);
-  const facts = async (p: string | null) => (p === null ? null : { ...(await fileFacts(p)), path: rel(p)! });
+  const { result, recommendation: rec } = d;
+  // inputs by file name and hash only: a local path can hold a participant's identity
+  const run = await privateRunFacts(d.run);
+  const inputs = run.inputs!;
   const tsv = scorecardToTsv(result.scorecard);
   const c = rec.choice;
   const chosenRecipe: RecipeStep[] = result.spec.recipe.map((s) => {
@@ -66,7 +65,7 @@ export async function buildDecisionRecord(d: DecisionInputs): Promise<DecisionRe
   const fieldNames = d.sidecarFields ?? (run.trSource === 'sidecar' ? ['RepetitionTime'] : []);
   const sidecarFieldsUsed: Record<string, unknown> = {};
   for (const f of fieldNames) if (run.sidecar && run.sidecar[f] !== undefined) sidecarFieldsUsed[f] = run.sidecar[f];
-  const masks = { brain: relMask(d.masks.brain, rel), placement: relMask(d.masks.placement, rel), exclude: d.masks.exclude ? relMask(d.masks.exclude, rel) : null };
+  const masks = privateMasks(d.masks);
   const sum = (m: { n: number; mean: number; se: number; low: number; high: number }): MetricSummary => ({ n: m.n, mean: orNull(m.mean), se: orNull(m.se), low: orNull(m.low), high: orNull(m.high) });
   return {
     format: 'boldsweep-decision-record',
@@ -74,7 +73,7 @@ export async function buildDecisionRecord(d: DecisionInputs): Promise<DecisionRe
     createdAt: new Date().toISOString(),
     software: softwareVersions(),
     inputs: {
-      image: await facts(run.files.image), sidecar: await facts(run.files.sidecar), events: await facts(run.files.events),
+      image: inputs.image, sidecar: inputs.sidecar, events: inputs.events,
       runHash: result.inputs.runHash, contextHash: result.inputs.contextHash,
     },
     masks,
@@ -101,20 +100,6 @@ export async function buildDecisionRecord(d: DecisionInputs): Promise<DecisionRe
     },
     caveats: rec.caveats,
   };
-}
-
-function relPath(base: string, p: string): string {
-  const abs = resolve(p);
-  const from = resolve(base);
-  const parts = abs.split('/');
-  const baseParts = from.split('/');
-  let i = 0;
-  while (i < parts.length && i < baseParts.length && parts[i] === baseParts[i]) i++;
-  return [...baseParts.slice(i).map(() => '..'), ...parts.slice(i)].join('/') || '.';
-}
-
-function relMask(m: MaskSource, rel: (p: string) => string | null): MaskSource {
-  return m.kind === 'file' ? { ...m, file: { ...m.file, path: rel(m.file.path)! } } : m;
 }
 
 const fileFactsSchema = z.object({ path: z.string(), sha256: z.string().regex(/^[0-9a-f]{64}$/), bytes: z.number() });
@@ -174,31 +159,48 @@ export interface RerunOutcome {
   reproduced: boolean;
 }
 
+/** Where the inputs of a re-run are: a record names its files, not their folders. */
+export interface RerunInputs {
+  /** Folder holding the recorded files under their recorded names (e.g. the run's func/ folder). __Default value:__ the current folder */
+  inputDir?: string;
+  /** Earlier name of `inputDir`. */
+  baseDir?: string;
+  /** Paths of single inputs, where they are not in `inputDir` under their recorded names. */
+  paths?: Partial<Record<'image' | 'sidecar' | 'events' | 'brain' | 'placement' | 'exclude', string>>;
+}
+
 /**
- * Re-run the sweep a decision record describes: open the same input (checking its hash), rebuild the
- * masks the same way, run the recorded spec and seed, and compare the scorecard with the recorded hash.
+ * Re-run the sweep a decision record describes: open the same inputs (checking their hashes), rebuild
+ * the masks the same way, run the recorded spec and seed, and compare the scorecard with the recorded
+ * hash. The record names each file but not its folder, so the caller says where they are.
  * @param record - the decision record
- * @param options - baseDir: folder the recorded relative paths start from (default: the current
- *   folder); plus runSweep options (workers, cacheDir, onProgress)
+ * @param options - inputDir and paths (where the inputs are, see {@link RerunInputs}); plus runSweep
+ *   options (workers, cacheDir, onProgress)
  * @returns the new result and whether it reproduced the recorded scorecard byte for byte
- * @throws BoldsweepError RECORD_INVALID when the record has no input image or an input file changed
- * @example const { reproduced } = await rerunRecord(readDecisionRecord('out/demo/decision-record.json'), { baseDir: 'out/demo' })
+ * @throws BoldsweepError RECORD_INVALID when the record has no input image or an input file changed; FILE_NOT_FOUND
+ * @example const { reproduced } = await rerunRecord(readDecisionRecord('out/demo/decision-record.json'), { inputDir: 'data-demo' })
  */
-export async function rerunRecord(record: DecisionRecord, options: Pick<SweepOptions, 'workers' | 'cacheDir' | 'onProgress'> & { baseDir?: string } = {}): Promise<RerunOutcome> {
+export async function rerunRecord(record: DecisionRecord, options: Pick<SweepOptions, 'workers' | 'cacheDir' | 'onProgress'> & RerunInputs = {}): Promise<RerunOutcome> {
   checkDecisionRecord(record);
-  const base = options.baseDir ?? '.';
+  const base = options.inputDir ?? options.baseDir ?? '.';
   const image = record.inputs.image;
   if (!image) fail('RECORD_INVALID', 'the record names no input image (the sweep ran on an image held only in memory), so it cannot be re-run from files');
-  const at = (p: string) => resolve(base, p);
-  for (const f of [image, record.inputs.sidecar, record.inputs.events]) {
-    if (!f) continue;
-    const sha = await hashFile(at(f.path));
-    if (sha !== f.sha256) fail('RECORD_INVALID', `input ${at(f.path)} has changed since the record was made (SHA-256 ${sha.slice(0, 12)}..., recorded ${f.sha256.slice(0, 12)}...)`);
+  const where = (key: keyof NonNullable<RerunInputs['paths']>, name: string) => resolve(options.paths?.[key] ?? resolve(base, basename(name)));
+  const located: Record<string, string | null> = {};
+  for (const key of ['image', 'sidecar', 'events'] as const) {
+    const f = record.inputs[key];
+    if (!f) { located[key] = null; continue; }
+    const p = where(key, f.path);
+    if (!existsSync(p)) fail('FILE_NOT_FOUND', `the record's ${key} ${basename(f.path)} is not at ${p}; pass the folder holding the inputs (inputDir) or this file's path (paths.${key})`);
+    const sha = await hashFile(p);
+    if (sha !== f.sha256) fail('RECORD_INVALID', `input ${p} differs from the recorded ${basename(f.path)} (SHA-256 ${sha.slice(0, 12)}..., recorded ${f.sha256.slice(0, 12)}...)`);
+    located[key] = p;
   }
-  const run = await openRun(at(image.path), { sidecar: record.inputs.sidecar ? at(record.inputs.sidecar.path) : null, events: record.inputs.events ? at(record.inputs.events.path) : null });
-  const brainMask = await buildMask(record.masks.brain, run.volume, { baseDir: base });
-  const placementMask = await buildMask(record.masks.placement, run.volume, { baseDir: base, brain: brainMask });
-  const excludeMask = record.masks.exclude ? await buildMask(record.masks.exclude, run.volume, { baseDir: base }) : undefined;
+  const maskAt = (key: 'brain' | 'placement' | 'exclude', m: MaskSource): MaskSource => (m.kind === 'file' ? { ...m, file: { ...m.file, path: where(key, m.file.path) } } : m);
+  const run = await openRun(located.image!, { sidecar: located.sidecar, events: located.events });
+  const brainMask = await buildMask(maskAt('brain', record.masks.brain), run.volume);
+  const placementMask = await buildMask(maskAt('placement', record.masks.placement), run.volume, { brain: brainMask });
+  const excludeMask = record.masks.exclude ? await buildMask(maskAt('exclude', record.masks.exclude), run.volume) : undefined;
   const result = await runSweep(run, record.sweepSpec, { brainMask, placementMask, excludeMask, workers: options.workers, cacheDir: options.cacheDir ?? null, onProgress: options.onProgress });
   const tsv = scorecardToTsv(result.scorecard);
   const sha256 = textSha256(tsv);

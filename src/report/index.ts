@@ -24,8 +24,10 @@ export { htmlReport, type ReportChart, type ReportParts } from './html-report.js
 export { methodsText, methodsMarkdown, shortCitation, METHOD_REFERENCES, type MethodsText } from './methods-text.js';
 export { buildDecisionRecord, readDecisionRecord, checkDecisionRecord, rerunRecord, recordDir, textSha256, type DecisionInputs, type RerunOutcome } from './decision-record.js';
 export type { DecisionRecord, MetricSummary } from './decision-record-types.js';
-export { runFacts, type RunFacts } from './run-facts.js';
+export { runFacts, privateRunFacts, privateMasks, type RunFacts } from './run-facts.js';
 export { writeSweepFolder, readSweepFolder, type SweepFolder } from './sweep-folder.js';
 export { writeReport, sweepCharts, type WrittenReport } from './write-report.js';
 export { thresholdText } from './threshold-text.js';
 export { softwareVersions, packageRoot } from './software-versions.js';
+export { readLookFolder, type LookFolderFacts } from './read-look-folder.js';
+export { starterSpecYaml, STARTER_SPEC_HEADER } from './starter-spec-yaml.js';

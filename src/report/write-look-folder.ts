@@ -1,25 +1,40 @@
 import { randomBytes } from 'node:crypto';
-import { mkdir, rename, rm, stat } from 'node:fs/promises';
-import { basename, dirname, join, resolve } from 'node:path';
+import { existsSync } from 'node:fs';
+import { mkdir, rename, rm } from 'node:fs/promises';
+import { basename, join } from 'node:path';
 import type { Volume } from '../core/volume.js';
 import { fail } from '../core/fail.js';
 import { writeFileAtomic } from '../io/atomic-write.js';
 import { writeNifti } from '../io/nifti-write.js';
+import { hashFile } from '../io/hash-file.js';
+import { addOutputFiles, claimOutputFolder, settleOutputSet } from '../io/output-folder.js';
 import type { LookResult } from '../look/look-at-run.js';
 import { lookFigures } from './look-figures.js';
+
+/** The run a look was made from, as findings.json records it. */
+export interface LookSource {
+  /** File name (no folder). */
+  file: string | null;
+  /** SHA-256 of the file, or null when unknown. */
+  sha256: string | null;
+}
 
 /**
  * The machine-readable summary of a look written as findings.json: settings, map summaries,
  * steady-state evidence, recommendation and every finding (kind, volumes or slices, evidence, advice).
  * @param look - the look
- * @param source - the run's file path (or a label)
+ * @param source - the run's file name and SHA-256 (a path string is cut to its file name: a local
+ *   path can name the participant)
  * @returns a JSON-ready object
- * @example JSON.stringify(lookSummaryJson(look, 'sub-01_bold.nii.gz'), null, 2)
+ * @example JSON.stringify(lookSummaryJson(look, { file: 'sub-01_bold.nii.gz', sha256: null }), null, 2)
  */
-export function lookSummaryJson(look: LookResult, source: string): Record<string, unknown> {
+export function lookSummaryJson(look: LookResult, source: LookSource | string): Record<string, unknown> {
   const { onset, model, modelCount, perVoxel, dataCount } = look.steadyState;
+  const src: LookSource = typeof source === 'string' ? { file: basename(source), sha256: null } : source;
   return {
-    run: source,
+    format: 'boldsweep-look',
+    run: src.file,
+    runSha256: src.sha256,
     dims: look.dims,
     trSec: look.trSec,
     indexing: 'volumes, slices and voxels are 0-based',
@@ -53,28 +68,40 @@ export function lookSeriesTsv(look: LookResult): string {
   return lines.join('\n') + '\n';
 }
 
+/** Options of {@link writeLookFolder}. */
+export interface WriteLookOptions {
+  /** The run's file path: its file name (never the folder) and SHA-256 go into findings.json. */
+  source?: string;
+  /** SHA-256 of the run's file (computed from `source` when missing and `source` is a file). */
+  sourceSha256?: string;
+  /** Write the figures. __Default value:__ true */
+  figures?: boolean;
+  /** Accept a non-empty folder boldsweep did not write (its files are left alone). __Default value:__ false */
+  force?: boolean;
+  /** Input files; the look may not go into their folder. __Default value:__ [source] */
+  inputs?: Array<string | null | undefined>;
+}
+
 /**
- * Write a look to a folder, whole or not at all: everything is built in a temporary folder beside
- * `outDir` and renamed into place at the end (an existing `outDir` is replaced only then). Contents:
- * mean/sd/tsnr/mask maps as NIfTI (.nii.gz, float32), the figures (PNG and SVG), findings.json and
- * series.tsv.
+ * Write a look to a folder, whole or not at all: every file is first built in a temporary folder
+ * inside `outDir`, then moved into place one by one once all are complete. The folder may be new,
+ * empty, or one boldsweep wrote (its marker names the files it may replace); files boldsweep did
+ * not write are never touched, and files an earlier look wrote but this one does not (figures after
+ * `figures: false`) are retired. Contents: mean/sd/tsnr/mask maps as NIfTI (.nii.gz, float32), the
+ * figures (PNG and SVG), findings.json and series.tsv.
  * @param run - the run that was looked at
  * @param look - its look
  * @param outDir - destination folder
- * @param options - source: the run's path for findings.json; figures (default true)
+ * @param options - source file, figures, force, inputs (see {@link WriteLookOptions})
  * @returns the files written (names inside outDir)
- * @throws BoldsweepError WRITE_FAILED when the parent folder is missing or not writable
+ * @throws BoldsweepError OUTPUT_NOT_OURS, OUTPUT_FILE_NOT_OURS, OUTPUT_IS_INPUT_FOLDER, OUTPUT_IS_CURRENT_FOLDER, WRITE_FAILED
  * @example await writeLookFolder(run.volume, look, 'out/look', { source: run.files.image })
  */
-export async function writeLookFolder(run: Volume, look: LookResult, outDir: string, options: { source?: string; figures?: boolean } = {}): Promise<string[]> {
-  const target = resolve(outDir);
-  const parent = dirname(target);
-  try {
-    await mkdir(parent, { recursive: true });
-  } catch (e) {
-    fail('WRITE_FAILED', `cannot create the folder ${parent}`, { cause: e });
-  }
-  const tmp = join(parent, `.${basename(target)}.${process.pid}.${randomBytes(4).toString('hex')}.tmp`);
+export async function writeLookFolder(run: Volume, look: LookResult, outDir: string, options: WriteLookOptions = {}): Promise<string[]> {
+  const target = await claimOutputFolder(outDir, { force: options.force, inputs: options.inputs ?? [options.source] });
+  let sha: string | null = options.sourceSha256 ?? null;
+  if (!sha && options.source && existsSync(options.source)) sha = await hashFile(options.source);
+  const tmp = join(target, `.look.${process.pid}.${randomBytes(4).toString('hex')}.tmp`);
   const files: string[] = [];
   try {
     await mkdir(tmp);
@@ -89,21 +116,17 @@ export async function writeLookFolder(run: Volume, look: LookResult, outDir: str
       }
     }
     await writeFileAtomic(join(tmp, 'series.tsv'), lookSeriesTsv(look));
-    await writeFileAtomic(join(tmp, 'findings.json'), JSON.stringify(lookSummaryJson(look, options.source ?? 'in memory'), null, 2) + '\n');
+    const source = options.source ? { file: basename(options.source), sha256: sha } : { file: null, sha256: null };
+    await writeFileAtomic(join(tmp, 'findings.json'), JSON.stringify(lookSummaryJson(look, source), null, 2) + '\n');
     files.push('series.tsv', 'findings.json');
-    const existing = await stat(target).then(() => true, () => false);
-    if (existing) {
-      const old = `${tmp}.old`;
-      await rename(target, old);
-      await rename(tmp, target);
-      await rm(old, { recursive: true, force: true });
-    } else {
-      await rename(tmp, target);
-    }
+    await addOutputFiles(target, files);
+    for (const f of files) await rename(join(tmp, f), join(target, f));
+    await settleOutputSet(target, 'look', files);
   } catch (e) {
-    await rm(tmp, { recursive: true, force: true });
     if (e instanceof Error && e.name === 'BoldsweepError') throw e;
     fail('WRITE_FAILED', `could not write the look to ${target}: ${(e as Error).message}`, { cause: e });
+  } finally {
+    await rm(tmp, { recursive: true, force: true });
   }
   return files;
 }

@@ -1,6 +1,6 @@
-import { mkdirSync } from 'node:fs';
-import { join } from 'node:path';
+import { basename, join } from 'node:path';
 import { writeFileAtomic } from '../io/atomic-write.js';
+import { prepareOutputFiles, type ClaimOptions } from '../io/output-folder.js';
 import { recommendSetting, type RecommendOptions, type Recommendation } from '../decide/recommend-setting.js';
 import { parameterName, settingText } from '../sweep/settings-grid.js';
 import { summariseScorecard } from '../decide/summarise-scorecard.js';
@@ -14,6 +14,9 @@ import { renderSvg } from './render-svg.js';
 import type { SweepFolder } from './sweep-folder.js';
 import { thresholdText } from './threshold-text.js';
 import { parameterLabel } from './chart-labels.js';
+
+/** Files a report writes into its folder. */
+export const REPORT_FILES = ['report.html', 'methods.md', 'decision-record.json'] as const;
 
 /** What {@link writeReport} made. */
 export interface WrittenReport {
@@ -51,19 +54,21 @@ export async function sweepCharts(folder: SweepFolder, rec: Recommendation): Pro
 
 /**
  * Recommend, render and write the report files of a sweep: report.html (self-contained), methods.md
- * and decision-record.json (input paths relative to the output folder).
+ * and decision-record.json (inputs by file name and hash). The folder must be new, empty or written
+ * by boldsweep; only boldsweep's own files are replaced.
  * @param dir - output folder (created when missing)
  * @param folder - the sweep (from runSweep or readSweepFolder) with run facts and masks
  * @param options - recommendation options (metric, targetSizeMm, prefer)
+ * @param write - force, inputs (see `claimOutputFolder`)
  * @returns the recommendation, record, methods and charts, and the paths written
  * @example const { recommendation } = await writeReport('out/demo', folder)
  */
-export async function writeReport(dir: string, folder: SweepFolder, options: RecommendOptions = {}): Promise<WrittenReport> {
-  mkdirSync(dir, { recursive: true });
+export async function writeReport(dir: string, folder: SweepFolder, options: RecommendOptions = {}, write: ClaimOptions = {}): Promise<WrittenReport> {
+  await prepareOutputFiles(dir, [...REPORT_FILES], { ...write, inputs: write.inputs ?? Object.values(folder.run.files) });
   const { result } = folder;
   const thr = thresholdText(result.spec.threshold);
   const recommendation = recommendSetting(result.scorecard, { thresholdText: thr, ...options });
-  const record = await buildDecisionRecord({ result, recommendation, run: folder.run, masks: folder.masks, relativeTo: dir });
+  const record = await buildDecisionRecord({ result, recommendation, run: folder.run, masks: folder.masks });
   const methods = methodsText(record);
   const charts = await sweepCharts(folder, recommendation);
   const spec = result.spec;
@@ -83,7 +88,7 @@ export async function writeReport(dir: string, folder: SweepFolder, options: Rec
   ];
   const html = htmlReport({
     title: `Which ${Object.keys(spec.vary).map(parameterName).join(' and ') || 'recipe'}? A boldsweep report`,
-    runSummary: `Run: ${folder.run.files.image ?? '(in memory)'}; ${folder.run.summary}.`,
+    runSummary: `Run: ${folder.run.files.image ? basename(folder.run.files.image) : '(in memory)'}; ${folder.run.summary}.`,
     sweepLines, recommendation, charts, summaries: summariseScorecard(result.scorecard),
     tableMetrics: ['hitRate', 'falseClusters', 'rocAuc', 'dice', 'tsnrMedian', 'smoothnessFwhmMm'].filter((m) => result.scorecard.metrics.includes(m)),
     methods, runLines, software: { boldsweep: record.software.boldsweep, node: record.software.node, 'vega-lite': record.software.dependencies['vega-lite'] ?? '' },

@@ -40,13 +40,25 @@ export function tprAtFpr(fpr: ArrayLike<number>, tpr: ArrayLike<number>, grid: A
 }
 
 /**
- * Write a curve table as TSV: a header line of the grid, then cell and rates.
+ * Column name of the true-positive rate at one false-positive rate: a plain identifier that R and
+ * pandas read unchanged (the decimal point becomes an underscore).
+ * @param fpr - false-positive rate of the grid
+ * @returns e.g. "tpr_at_fpr_0_01" for 0.01
+ * @example curveColumnName(0.05) // 'tpr_at_fpr_0_05'
+ */
+export function curveColumnName(fpr: number): string {
+  return `tpr_at_fpr_${String(fpr).replace('.', '_').replace('-', 'm')}`;
+}
+
+/**
+ * Write a curve table as TSV: a header line (cell, then one column per grid point, see
+ * {@link curveColumnName}), then cell and rates.
  * @param t - the table
  * @returns TSV text
  * @example await writeFileAtomic('roc.tsv', curveTableToTsv(result.curves))
  */
 export function curveTableToTsv(t: CurveTable): string {
-  return [['cell', ...t.fprGrid.map((f) => `tpr@fpr=${f}`)].join('\t'), ...t.rows.map((r) => [r.cell, ...r.tpr.map((x) => (Number.isFinite(x) ? String(x) : 'n/a'))].join('\t'))].join('\n') + '\n';
+  return [['cell', ...t.fprGrid.map(curveColumnName)].join('\t'), ...t.rows.map((r) => [r.cell, ...r.tpr.map((x) => (Number.isFinite(x) ? String(x) : 'n/a'))].join('\t'))].join('\n') + '\n';
 }
 
 /**
@@ -57,7 +69,8 @@ export function curveTableToTsv(t: CurveTable): string {
  */
 export function readCurveTableTsv(text: string): CurveTable {
   const lines = text.split('\n').filter(Boolean);
-  const fprGrid = lines[0].split('\t').slice(1).map((h) => Number(h.replace('tpr@fpr=', '')));
+  // "tpr_at_fpr_0_01" (or the earlier "tpr@fpr=0.01") -> 0.01
+  const fprGrid = lines[0].split('\t').slice(1).map((h) => Number(h.startsWith('tpr@fpr=') ? h.slice(8) : h.replace(/^tpr_at_fpr_/, '').replace('_', '.').replace('m', '-')));
   const rows = lines.slice(1).map((l) => {
     const [cell, ...rest] = l.split('\t');
     return { cell: Number(cell), tpr: rest.map((x) => (x === 'n/a' ? NaN : Number(x))) };

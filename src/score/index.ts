@@ -11,4 +11,4 @@ export { blobPeaks } from './blob-peaks.js';
 export type { BlobPeaks } from './blob-peaks.js';
 export { effectBias } from './effect-bias.js';
 export type { EffectBias } from './effect-bias.js';
-export { DEFAULT_FPR_GRID, tprAtFpr, curveTableToTsv, readCurveTableTsv, type CurveTable } from './curve-table.js';
+export { DEFAULT_FPR_GRID, tprAtFpr, curveColumnName, curveTableToTsv, readCurveTableTsv, type CurveTable } from './curve-table.js';

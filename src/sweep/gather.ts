@@ -29,7 +29,7 @@ export function gatherResults(parts: SweepResult[], options: { allowPartial?: bo
   if (byCell.size < expected && !options.allowPartial) {
     const missing = [];
     for (let c = 0; c < expected && missing.length < 10; c++) if (!byCell.has(c)) missing.push(c);
-    fail('INVALID_ARGUMENT', `${expected - byCell.size} of ${expected} cells are missing (first: ${missing.join(', ')}); run the missing shards or pass allowPartial`);
+    fail('INVALID_ARGUMENT', `${expected - byCell.size} of ${expected} cells are missing (first: ${missing.join(', ')}); run the missing shards, or accept a partial sweep with --allow-partial (allowPartial: true from code)`);
   }
   const cells = [...byCell.keys()].sort((a, b) => a - b);
   const rows = cells.map((c) => byCell.get(c)!.part.scorecard.rows[byCell.get(c)!.i]);

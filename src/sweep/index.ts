@@ -19,7 +19,11 @@ export type { SweepTask, TsnrTask, TsnrResult, SweepJob, SweepContext, CellResul
 export { buildMask, maskFromFile, fileFacts, type MaskSource, type FileFacts } from './mask-source.js';
 export { progressLine, lineProgress, type SweepProgress } from './progress.js';
 export { terminalProgress } from './terminal-progress.js';
+export { plainProgressLines } from './plain-progress-lines.js';
 export { SCORECARD_METRICS, type ScorecardMetric } from './cell-metrics.js';
 export { scorecardColumns, rowSetting, SCORECARD_ID_COLUMNS, SCORECARD_PLANT_COLUMNS, type Scorecard, type ScorecardRow, type ScorecardValue } from './scorecard.js';
-export { scorecardToTsv, timingsToTsv, readScorecardTsv } from './scorecard-tsv.js';
+export { scorecardToTsv, timingsToTsv, readScorecardTsv, scorecardColumnName, scorecardMeta, type ScorecardMeta } from './scorecard-tsv.js';
 export { scorecardFrame } from './scorecard-frame.js';
+export { specDropCount } from './spec-drop-count.js';
+export { untreatedFindings, type LookTreatment } from './untreated-findings.js';
+export { applyLookToSpec } from './apply-look-to-spec.js';

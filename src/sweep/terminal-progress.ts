@@ -1,16 +1,20 @@
 import cliProgress from 'cli-progress';
 import type { SweepProgress } from './progress.js';
+import { plainProgressLines } from './plain-progress-lines.js';
 
 /**
- * A progress bar on the terminal (cli-progress) for `runSweep`'s `onProgress`. Writes to stderr, so
- * a command's stdout stays clean; when stderr is not a terminal it prints nothing.
+ * Progress of a sweep on stderr for `runSweep`'s `onProgress`, so a command's stdout stays clean: a
+ * bar (cli-progress) on a terminal; otherwise plain lines (a cluster job's log, a pipe) every 10 % of
+ * the cells or every 10 s, whichever comes first, and one at the end.
+ * @param stream - where to write. __Default value:__ process.stderr
  * @returns the callback and a `stop` to call when the sweep ends
  * @example const bar = terminalProgress(); try { await runSweep(run, spec, { onProgress: bar.update }) } finally { bar.stop() }
  */
-export function terminalProgress(): { update: (p: SweepProgress) => void; stop: () => void } {
+export function terminalProgress(stream: NodeJS.WriteStream = process.stderr): { update: (p: SweepProgress) => void; stop: () => void } {
+  if (!stream.isTTY) return plainProgressLines((line) => stream.write(line + '\n'));
   const bar = new cliProgress.SingleBar({
     format: 'sweep [{bar}] {percentage}% | {value}/{total} cells | {cached} from cache | {duration}s elapsed | ETA {eta}s',
-    stream: process.stderr,
+    stream,
     hideCursor: true,
     noTTYOutput: false,
     etaBuffer: 20,
@@ -18,7 +22,6 @@ export function terminalProgress(): { update: (p: SweepProgress) => void; stop: 
   let started = false;
   return {
     update(p) {
-      if (!process.stderr.isTTY) return;
       if (!started) { bar.start(p.total, p.done, { cached: p.fromCache }); started = true; }
       bar.update(p.done, { cached: p.fromCache });
     },

@@ -25,6 +25,8 @@ beforeAll(async () => {
     repeats: 3, threshold: { kind: 'fwe-rft' }, seed: 9,
   }, { workers: 2, placementMask: run.greyMatter });
   const dir = join(outDir, 'browser-report');
+  // the test's own folder, made afresh (a folder from before output markers would be refused)
+  rmSync(dir, { recursive: true, force: true });
   mkdirSync(dir, { recursive: true });
   const folder = { result, run: runFacts({ volume: run.volume, sidecar: run.sidecar }), masks: { brain: { kind: 'otsu-mean' as const }, placement: { kind: 'brain' as const }, exclude: null } };
   await writeSweepFolder(dir, folder);

@@ -74,7 +74,9 @@ describe('readNifti refuses damaged files with a typed error naming the file', (
     await expectCode(variant('magic.nii', patched((b) => b.write('xyz', 344, 'latin1'))), 'NIFTI_BAD_MAGIC', 'expected "n+1"');
     await expectCode(variant('sizeof.nii', patched((b) => b.writeInt32LE(999, 0))), 'NIFTI_BAD_MAGIC', 'sizeof_hdr is 999');
     await expectCode(variant('pair.nii', patched((b) => b.write('ni1', 344, 'latin1'))), 'NIFTI_BAD_MAGIC', '.hdr + .img');
-    await expectCode(variant('text.nii', Buffer.from('onset\tduration\n'.repeat(40))), 'NIFTI_BAD_MAGIC');
+    await expectCode(variant('text.nii', Buffer.from('onset\tduration\n'.repeat(40))), 'NIFTI_BAD_MAGIC', 'text.nii is not a NIfTI file: it holds text');
+    // a text file under a .nii.gz name is named as such, not reported as damaged gzip
+    await expectCode(variant('text.nii.gz', Buffer.from('onset\tduration\n'.repeat(40))), 'NIFTI_BAD_MAGIC', 'named .gz but is not gzip-compressed');
   });
 
   it('NIFTI_SIZE_MISMATCH / NIFTI_TRUNCATED: header dims inconsistent with the file size', async () => {

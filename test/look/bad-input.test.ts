@@ -50,6 +50,12 @@ describe('look on bad input', () => {
     expectCode(() => voxelTimeStats(img), 'NOT_4D');
   });
 
+  it('a negative or fractional drop count is named as such (not as "leaves N volumes")', () => {
+    const run = syntheticRun({ dims: [12, 12, 6, 40] });
+    expect(expectCode(() => lookAtRun(run, { dropInitialVolumes: -1 }), 'INVALID_ARGUMENT')).toMatch(/whole number of volumes, 0 or more.*got -1/);
+    expectCode(() => lookAtRun(run, { dropInitialVolumes: 1.5 }), 'INVALID_ARGUMENT');
+  });
+
   it('fewer volumes than a measure needs: TOO_FEW_VOLUMES with the numbers', () => {
     expect(expectCode(() => lookAtRun(syntheticRun({ dims: [12, 12, 6, 5] })), 'TOO_FEW_VOLUMES')).toMatch(/at least 12 volumes.*has 5/);
     expectCode(() => voxelTimeStats(syntheticRun({ dims: [4, 4, 2, 3] }), { detrendOrder: 2 }), 'TOO_FEW_VOLUMES');

@@ -93,7 +93,10 @@ describe('report files', () => {
   it('the decision record holds hashes, versions, recipe, spec, seed, summary and the choice', () => {
     const r = readDecisionRecord(written.files.record);
     expect(r.inputs.image!.sha256).toMatch(/^[0-9a-f]{64}$/);
-    expect(r.inputs.image!.path).toBe('../data/sub-t01_task-flicker_bold.nii.gz');
+    // file names and hashes only: a local path can hold a participant's identity
+    expect(r.inputs.image!.path).toBe('sub-t01_task-flicker_bold.nii.gz');
+    expect(r.masks.placement.kind === 'file' && r.masks.placement.file.path).toBe('sub-t01_task-flicker_truth-tissue.nii.gz');
+    for (const f of ['decision-record.json', 'sweep.json', 'methods.md', 'report.html']) expect(readFileSync(join(out, f), 'utf8')).not.toContain(dir);
     expect(r.inputs.events).not.toBeNull();
     expect(r.software.node).toBe(process.version);
     expect(r.software.boldsweep).toBe(JSON.parse(readFileSync('package.json', 'utf8')).version);
@@ -110,18 +113,26 @@ describe('report files', () => {
 describe('rerunRecord', () => {
   it('re-running the record reproduces the scorecard byte for byte', async () => {
     const path = written.files.record;
-    const again = await rerunRecord(readDecisionRecord(path), { baseDir: recordDir(path), workers: 1 });
+    // the record names its inputs but not their folder: the re-run is told where they are
+    expect(existsSync(join(recordDir(path), 'sub-t01_task-flicker_bold.nii.gz'))).toBe(false);
+    const again = await rerunRecord(readDecisionRecord(path), { inputDir: join(dir, 'data'), workers: 1 });
     expect(again.reproduced).toBe(true);
     expect(again.tsv).toBe(scorecardToTsv(result.scorecard));
   });
 
   it('refuses when an input changed since the record was made', async () => {
     const r = readDecisionRecord(written.files.record);
-    const events = join(recordDir(written.files.record), r.inputs.events!.path);
+    try {
+      await rerunRecord(r, { inputDir: dir });
+      expect.unreachable();
+    } catch (e) {
+      expect(isBoldsweepError(e, 'FILE_NOT_FOUND')).toBe(true); // the inputs are not in that folder
+    }
+    const events = join(dir, 'data', r.inputs.events!.path);
     expect(existsSync(events)).toBe(true);
     writeFileSync(events, readFileSync(events, 'utf8') + '\n');
     try {
-      await rerunRecord(r, { baseDir: recordDir(written.files.record) });
+      await rerunRecord(r, { inputDir: join(dir, 'data') });
       expect.unreachable();
     } catch (e) {
       expect(isBoldsweepError(e, 'RECORD_INVALID')).toBe(true);

@@ -6,7 +6,7 @@ import { isBoldsweepError } from '../../src/core/errors.js';
 import { gatherResults } from '../../src/sweep/gather.js';
 import { parseSweepSpec } from '../../src/sweep/parse-sweep-spec.js';
 import { runSweep, type SweepResult } from '../../src/sweep/runner.js';
-import { scorecardToTsv, readScorecardTsv, timingsToTsv } from '../../src/sweep/scorecard-tsv.js';
+import { scorecardToTsv, readScorecardTsv, scorecardMeta, timingsToTsv } from '../../src/sweep/scorecard-tsv.js';
 import { scorecardFrame } from '../../src/sweep/scorecard-frame.js';
 import { scorecardColumns } from '../../src/sweep/scorecard.js';
 import type { SweepSpecInput } from '../../src/sweep/spec.js';
@@ -115,7 +115,10 @@ describe('runSweep', () => {
 
   it('round-trips the scorecard through TSV exactly', () => {
     const tsv = scorecardToTsv(one.scorecard);
-    const back = readScorecardTsv(tsv, timingsToTsv(one.scorecard));
+    // the first line is the header of plain identifiers; the sweep key and varied keys live in sweep.json
+    expect(tsv.split('\n')[0].split('\t').every((c) => /^[A-Za-z][A-Za-z0-9_]*$/.test(c))).toBe(true);
+    expect(tsv.split('\n')[0]).toContain('smooth_fwhmMm');
+    const back = readScorecardTsv(tsv, scorecardMeta(one.scorecard), timingsToTsv(one.scorecard));
     expect(scorecardToTsv(back)).toBe(tsv);
     expect(back.rows[1]).toEqual(one.scorecard.rows[1]);
     expect(back.seconds[0]).toBeCloseTo(one.scorecard.seconds[0], 3);
