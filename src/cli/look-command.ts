@@ -3,6 +3,7 @@ import { fail } from '../core/fail.js';
 import { readNifti } from '../io/nifti-read.js';
 import { openRun } from '../io/open-run.js';
 import { lookAtRun, type LookOptions } from '../look/look-at-run.js';
+import { lookConsoleLines } from '../look/look-console-lines.js';
 import { writeLookFolder } from '../report/write-look-folder.js';
 
 function numberOption(name: string, integer: boolean) {
@@ -45,8 +46,7 @@ export function registerLook(program: Command): void {
       if (opts.mask) options.mask = (await readNifti(opts.mask)).volume;
       const look = lookAtRun(run, options);
       const files = await writeLookFolder(run.volume, look, opts.out, { source: run.files.image, figures: opts.figures });
-      console.log(`look at ${path}: ${look.findings.length} finding${look.findings.length === 1 ? '' : 's'}`);
-      for (const v of look.verdicts) console.log(`  - ${v}`);
+      console.log(lookConsoleLines(look, path).join('\n'));
       console.log(`recommendation: drop ${look.recommendation.dropInitialVolumes} initial volume(s); censor ${look.recommendation.censorVolumes.length ? look.recommendation.censorVolumes.join(', ') : 'none'}`);
       console.log(`tSNR in the mask: median ${look.summaries.tsnr.median.toFixed(1)} (quartiles ${look.summaries.tsnr.q1.toFixed(1)}-${look.summaries.tsnr.q3.toFixed(1)})`);
       console.log(`wrote ${files.length} files to ${opts.out}`);

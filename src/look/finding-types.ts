@@ -6,6 +6,7 @@ export type FindingKind =
   | 'slice-dropout'
   | 'slice-bright'
   | 'voxel-spike'
+  | 'unstable-voxel'
   | 'non-finite';
 
 /** One thing the look found, with the numbers behind it and what to do. */
@@ -25,4 +26,9 @@ export interface Finding {
   advice: string;
   /** One short plain-text line: what and what to do. */
   verdict: string;
+  /**
+   * What the finding does to the analysis, in words ("3 volumes dropped", "volume 112 censored",
+   * "one voxel's series unreliable"); findings are ranked by it (see rankFindings).
+   */
+  consequence: string;
 }
