@@ -52,7 +52,7 @@ export { summariseScorecard, recommendSetting, type Recommendation, type Setting
 
 // report
 export {
-  RESEARCH_CAUTION, renderSvg, threePlanePng, sliceGridPng, voxelRasterSvg, lookTracesSpec, voxelTimeCourseSpec, chosenVoxels, maskCentre,
+  RESEARCH_CAUTION, renderSvg, threePlaneSvg, sliceGridSvg, voxelRasterSvg, lookPageHtml, lookTracesSpec, voxelTimeCourseSpec, chosenVoxels, maskCentre,
   writeLookFolder, detectionChart, falseAlarmChart, rocChart, smoothnessChart, tsnrChart, methodsText, methodsMarkdown,
   thresholdText, runFacts, writeReport, writeSweepFolder, readDecisionRecord, recordDir, rerunRecord,
 } from './report/index.js';

@@ -40,7 +40,7 @@ export function traceChartSpec(values: ArrayLike<number>, look: Pick<LookResult,
   const width = options.width ?? 640, height = options.height ?? 80, left = options.paddingLeft ?? 80;
   const rows = Array.from({ length: nt }, (_, t) => ({ volume: t, value: Number.isFinite(values[t]) ? values[t] : null }));
   const drop = look.recommendation.dropInitialVolumes;
-  const x = { field: 'volume', type: 'quantitative' as const, title: `volume (TR ${look.trSec} s)`, scale: { domain: [-0.5, nt - 0.5], nice: false, zero: false } };
+  const x = { field: 'volume', type: 'quantitative' as const, title: 'volume', scale: { domain: [-0.5, nt - 0.5], nice: false, zero: false } };
   return {
     $schema: 'https://vega.github.io/schema/vega-lite/v5.json',
     title: { text: title, anchor: 'start', fontSize: 12 },
@@ -49,8 +49,10 @@ export function traceChartSpec(values: ArrayLike<number>, look: Pick<LookResult,
       ...(drop > 0 ? [{ data: { values: [{ from: -0.5, to: drop - 0.5 }] }, mark: { type: 'rect' as const, color: LOOK_COLOURS.dropped, opacity: 0.5 }, encoding: { x: { ...x, field: 'from' }, x2: { field: 'to' } } }] : []),
       ...(look.recommendation.censorVolumes.length ? [{ data: { values: look.recommendation.censorVolumes.map((v) => ({ volume: v })) }, mark: { type: 'rule' as const, color: LOOK_COLOURS.censored, strokeWidth: 1.5 }, encoding: { x } }] : []),
       { data: { values: rows }, mark: { type: 'line' as const, color: LOOK_COLOURS.trace, strokeWidth: 1 }, encoding: { x, y: { field: 'value', type: 'quantitative' as const, title: yTitle, scale: { zero: false } } } },
+      ...secondsAxisLayer(look.trSec, 'volume'),
     ],
-  } as TopLevelSpec;
+    resolve: { axis: { x: 'independent' } },
+  } as unknown as TopLevelSpec;
 }
 
 /**
@@ -65,7 +67,7 @@ export function lookTracesSpec(look: LookResult, options: { width?: number } = {
   const width = options.width ?? 640;
   const part = (values: ArrayLike<number>, title: string, yTitle: string) => {
     const s = traceChartSpec(values, look, title, yTitle, { width }) as unknown as Record<string, unknown>;
-    const { $schema: _s, autosize: _a, padding: _p, ...rest } = s;
+    const { $schema: _s, autosize: _a, padding: _p, resolve: _r, ...rest } = s;
     return rest;
   };
   return {
@@ -76,12 +78,14 @@ export function lookTracesSpec(look: LookResult, options: { width?: number } = {
       part(look.series.dvarsStandardised, 'Standardised DVARS (Afyouni & Nichols 2018)', 'DVARS / null level'),
       part(look.series.dvarsPercent, 'DVARS (Power et al. 2012)', '% of global mean'),
     ],
+    resolve: { axis: { x: 'independent' } },
   } as unknown as TopLevelSpec;
 }
 
 /**
  * Time courses of chosen voxels as a vega-lite line chart, in % signal change from each voxel's
- * mean over the kept volumes, x in seconds, censored volumes marked and dropped ones shaded.
+ * mean over the kept volumes, x in volumes with seconds on a second axis above (like every per-volume
+ * figure), censored volumes marked and dropped ones shaded; the legend sits below, never cut off.
  * @param run - the run
  * @param look - its look
  * @param voxels - voxels as (i, j, k) with a label each
@@ -92,9 +96,8 @@ export function lookTracesSpec(look: LookResult, options: { width?: number } = {
 export function voxelTimeCourseSpec(run: Volume, look: Pick<LookResult, 'recommendation' | 'trSec'>, voxels: Array<{ ijk: [number, number, number]; label: string }>, options: { width?: number; height?: number } = {}): TopLevelSpec {
   const [nx, ny, , nt] = run.dims;
   const n = voxelsPerVolume(run);
-  const tr = look.trSec > 0 ? look.trSec : 1;
   const drop = look.recommendation.dropInitialVolumes;
-  const rows: Array<{ timeSec: number; percent: number | null; voxel: string }> = [];
+  const rows: Array<{ volume: number; percent: number | null; voxel: string }> = [];
   for (const { ijk, label } of voxels) {
     const v = ijk[0] + nx * (ijk[1] + ny * ijk[2]);
     let s = 0;
@@ -103,24 +106,43 @@ export function voxelTimeCourseSpec(run: Volume, look: Pick<LookResult, 'recomme
     const name = `${label} (${ijk.join(', ')})`;
     for (let t = 0; t < nt; t++) {
       const y = run.data[t * n + v];
-      rows.push({ timeSec: t * tr, percent: m !== 0 && Number.isFinite(y) ? (100 * (y - m)) / Math.abs(m) : null, voxel: name });
+      rows.push({ volume: t, percent: m !== 0 && Number.isFinite(y) ? (100 * (y - m)) / Math.abs(m) : null, voxel: name });
     }
   }
-  const x = { field: 'timeSec', type: 'quantitative' as const, title: look.trSec > 0 ? 'time (s)' : 'volume', scale: { nice: false, zero: false } };
+  const x = { field: 'volume', type: 'quantitative' as const, title: 'volume', scale: { domain: [-0.5, nt - 0.5], nice: false, zero: false } };
   return {
     $schema: 'https://vega.github.io/schema/vega-lite/v5.json',
     title: { text: 'Voxel time courses: % signal change from each voxel\'s mean (grey: dropped start; marks: volumes to censor)', anchor: 'start' },
     width: options.width ?? 640, height: options.height ?? 220,
     layer: [
-      ...(drop > 0 ? [{ data: { values: [{ from: 0, to: (drop - 0.5) * tr }] }, mark: { type: 'rect' as const, color: LOOK_COLOURS.dropped, opacity: 0.5 }, encoding: { x: { ...x, field: 'from' }, x2: { field: 'to' } } }] : []),
-      ...(look.recommendation.censorVolumes.length ? [{ data: { values: look.recommendation.censorVolumes.map((t) => ({ timeSec: t * tr })) }, mark: { type: 'rule' as const, color: LOOK_COLOURS.censored, strokeDash: [3, 2] }, encoding: { x } }] : []),
+      ...(drop > 0 ? [{ data: { values: [{ from: -0.5, to: drop - 0.5 }] }, mark: { type: 'rect' as const, color: LOOK_COLOURS.dropped, opacity: 0.5 }, encoding: { x: { ...x, field: 'from' }, x2: { field: 'to' } } }] : []),
+      ...(look.recommendation.censorVolumes.length ? [{ data: { values: look.recommendation.censorVolumes.map((t) => ({ volume: t })) }, mark: { type: 'rule' as const, color: LOOK_COLOURS.censored, strokeDash: [3, 2] }, encoding: { x } }] : []),
       {
         data: { values: rows }, mark: { type: 'line' as const, strokeWidth: 1 },
         encoding: {
           x, y: { field: 'percent', type: 'quantitative' as const, title: '% signal change' },
-          color: { field: 'voxel', type: 'nominal' as const, title: 'voxel (i, j, k)', scale: { range: [mapHex('viridis', 0.1), mapHex('magma', 0.6), mapHex('viridis', 0.6), mapHex('cividis', 0.9)] } },
+          color: { field: 'voxel', type: 'nominal' as const, title: 'voxel (i, j, k)', legend: { orient: 'bottom', direction: 'vertical', labelLimit: 0 }, scale: { range: [mapHex('viridis', 0.1), mapHex('magma', 0.6), mapHex('viridis', 0.6), mapHex('cividis', 0.9)] } },
         },
       },
+      ...secondsAxisLayer(look.trSec, 'volume'),
     ],
-  } as TopLevelSpec;
+    resolve: { axis: { x: 'independent' } },
+  } as unknown as TopLevelSpec;
+}
+
+/**
+ * An invisible layer whose x axis, on top of the plot, labels the same volume scale in seconds
+ * (volume t at t x TR): every per-volume chart has volumes below and seconds above.
+ * @param trSec - repetition time (no layer when unknown)
+ * @param field - the x field of the chart (volume index)
+ * @returns zero or one vega-lite layer
+ * @example layer: [...marks, ...secondsAxisLayer(2, 'volume')]
+ */
+export function secondsAxisLayer(trSec: number, field: string): Array<Record<string, unknown>> {
+  if (!(trSec > 0)) return [];
+  return [{
+    data: { values: [{ [field]: 0 }] },
+    mark: { type: 'point', opacity: 0 },
+    encoding: { x: { field, type: 'quantitative', axis: { orient: 'top', title: `time (s), TR ${trSec} s`, labelExpr: `format(datum.value * ${trSec}, ',.0f')`, grid: false } } },
+  }];
 }

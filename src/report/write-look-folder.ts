@@ -7,6 +7,7 @@ import { writeFileAtomic } from '../io/atomic-write.js';
 import { writeNifti } from '../io/nifti-write.js';
 import type { LookResult } from '../look/look-at-run.js';
 import { lookFigures } from './look-figures.js';
+import { lookPageHtml } from './look-page.js';
 
 /**
  * The machine-readable summary of a look written as findings.json: settings, map summaries,
@@ -24,7 +25,8 @@ export function lookSummaryJson(look: LookResult, source: string): Record<string
     trSec: look.trSec,
     indexing: 'volumes, slices and voxels are 0-based',
     settings: look.settings,
-    mask: { source: look.mask.source, voxels: look.mask.voxels, otsuThreshold: look.mask.threshold, steps: look.mask.steps },
+    mask: { source: look.mask.source, method: look.mask.method, voxels: look.mask.voxels, otsuThreshold: look.mask.threshold, steps: look.mask.steps },
+    skipped: look.skipped,
     summariesInMask: look.summaries,
     steadyState: { dataCount, cutoffZ: onset.cutoffZ, referenceVolumes: onset.reference, modelCount, model, perVoxel },
     dvarsNullExpectation: look.series.dvarsNullExpectation,
@@ -56,8 +58,8 @@ export function lookSeriesTsv(look: LookResult): string {
 /**
  * Write a look to a folder, whole or not at all: everything is built in a temporary folder beside
  * `outDir` and renamed into place at the end (an existing `outDir` is replaced only then). Contents:
- * mean/sd/tsnr/mask maps as NIfTI (.nii.gz, float32), the figures (PNG and SVG), findings.json and
- * series.tsv.
+ * mean/sd/tsnr/mask maps as NIfTI (.nii.gz, float32), the figures (SVG), findings.json, series.tsv
+ * and look.html (findings, numbers and figures on one self-contained page).
  * @param run - the run that was looked at
  * @param look - its look
  * @param outDir - destination folder
@@ -82,12 +84,13 @@ export async function writeLookFolder(run: Volume, look: LookResult, outDir: str
       await writeNifti(join(tmp, `${name}.nii.gz`), map, { datatype: 'float32', description: `boldsweep look: ${name}` });
       files.push(`${name}.nii.gz`);
     }
-    if (options.figures !== false) {
-      for (const fig of await lookFigures(run, look)) {
-        await writeFileAtomic(join(tmp, fig.file), fig.data);
-        files.push(fig.file);
-      }
+    const figures = options.figures !== false ? await lookFigures(run, look) : [];
+    for (const fig of figures) {
+      await writeFileAtomic(join(tmp, fig.file), fig.data);
+      files.push(fig.file);
     }
+    await writeFileAtomic(join(tmp, 'look.html'), lookPageHtml(look, figures, options.source ?? 'in memory'));
+    files.push('look.html');
     await writeFileAtomic(join(tmp, 'series.tsv'), lookSeriesTsv(look));
     await writeFileAtomic(join(tmp, 'findings.json'), JSON.stringify(lookSummaryJson(look, options.source ?? 'in memory'), null, 2) + '\n');
     files.push('series.tsv', 'findings.json');
