@@ -7,7 +7,8 @@ export type FindingKind =
   | 'slice-bright'
   | 'voxel-spike'
   | 'unstable-voxel'
-  | 'non-finite';
+  | 'non-finite'
+  | 'empty-slices';
 
 /** One thing the look found, with the numbers behind it and what to do. */
 export interface Finding {

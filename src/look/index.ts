@@ -1,5 +1,5 @@
 // look: public exports of this module (re-exports only; src/index.ts re-exports this file).
-export { lookAtRun, LOOK_MIN_VOLUMES, LOW_BASELINE_FRACTION, SPIKE_VOXELS_FOR_CENSOR, type LookOptions, type LookResult, type SkippedCheck } from './look-at-run.js';
+export { lookAtRun, LOOK_MIN_VOLUMES, LOW_BASELINE_FRACTION, MASK_MIN_SEPARABILITY, SPIKE_VOXELS_FOR_CENSOR, type LookOptions, type LookResult, type SkippedCheck } from './look-at-run.js';
 export { lookConsoleLines, CONSOLE_FINDINGS } from './look-console-lines.js';
 export { rankFindings, CONSEQUENCE_TIER } from './rank-findings.js';
 export { sliceFindings } from './slice-findings.js';

@@ -43,6 +43,14 @@ export const SLICES_FOR_VOLUME_EVENT = 3;
  */
 export const LOW_BASELINE_FRACTION = 0.3;
 
+/**
+ * Otsu's separability (between-class / total variance of the mean image) below which the mean image
+ * has no clear brain/background split: a normal distribution split at its mean gives 2/pi = 0.64 and a
+ * uniform one 0.75 (common practice, no source: both follow from the definition); brain EPI gives
+ * about 0.9 or more (the demo phantom 0.96).
+ */
+export const MASK_MIN_SEPARABILITY = 0.8;
+
 /** A check the look could not run, why, and how to make it possible. */
 export interface SkippedCheck {
   check: string;
@@ -173,6 +181,7 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
   const nonFiniteCount = markNonFinite(meanAll, nonFinite);
   if (nonFiniteCount === n) fail('CONSTANT_DATA', 'every voxel holds a NaN or infinite value in some volume; nothing can be measured');
   let mask: BrainMask;
+  let unclearMask: { separability: number; mask: BrainMask } | null = null;
   if (options.mask) {
     mask = checkUserMask(options.mask, run);
     let dropped = 0;
@@ -181,7 +190,9 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
     if (mask.voxels === 0) fail('INVALID_ARGUMENT', 'every voxel of the user mask holds NaN or infinite values');
   } else {
     mask = brainMaskFromMean(meanAll, [nx, ny, nz], { spacingMm: run.spacingMm });
+    if (mask.otsu && mask.otsu.separability < MASK_MIN_SEPARABILITY) unclearMask = { separability: mask.otsu.separability, mask: mask = wholeFieldMask(meanAll) };
   }
+  const emptySlices = zeroSlices(meanAll, [nx, ny, nz]);
 
   // 2. traces in the mask
   const traces = maskSeries(run, mask.mask);
@@ -285,6 +296,7 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
   // 6. findings
   const findings: Finding[] = [];
   if (nonFiniteCount > 0) findings.push(nonFiniteFinding(nonFinite, [nx, ny, nz]));
+  if (emptySlices.length > 0) findings.push(emptySliceFinding(emptySlices, nz));
   if (drop > 0) findings.push(steadyFinding(drop, auto, onset, modelCount, model, perVoxel, traces.globalMean));
   const { slicesWithVolume, sliceOnly } = splitSliceFlags(sl, new Set(vol.flagged.map((f) => f.volume)));
   findings.push(...volumeFindings(vol, traces.dvars, dvarsStd, traces.globalMean, slicesWithVolume));
@@ -294,6 +306,20 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
   findings.push(...spikeFindings(unexplained, { cutoffZ: spikeCutoffZ, voxelsForCensor: SPIKE_VOXELS_FOR_CENSOR, maxIsolated: maxSpikeFindings }));
   const ranked = rankFindings(findings);
   const skipped: SkippedCheck[] = [];
+  if (unclearMask) {
+    skipped.push({
+      check: 'automatic brain mask',
+      why: `the mean image has no clear brain/background split (Otsu separability ${unclearMask.separability.toFixed(2)}, below ${MASK_MIN_SEPARABILITY}: a uniform object or an image without background), so every voxel with a finite, nonzero mean (${unclearMask.mask.voxels}) is used`,
+      how: 'give a brain mask on the run\'s grid (--mask on the command line, the mask option of lookAtRun)',
+    });
+  }
+  if (nz === 1) {
+    skipped.push({
+      check: 'slice checks (dropouts, bright slices, slice means moving with the head)',
+      why: 'the run has one slice, so no slice can be compared with the others',
+      how: 'nothing to do for a single-slice run; the volume measures (DVARS, global mean) and spike checks still ran',
+    });
+  }
   if (!(trSec > 0) || flip === undefined || !(flip > 0)) {
     const missing = [!(trSec > 0) ? 'the repetition time' : '', flip === undefined || !(flip > 0) ? 'the flip angle' : ''].filter(Boolean).join(' and ');
     skipped.push({
@@ -469,4 +495,36 @@ function round(x: number, digits: number): number {
   if (!Number.isFinite(x)) return x;
   const f = 10 ** digits;
   return Math.round(x * f) / f;
+}
+
+/** Every voxel whose mean is finite and nonzero: the mask when the mean image has no clear split. */
+function wholeFieldMask(mean: Float64Array): BrainMask {
+  const m = new Uint8Array(mean.length);
+  let voxels = 0;
+  for (let v = 0; v < m.length; v++) if (Number.isFinite(mean[v]) && mean[v] !== 0) { m[v] = 1; voxels++; }
+  if (voxels === 0) fail('CONSTANT_DATA', 'every voxel has a zero or non-finite mean; nothing can be measured');
+  return { mask: m, voxels, threshold: NaN, otsu: null, steps: null, source: 'otsu', method: 'no clear brain/background split in the mean image: every voxel with a finite, nonzero mean' };
+}
+
+/** Slices whose mean is exactly 0 in every voxel (empty slices: padding, or lost in reconstruction). */
+function zeroSlices(mean: Float64Array, dims: [number, number, number]): number[] {
+  const [nx, ny, nz] = dims;
+  const out: number[] = [];
+  for (let k = 0; k < nz; k++) {
+    let empty = true;
+    for (let v = k * nx * ny; v < (k + 1) * nx * ny && empty; v++) if (mean[v] !== 0) empty = false;
+    if (empty) out.push(k);
+  }
+  return out;
+}
+
+function emptySliceFinding(slices: number[], nz: number): Finding {
+  return {
+    kind: 'empty-slices', volumes: [], slices, voxels: [],
+    evidence: { slices, slicesInRun: nz },
+    reason: `${describeVolumes(slices, 'slice')} hold${slices.length === 1 ? 's' : ''} zero in every voxel of every volume: no signal was recorded there (or the slices were padded)`,
+    advice: FINDING_ADVICE['empty-slices'],
+    verdict: `${describeVolumes(slices, 'slice')} empty (all zeros): left out of the mask and every measure`,
+    consequence: `${slices.length} of ${nz} slices carry no data`,
+  };
 }

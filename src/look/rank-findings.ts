@@ -7,6 +7,7 @@ import type { Finding, FindingKind } from './finding-types.js';
  */
 export const CONSEQUENCE_TIER: Readonly<Record<FindingKind, number>> = {
   'non-finite': 0,
+  'empty-slices': 0,
   'non-steady-start': 1,
   'volume-jump': 2,
   'global-signal': 3,

@@ -40,18 +40,16 @@ export function traceChartSpec(values: ArrayLike<number>, look: Pick<LookResult,
   const width = options.width ?? 640, height = options.height ?? 80, left = options.paddingLeft ?? 80;
   const rows = Array.from({ length: nt }, (_, t) => ({ volume: t, value: Number.isFinite(values[t]) ? values[t] : null }));
   const drop = look.recommendation.dropInitialVolumes;
-  const x = { field: 'volume', type: 'quantitative' as const, title: 'volume', scale: { domain: [-0.5, nt - 0.5], nice: false, zero: false } };
+  const x = { field: 'volume', type: 'quantitative' as const, ...volumeAxis(look.trSec), scale: { domain: [-0.5, nt - 0.5], nice: false, zero: false } };
   return {
     $schema: 'https://vega.github.io/schema/vega-lite/v5.json',
     title: { text: title, anchor: 'start', fontSize: 12 },
     width, height, autosize: { type: 'none' }, padding: { left, right: 20, top: 34, bottom: 34 },
     layer: [
-      ...(drop > 0 ? [{ data: { values: [{ from: -0.5, to: drop - 0.5 }] }, mark: { type: 'rect' as const, color: LOOK_COLOURS.dropped, opacity: 0.5 }, encoding: { x: { ...x, field: 'from' }, x2: { field: 'to' } } }] : []),
+      ...(drop > 0 ? [{ data: { values: [{ from: -0.5, to: drop - 0.5 }] }, mark: { type: 'rect' as const, color: LOOK_COLOURS.dropped, opacity: 0.5 }, encoding: { x: { ...x, field: 'from'}, x2: { field: 'to' } } }] : []),
       ...(look.recommendation.censorVolumes.length ? [{ data: { values: look.recommendation.censorVolumes.map((v) => ({ volume: v })) }, mark: { type: 'rule' as const, color: LOOK_COLOURS.censored, strokeWidth: 1.5 }, encoding: { x } }] : []),
       { data: { values: rows }, mark: { type: 'line' as const, color: LOOK_COLOURS.trace, strokeWidth: 1 }, encoding: { x, y: { field: 'value', type: 'quantitative' as const, title: yTitle, scale: { zero: false } } } },
-      ...secondsAxisLayer(look.trSec, 'volume'),
     ],
-    resolve: { axis: { x: 'independent' } },
   } as unknown as TopLevelSpec;
 }
 
@@ -67,7 +65,7 @@ export function lookTracesSpec(look: LookResult, options: { width?: number } = {
   const width = options.width ?? 640;
   const part = (values: ArrayLike<number>, title: string, yTitle: string) => {
     const s = traceChartSpec(values, look, title, yTitle, { width }) as unknown as Record<string, unknown>;
-    const { $schema: _s, autosize: _a, padding: _p, resolve: _r, ...rest } = s;
+    const { $schema: _s, autosize: _a, padding: _p, ...rest } = s;
     return rest;
   };
   return {
@@ -78,7 +76,6 @@ export function lookTracesSpec(look: LookResult, options: { width?: number } = {
       part(look.series.dvarsStandardised, 'Standardised DVARS (Afyouni & Nichols 2018)', 'DVARS / null level'),
       part(look.series.dvarsPercent, 'DVARS (Power et al. 2012)', '% of global mean'),
     ],
-    resolve: { axis: { x: 'independent' } },
   } as unknown as TopLevelSpec;
 }
 
@@ -109,13 +106,13 @@ export function voxelTimeCourseSpec(run: Volume, look: Pick<LookResult, 'recomme
       rows.push({ volume: t, percent: m !== 0 && Number.isFinite(y) ? (100 * (y - m)) / Math.abs(m) : null, voxel: name });
     }
   }
-  const x = { field: 'volume', type: 'quantitative' as const, title: 'volume', scale: { domain: [-0.5, nt - 0.5], nice: false, zero: false } };
+  const x = { field: 'volume', type: 'quantitative' as const, ...volumeAxis(look.trSec), scale: { domain: [-0.5, nt - 0.5], nice: false, zero: false } };
   return {
     $schema: 'https://vega.github.io/schema/vega-lite/v5.json',
     title: { text: 'Voxel time courses: % signal change from each voxel\'s mean (grey: dropped start; marks: volumes to censor)', anchor: 'start' },
     width: options.width ?? 640, height: options.height ?? 220,
     layer: [
-      ...(drop > 0 ? [{ data: { values: [{ from: -0.5, to: drop - 0.5 }] }, mark: { type: 'rect' as const, color: LOOK_COLOURS.dropped, opacity: 0.5 }, encoding: { x: { ...x, field: 'from' }, x2: { field: 'to' } } }] : []),
+      ...(drop > 0 ? [{ data: { values: [{ from: -0.5, to: drop - 0.5 }] }, mark: { type: 'rect' as const, color: LOOK_COLOURS.dropped, opacity: 0.5 }, encoding: { x: { ...x, field: 'from'}, x2: { field: 'to' } } }] : []),
       ...(look.recommendation.censorVolumes.length ? [{ data: { values: look.recommendation.censorVolumes.map((t) => ({ volume: t })) }, mark: { type: 'rule' as const, color: LOOK_COLOURS.censored, strokeDash: [3, 2] }, encoding: { x } }] : []),
       {
         data: { values: rows }, mark: { type: 'line' as const, strokeWidth: 1 },
@@ -124,25 +121,18 @@ export function voxelTimeCourseSpec(run: Volume, look: Pick<LookResult, 'recomme
           color: { field: 'voxel', type: 'nominal' as const, title: 'voxel (i, j, k)', legend: { orient: 'bottom', direction: 'vertical', labelLimit: 0 }, scale: { range: [mapHex('viridis', 0.1), mapHex('magma', 0.6), mapHex('viridis', 0.6), mapHex('cividis', 0.9)] } },
         },
       },
-      ...secondsAxisLayer(look.trSec, 'volume'),
     ],
-    resolve: { axis: { x: 'independent' } },
   } as unknown as TopLevelSpec;
 }
 
 /**
- * An invisible layer whose x axis, on top of the plot, labels the same volume scale in seconds
- * (volume t at t x TR): every per-volume chart has volumes below and seconds above.
- * @param trSec - repetition time (no layer when unknown)
- * @param field - the x field of the chart (volume index)
- * @returns zero or one vega-lite layer
- * @example layer: [...marks, ...secondsAxisLayer(2, 'volume')]
+ * The time axis of every per-volume chart: volumes, with each label's time in seconds on a second line
+ * under it (volume t at t x TR), so all per-volume figures share one axis.
+ * @param trSec - repetition time (seconds line left out when unknown)
+ * @returns the x encoding's title and axis
+ * @example x: { field: 'volume', type: 'quantitative', ...volumeAxis(2) }
  */
-export function secondsAxisLayer(trSec: number, field: string): Array<Record<string, unknown>> {
-  if (!(trSec > 0)) return [];
-  return [{
-    data: { values: [{ [field]: 0 }] },
-    mark: { type: 'point', opacity: 0 },
-    encoding: { x: { field, type: 'quantitative', axis: { orient: 'top', title: `time (s), TR ${trSec} s`, labelExpr: `format(datum.value * ${trSec}, ',.0f')`, grid: false } } },
-  }];
+export function volumeAxis(trSec: number): { title: string; axis: Record<string, unknown> } {
+  if (!(trSec > 0)) return { title: 'volume', axis: { format: 'd' } };
+  return { title: `volume (time in s under each, TR ${trSec} s)`, axis: { labelExpr: `[format(datum.value, 'd'), format(datum.value * ${trSec}, 'd') + ' s']`, labelLineHeight: 12 } };
 }

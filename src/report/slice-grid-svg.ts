@@ -20,7 +20,7 @@ export function sliceGridSvg(map: Volume, options: MapFigureOptions & { step?: n
   const values = map.data.subarray(0, nx * ny * nz);
   const look: MapLook = options.min !== undefined && options.max !== undefined
     ? { min: options.min, max: options.max, colourMap: options.colourMap ?? 'viridis' }
-    : autoRange(values, options.colourMap ?? 'viridis', options.mask);
+    : autoRange(values, options.colourMap ?? 'viridis', options.outside === 'show' ? undefined : options.mask);
   const ppm = options.pixelsPerMm ?? 1;
   // which voxel axis is the axial normal depends on the affine, not on storage order
   const normalAxis = displayAxes(map.affine).axisOf[2];

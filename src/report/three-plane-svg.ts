@@ -19,7 +19,7 @@ export interface MapFigureOptions {
   /** Display range (default 1st-99th percentile, inside `mask` when given). */
   min?: number;
   max?: number;
-  /** Brain mask (0/1, same grid): sets the automatic range, and is drawn as below. */
+  /** Brain mask (0/1, same grid): sets the automatic range (unless outside is 'show'), and is drawn as below. */
   mask?: ArrayLike<number>;
   /** With a mask: 'hide' (default) draws voxels outside it as background, 'show' draws the whole map. */
   outside?: 'hide' | 'show';
@@ -47,7 +47,7 @@ export function threePlaneSvg(map: Volume, point: readonly [number, number, numb
   const values = map.data.subarray(0, nx * ny * nz);
   const look: MapLook = options.min !== undefined && options.max !== undefined
     ? { min: options.min, max: options.max, colourMap: options.colourMap ?? 'viridis' }
-    : autoRange(values, options.colourMap ?? 'viridis', options.mask);
+    : autoRange(values, options.colourMap ?? 'viridis', options.outside === 'show' ? undefined : options.mask);
   const ppm = options.pixelsPerMm ?? 1.5;
   const planes: PlaneName[] = ['sagittal', 'coronal', 'axial'];
   const margin = 12, gap = 10, titleH = 30;

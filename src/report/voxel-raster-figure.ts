@@ -95,14 +95,18 @@ export async function voxelRasterSvg(look: LookResult, rows: VoxelRasterRows, op
   const step = maxD > 40 ? 10 : 5;
   const ticks = [0];
   for (let d = step; d <= maxD; d += step) ticks.push(d);
-  for (let d = -step; d >= minD; d -= step) ticks.push(d);
+  for (let d = -5; d >= minD; d -= 5) ticks.push(d);
   for (const d of ticks.sort((a, b) => a - b)) {
     const r = rowOf(d);
     if (r >= rows.rows) continue;
     const ty = rasterTop + (r / rows.rows) * H;
     parts.push(`<line x1="${left - 4}" x2="${left}" y1="${ty.toFixed(1)}" y2="${ty.toFixed(1)}" stroke="#333"/>`);
     parts.push(svgText(left - 6, ty + 4, `${d} mm`, { size: 10, anchor: 'end' }));
-    if (d === 0) parts.push(`<line x1="${left}" x2="${left + W}" y1="${ty.toFixed(1)}" y2="${ty.toFixed(1)}" stroke="white" stroke-width="1" stroke-dasharray="4 3"/>`);
+    if (d === 0) {
+      parts.push(`<line x1="${left}" x2="${left + W}" y1="${ty.toFixed(1)}" y2="${ty.toFixed(1)}" stroke="black" stroke-width="1" stroke-dasharray="4 3"/>`);
+      if (r > 0) parts.push(svgText(left + W + 4, rasterTop + (r / rows.rows) * H / 2 + 4, 'outside', { size: 9, fill: '#555' }));
+      parts.push(svgText(left + W + 4, ty + 12, 'inside', { size: 9, fill: '#555' }));
+    }
   }
   parts.push(`<text transform="translate(16 ${(rasterTop + H / 2).toFixed(1)}) rotate(-90)" text-anchor="middle" font-family="'DejaVu Sans', Helvetica, Arial, sans-serif" font-size="11">depth below the mask surface</text>`);
   // time axis: volumes, seconds under them
@@ -111,9 +115,9 @@ export async function voxelRasterSvg(look: LookResult, rows: VoxelRasterRows, op
   for (let t = 0; t < nt; t += vStep) {
     parts.push(`<line x1="${xOf(t).toFixed(1)}" x2="${xOf(t).toFixed(1)}" y1="${bottom}" y2="${bottom + 4}" stroke="#333"/>`);
     parts.push(svgText(xOf(t), bottom + 15, String(t), { size: 10, anchor: 'middle' }));
-    if (look.trSec > 0) parts.push(svgText(xOf(t), bottom + 27, `${formatValue(t * look.trSec)} s`, { size: 9, anchor: 'middle', fill: '#666' }));
+    if (look.trSec > 0) parts.push(svgText(xOf(t), bottom + 27, `${Math.round(t * look.trSec)} s`, { size: 9, anchor: 'middle', fill: '#666' }));
   }
   parts.push(svgText(left + W / 2, bottom + 42, `volume${look.trSec > 0 ? ` (seconds below, TR ${look.trSec} s)` : ''}; grey: dropped start; coloured columns: volumes to censor`, { size: 11, anchor: 'middle' }));
   parts.push(svgColourBar(left, bottom + 52, 220, { min: -RASTER_Z_LIMIT, max: RASTER_Z_LIMIT, colourMap: 'diverging' }, 'z-score within each row'));
-  return svgDocument(left + W + 16, bottom + 100, parts);
+  return svgDocument(left + W + 48, bottom + 100, parts);
 }
