@@ -48,7 +48,7 @@ table.ev th { font-weight: normal; color: #555; } figure { margin: 18px 0; overf
 <ul>${rec.why.map((w) => `<li>${e(w)}</li>`).join('')}</ul></section>
 ${look.skipped.length ? `<section id="skipped"><h2>Checks not run</h2><ul>${look.skipped.map((s) => `<li><b>${e(s.check)}</b>: ${e(s.why)}. <i>To run it:</i> ${e(s.how)}.</li>`).join('')}</ul></section>` : ''}
 <section id="findings"><h2>Findings (${look.findings.length}), most consequential first</h2>
-${look.findings.length ? `<table><thead><tr><th>#</th><th>what was found, and why</th><th>what it does to the analysis</th><th>what to do</th></tr></thead><tbody>
+${look.findings.length ? `<table class="findings"><thead><tr><th>#</th><th>what was found, and why</th><th>what it does to the analysis</th><th>what to do</th></tr></thead><tbody>
 ${findingRows}
 </tbody></table>` : '<p>Nothing stood out at the cutoffs used.</p>'}</section>
 <section id="numbers"><h2>Numbers</h2>
