@@ -40,30 +40,55 @@ export function openByConditionalDilation(mask: ArrayLike<number>, dims: readonl
   const input = new Uint8Array(n);
   for (let v = 0; v < n; v++) input[v] = mask[v] ? 1 : 0;
   const eroded = new Uint8Array(n);
-  ballPass(input, eroded, dims, offsets, true);
+  ballPass(input, eroded, dims, offsets, true, input);
   const erodedCount = count(eroded);
   if (erodedCount === 0) return { mask: input, eroded: 0, largestComponent: 0, dilated: count(input), reachVoxels: reach };
   const largest = largestComponent(eroded, dims, 6);
   const dilated = new Uint8Array(n);
-  ballPass(largest, dilated, dims, offsets, false);
-  for (let v = 0; v < n; v++) dilated[v] &= input[v];
+  ballPass(largest, dilated, dims, offsets, false, input); // only into voxels of the input mask
   return { mask: dilated, eroded: erodedCount, largestComponent: count(largest), dilated: count(dilated), reachVoxels: reach };
 }
 
-/** Erosion (every offset in, outside the grid = out) or dilation (any offset in) with a list of offsets. */
-function ballPass(src: Uint8Array, out: Uint8Array, dims: readonly number[], offsets: Array<[number, number, number]>, erode: boolean): void {
-  const [nx, ny, nz] = dims;
-  for (let k = 0, v = 0; k < nz; k++) for (let j = 0; j < ny; j++) for (let i = 0; i < nx; i++, v++) {
-    if (erode && !src[v]) continue;
-    let hit = erode ? 1 : 0;
-    for (const [a, b, c] of offsets) {
-      const x = i + a, y = j + b, z = k + c;
-      const inGrid = x >= 0 && x < nx && y >= 0 && y < ny && z >= 0 && z < nz;
-      const s = inGrid ? src[x + nx * (y + ny * z)] : 0;
-      if (erode && !s) { hit = 0; break; }
-      if (!erode && s) { hit = 1; break; }
+/**
+ * Erosion (every offset in, outside the grid = out) or dilation (any offset in) with a list of
+ * offsets, evaluated only where `where` is set (erosion: the mask itself; dilation: the mask the
+ * result is restricted to). Voxels at least the ball's reach from every grid face use linear offsets.
+ */
+function ballPass(src: Uint8Array, out: Uint8Array, dims: readonly number[], offsets: Array<[number, number, number]>, erode: boolean, where: Uint8Array): void {
+  const nx = dims[0], ny = dims[1], nz = dims[2];
+  let ra = 0, rb = 0, rc = 0;
+  for (const o of offsets) { ra = Math.max(ra, Math.abs(o[0])); rb = Math.max(rb, Math.abs(o[1])); rc = Math.max(rc, Math.abs(o[2])); }
+  const linear = Int32Array.from(offsets, ([a, b, c]) => a + nx * (b + ny * c));
+  const oa = Int32Array.from(offsets, (o) => o[0]), ob = Int32Array.from(offsets, (o) => o[1]), oc = Int32Array.from(offsets, (o) => o[2]);
+  passLoop(src, out, where, nx, ny, nz, ra, rb, rc, linear, oa, ob, oc, erode ? 1 : 0);
+}
+
+/** The loop of ballPass on plain numbers and typed arrays (one function V8 optimises once). */
+function passLoop(src: Uint8Array, out: Uint8Array, where: Uint8Array, nx: number, ny: number, nz: number, ra: number, rb: number, rc: number, linear: Int32Array, oa: Int32Array, ob: Int32Array, oc: Int32Array, erode: number): void {
+  const m = linear.length;
+  let v = 0;
+  for (let k = 0; k < nz; k++) {
+    const kIn = k >= rc && k < nz - rc;
+    for (let j = 0; j < ny; j++) {
+      const jkIn = kIn && j >= rb && j < ny - rb;
+      for (let i = 0; i < nx; i++, v++) {
+        if (where[v] === 0) continue;
+        // erosion: 1 unless some offset is out; dilation: 0 unless some offset is in
+        let hit = erode;
+        if (jkIn && i >= ra && i < nx - ra) {
+          for (let o = 0; o < m; o++) {
+            if ((src[v + linear[o]] !== 0 ? 1 : 0) !== erode) { hit = 1 - erode; break; }
+          }
+        } else {
+          for (let o = 0; o < m; o++) {
+            const x = i + oa[o], y = j + ob[o], z = k + oc[o];
+            const s = x >= 0 && x < nx && y >= 0 && y < ny && z >= 0 && z < nz && src[x + nx * (y + ny * z)] !== 0 ? 1 : 0;
+            if (s !== erode) { hit = 1 - erode; break; }
+          }
+        }
+        out[v] = hit;
+      }
     }
-    out[v] = hit;
   }
 }
 

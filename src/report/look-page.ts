@@ -44,7 +44,7 @@ table.ev th { font-weight: normal; color: #555; } figure { margin: 18px 0; overf
 <h1>Look at ${e(source)}</h1>
 <p class="small">${nx} x ${ny} x ${nz} voxels, ${nt} volumes${look.trSec > 0 ? `, TR ${look.trSec} s` : ''}. Volumes, slices and voxels are numbered from 0.</p>
 <section id="recommendation" class="box"><h2 style="border:none;margin-top:4px">Recommendation</h2>
-<p>Drop the first ${rec.dropInitialVolumes} volume${rec.dropInitialVolumes === 1 ? '' : 's'}; censor ${rec.censorVolumes.length ? e(describeVolumes(rec.censorVolumes)) + ` (${rec.censorVolumes.join(', ')})` : 'no volumes'}.</p>
+<p>Drop the first ${rec.dropInitialVolumes} volume${rec.dropInitialVolumes === 1 ? '' : 's'}; censor ${rec.censorVolumes.length ? e(describeVolumes(rec.censorVolumes)) : 'no volumes'}.</p>
 <ul>${rec.why.map((w) => `<li>${e(w)}</li>`).join('')}</ul></section>
 ${look.skipped.length ? `<section id="skipped"><h2>Checks not run</h2><ul>${look.skipped.map((s) => `<li><b>${e(s.check)}</b>: ${e(s.why)}. <i>To run it:</i> ${e(s.how)}.</li>`).join('')}</ul></section>` : ''}
 <section id="findings"><h2>Findings (${look.findings.length}), most consequential first</h2>
