@@ -20,7 +20,7 @@ export { openRun, readNifti, writeNifti, readSidecar, readEvents } from './io/in
 
 // look
 export {
-  lookAtRun, findingsTable, meanImage, voxelRasterRows,
+  lookAtRun, lookConsoleLines, findingsTable, meanImage, voxelRasterRows,
 } from './look/index.js';
 
 // plant
@@ -52,7 +52,7 @@ export { summariseScorecard, recommendSetting, type Recommendation, type Setting
 
 // report
 export {
-  RESEARCH_CAUTION, renderSvg, threePlaneSvg, sliceGridSvg, voxelRasterSvg, lookPageHtml, lookTracesSpec, voxelTimeCourseSpec, chosenVoxels, maskCentre,
+  RESEARCH_CAUTION, renderSvg, threePlaneSvg, sliceGridSvg, voxelRasterSvg, lookPageHtml, tableHtml, lookTracesSpec, voxelTimeCourseSpec, chosenVoxels, maskCentre,
   writeLookFolder, detectionChart, falseAlarmChart, rocChart, smoothnessChart, tsnrChart, methodsText, methodsMarkdown,
   thresholdText, runFacts, writeReport, writeSweepFolder, readDecisionRecord, recordDir, rerunRecord,
 } from './report/index.js';

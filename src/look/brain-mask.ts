@@ -68,7 +68,7 @@ export function brainMaskFromMean(mean: ArrayLike<number>, dims: readonly [numbe
       mask: filled, voxels, threshold: otsu.threshold, otsu,
       steps: { thresholded, eroded: cut.eroded, opened: cut.dilated, largestComponent: cut.largestComponent, closed: count(closed), holesFilled: voxels },
       source: 'otsu',
-      method: `mean image thresholded at Otsu's value (${otsu.threshold.toPrecision(4)}; Otsu 1979), eroded with a ${radius} mm ball, largest connected part kept and dilated back with the same ball inside the thresholded voxels (Lemieux et al. 1999), then closed and holes filled`,
+      method: `mean image thresholded at Otsu's value (${otsu.threshold.toPrecision(4)}; Otsu 1979), eroded with a ball of radius ${radius} mm, largest connected part kept and dilated back with the same ball inside the thresholded voxels (Lemieux et al. 1999), then closed and holes filled`,
     };
   }
   let opened = openMask(raw, dims);

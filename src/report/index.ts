@@ -11,6 +11,7 @@ export { sliceGridSvg } from './slice-grid-svg.js';
 export { traceChartSpec, lookTracesSpec, voxelTimeCourseSpec, LOOK_COLOURS } from './look-charts.js';
 export { voxelRasterImage, voxelRasterPng, voxelRasterSvg, RASTER_Z_LIMIT } from './voxel-raster-figure.js';
 export { lookPageHtml } from './look-page.js';
+export { tableHtml, type TableHtmlOptions } from './table-html.js';
 export { lookFigures, chosenVoxels, maskCentre, type LookFigure } from './look-figures.js';
 export { writeLookFolder, lookSummaryJson, lookSeriesTsv } from './write-look-folder.js';
 // sweep report: charts, recommendation text, methods, decision record, HTML

@@ -75,7 +75,7 @@ describe('findings table', () => {
   it('is an empty table with the same columns when nothing was found', async () => {
     const { findingsTable } = await import('../../src/look/findings-table.js');
     const t = findingsTable({ findings: [] });
-    expect(t.shape).toEqual([0, 8]);
+    expect(t.shape).toEqual([0, 9]);
     expect(t.columns).toContain('verdict');
   });
 });

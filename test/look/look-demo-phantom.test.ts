@@ -57,7 +57,7 @@ describe('look at the demo phantom', () => {
 
   it('lists every finding in the danfo table with its evidence', () => {
     const table = findingsTable(look);
-    expect(table.shape).toEqual([look.findings.length, 8]);
+    expect(table.shape).toEqual([look.findings.length, 9]);
     expect(table.columns).toContain('evidence');
   });
 
