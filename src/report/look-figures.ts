@@ -47,7 +47,7 @@ export function chosenVoxels(look: LookResult): Array<{ ijk: [number, number, nu
  * The voxel nearest the mask's centre of mass that lies in the mask.
  * @param look - the look
  * @returns (i, j, k)
- * @example threePlanePng(look.maps.tsnr, maskCentre(look), { ... })
+ * @example threePlaneSvg(look.maps.tsnr, maskCentre(look), { title: 'tSNR', unit: 'tSNR, dimensionless' })
  */
 export function maskCentre(look: Pick<LookResult, 'dims' | 'mask'>): [number, number, number] {
   const [nx, ny] = look.dims;
