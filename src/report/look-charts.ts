@@ -3,6 +3,7 @@ import type { Volume } from '../core/volume.js';
 import { voxelsPerVolume } from '../core/volume.js';
 import type { LookResult } from '../look/look-at-run.js';
 import { mapHex } from './colour-map.js';
+import { FIGURE_FONT } from './figure-svg.js';
 
 /** Colours shared by the look charts, taken from our published maps so charts match the images. */
 export const LOOK_COLOURS = {
@@ -43,6 +44,7 @@ export function traceChartSpec(values: ArrayLike<number>, look: Pick<LookResult,
   const x = { field: 'volume', type: 'quantitative' as const, ...volumeAxis(look.trSec), scale: { domain: [-0.5, nt - 0.5], nice: false, zero: false } };
   return {
     $schema: 'https://vega.github.io/schema/vega-lite/v5.json',
+    config: { font: FIGURE_FONT },
     title: { text: title, anchor: 'start', fontSize: 12 },
     width, height, autosize: { type: 'none' }, padding: { left, right: 20, top: 34, bottom: 34 },
     layer: [
@@ -65,11 +67,12 @@ export function lookTracesSpec(look: LookResult, options: { width?: number } = {
   const width = options.width ?? 640;
   const part = (values: ArrayLike<number>, title: string, yTitle: string) => {
     const s = traceChartSpec(values, look, title, yTitle, { width }) as unknown as Record<string, unknown>;
-    const { $schema: _s, autosize: _a, padding: _p, ...rest } = s;
+    const { $schema: _s, autosize: _a, padding: _p, config: _c, ...rest } = s;
     return rest;
   };
   return {
     $schema: 'https://vega.github.io/schema/vega-lite/v5.json',
+    config: { font: FIGURE_FONT },
     title: { text: 'Per-volume traces in the brain mask (grey: dropped start; marks: volumes to censor)', anchor: 'start' },
     vconcat: [
       part(look.series.globalMean, 'Global mean signal', 'signal units'),
@@ -109,6 +112,7 @@ export function voxelTimeCourseSpec(run: Volume, look: Pick<LookResult, 'recomme
   const x = { field: 'volume', type: 'quantitative' as const, ...volumeAxis(look.trSec), scale: { domain: [-0.5, nt - 0.5], nice: false, zero: false } };
   return {
     $schema: 'https://vega.github.io/schema/vega-lite/v5.json',
+    config: { font: FIGURE_FONT },
     title: { text: 'Voxel time courses: % signal change from each voxel\'s mean (grey: dropped start; marks: volumes to censor)', anchor: 'start' },
     width: options.width ?? 640, height: options.height ?? 220,
     layer: [
