@@ -21,7 +21,7 @@ export { openRun, readNifti, writeNifti, readSidecar, readEvents } from './io/in
 
 // look
 export {
-  lookAtRun, findingsTable, meanImage, voxelRasterRows,
+  lookAtRun, lookConsoleLines, findingsTable, meanImage, voxelRasterRows,
 } from './look/index.js';
 
 // acquisition model (head pose per volume, B0 displacement, slice times)
@@ -61,7 +61,7 @@ export { summariseScorecard, recommendSetting, type Recommendation, type Setting
 
 // report
 export {
-  RESEARCH_CAUTION, renderSvg, threePlanePng, sliceGridPng, voxelRasterSvg, lookTracesSpec, voxelTimeCourseSpec, chosenVoxels, maskCentre,
+  RESEARCH_CAUTION, renderSvg, threePlaneSvg, sliceGridSvg, voxelRasterSvg, lookPageHtml, tableHtml, lookTracesSpec, voxelTimeCourseSpec, chosenVoxels, maskCentre,
   writeLookFolder, detectionChart, falseAlarmChart, rocChart, smoothnessChart, tsnrChart, methodsText, methodsMarkdown,
   thresholdText, runFacts, writeReport, writeSweepFolder, readDecisionRecord, recordDir, rerunRecord,
   readLookFolder, starterSpecYaml,

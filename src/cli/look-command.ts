@@ -4,6 +4,7 @@ import { readNifti } from '../io/nifti-read.js';
 import { openRun } from '../io/open-run.js';
 import { checkOutputFolder } from '../io/output-folder.js';
 import { lookAtRun, type LookOptions } from '../look/look-at-run.js';
+import { lookConsoleLines } from '../look/look-console-lines.js';
 import { writeLookFolder } from '../report/write-look-folder.js';
 import { FORCE_HELP, finiteNumber, nonNegativeInt, positiveNumber, withExitCodes } from './cli-common.js';
 
@@ -61,8 +62,7 @@ Example:
       const look = lookAtRun(run, options);
       const source = run.files.image ?? path;
       const files = await writeLookFolder(run.volume, look, opts.out, { source, sourceSha256: await hashFile(source), figures: opts.figures, force: opts.force, inputs: [path, opts.mask] });
-      console.log(`look at ${path}: ${look.findings.length} finding${look.findings.length === 1 ? '' : 's'}`);
-      for (const v of look.verdicts) console.log(`  - ${v}`);
+      console.log(lookConsoleLines(look, path).join('\n'));
       console.log(`recommendation: drop ${look.recommendation.dropInitialVolumes} initial volume(s); censor ${look.recommendation.censorVolumes.length ? look.recommendation.censorVolumes.join(', ') : 'none'}`);
       console.log(`tSNR in the mask: median ${look.summaries.tsnr.median.toFixed(1)} (quartiles ${look.summaries.tsnr.q1.toFixed(1)}-${look.summaries.tsnr.q3.toFixed(1)})`);
       console.log(`wrote ${files.length} files to ${opts.out}`);

@@ -12,6 +12,8 @@ export const FINDING_ADVICE: Record<FindingKind, string> = {
   'slice-dropout': 'Censor the volume (the slice lost signal: reconstruction or shim failure); if the same slice drops repeatedly, report it to the scanner operators.',
   'slice-bright': 'Censor the volume (a bright slice suggests a spike artefact in k-space).',
   'voxel-spike': 'A single-voxel spike barely moves a model fit; leave it, or despike. Censor the volume only when many voxels spike together.',
+  'unstable-voxel': 'One voxel departs from its own time course at several volumes (often a vessel, or a voxel at the edge of the brain or of a signal void); its own series is unreliable, the rest of the run is not. Leave it out of region-of-interest averages or despike it; do not censor volumes for it.',
+  'empty-slices': 'Check the acquisition: slices that hold only zeros were not recorded or were padded in conversion; if the field of view should cover them, the run is incomplete there. They are left out of every measure.',
   'non-finite': 'These voxels are excluded from every measure; mask or repair them before preprocessing (boldsweep does not guess values).',
 };
 

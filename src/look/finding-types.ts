@@ -6,7 +6,9 @@ export type FindingKind =
   | 'slice-dropout'
   | 'slice-bright'
   | 'voxel-spike'
-  | 'non-finite';
+  | 'unstable-voxel'
+  | 'non-finite'
+  | 'empty-slices';
 
 /** One thing the look found, with the numbers behind it and what to do. */
 export interface Finding {
@@ -25,4 +27,9 @@ export interface Finding {
   advice: string;
   /** One short plain-text line: what and what to do. */
   verdict: string;
+  /**
+   * What the finding does to the analysis, in words ("3 volumes dropped", "volume 112 censored",
+   * "one voxel's series unreliable"); findings are ranked by it (see rankFindings).
+   */
+  consequence: string;
 }

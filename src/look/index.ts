@@ -1,5 +1,9 @@
 // look: public exports of this module (re-exports only; src/index.ts re-exports this file).
-export { lookAtRun, LOOK_MIN_VOLUMES, SPIKE_VOXELS_FOR_CENSOR, type LookOptions, type LookResult } from './look-at-run.js';
+export { lookAtRun, LOOK_MIN_VOLUMES, LOW_BASELINE_FRACTION, MASK_MIN_SEPARABILITY, SPIKE_VOXELS_FOR_CENSOR, type LookOptions, type LookResult, type SkippedCheck } from './look-at-run.js';
+export { lookConsoleLines, CONSOLE_FINDINGS } from './look-console-lines.js';
+export { rankFindings, CONSEQUENCE_TIER } from './rank-findings.js';
+export { sliceFindings } from './slice-findings.js';
+export { spikeFindings, type SpikeFindingOptions } from './spike-findings.js';
 export { findingsTable } from './findings-table.js';
 export type { Finding, FindingKind } from './finding-types.js';
 export { FINDING_ADVICE } from './finding-text.js';
@@ -23,7 +27,7 @@ export { steadyStateFromFirstVolume, type PerVoxelSteadyState } from './steady-s
 export { trimmedDvars } from './trimmed-dvars.js';
 export { volumeOutliers, type VolumeOutliers, type VolumeOutlier } from './volume-outliers.js';
 export { sliceOutliers, type SliceOutliers, type SliceOutlier } from './slice-outliers.js';
-export { voxelSpikes, type VoxelSpike } from './voxel-spikes.js';
+export { voxelSpikes, type VoxelSpike, type AbsoluteScale } from './voxel-spikes.js';
 export { robustZ, MAD_TO_SD, type RobustZ } from './robust-z.js';
 export { medianOf } from './median-of.js';
 export { summariseInMask, type MapSummary } from './map-summary.js';

@@ -18,6 +18,9 @@ import { trimmedDvars } from './trimmed-dvars.js';
 import { volumeOutliers, type VolumeOutliers } from './volume-outliers.js';
 import { screenSpikeVoxels } from './spike-screen.js';
 import { voxelSpikes, type VoxelSpike } from './voxel-spikes.js';
+import { rankFindings } from './rank-findings.js';
+import { sliceFindings } from './slice-findings.js';
+import { spikeFindings } from './spike-findings.js';
 
 /** Fewest volumes a look accepts: robust z-scores and the steady-state reference window need them. */
 export const LOOK_MIN_VOLUMES = 12;
@@ -32,6 +35,28 @@ export const SPIKE_VOXELS_FOR_CENSOR = 10;
  * so a dropout inside a flagged volume is still named.
  */
 export const SLICES_FOR_VOLUME_EVENT = 3;
+
+/**
+ * A voxel whose mean is below this fraction of the median brain voxel's mean has a baseline near the
+ * noise floor (edges, vessels, signal voids, outside the brain): its spikes are judged against the
+ * median brain voxel's temporal SD and expressed in % of the median brain mean, not of its own.
+ */
+export const LOW_BASELINE_FRACTION = 0.3;
+
+/**
+ * Otsu's separability (between-class / total variance of the mean image) below which the mean image
+ * has no clear brain/background split: a normal distribution split at its mean gives 2/pi = 0.64 and a
+ * uniform one 0.75 (common practice, no source: both follow from the definition); brain EPI gives
+ * about 0.9 or more (the demo phantom 0.96).
+ */
+export const MASK_MIN_SEPARABILITY = 0.8;
+
+/** A check the look could not run, why, and how to make it possible. */
+export interface SkippedCheck {
+  check: string;
+  why: string;
+  how: string;
+}
 
 /** Options of {@link lookAtRun}; every cutoff is a robust z (median / 1.4826 MAD units). */
 export interface LookOptions {
@@ -97,7 +122,10 @@ export interface LookResult {
   sliceOutliers: SliceOutliers;
   /** Every spike found in the kept, uncensored volumes. */
   spikes: VoxelSpike[];
+  /** Findings ranked by consequence (rankFindings): the most consequential first. */
   findings: Finding[];
+  /** Checks not run for want of information (e.g. no sidecar), with how to supply it. */
+  skipped: SkippedCheck[];
   /** One line per finding, same order. */
   verdicts: string[];
   recommendation: { dropInitialVolumes: number; censorVolumes: number[]; why: string[] };
@@ -153,6 +181,7 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
   const nonFiniteCount = markNonFinite(meanAll, nonFinite);
   if (nonFiniteCount === n) fail('CONSTANT_DATA', 'every voxel holds a NaN or infinite value in some volume; nothing can be measured');
   let mask: BrainMask;
+  let unclearMask: { separability: number; mask: BrainMask } | null = null;
   if (options.mask) {
     mask = checkUserMask(options.mask, run);
     let dropped = 0;
@@ -160,8 +189,10 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
     mask.voxels -= dropped;
     if (mask.voxels === 0) fail('INVALID_ARGUMENT', 'every voxel of the user mask holds NaN or infinite values');
   } else {
-    mask = brainMaskFromMean(meanAll, [nx, ny, nz]);
+    mask = brainMaskFromMean(meanAll, [nx, ny, nz], { spacingMm: run.spacingMm });
+    if (mask.otsu && mask.otsu.separability < MASK_MIN_SEPARABILITY) unclearMask = { separability: mask.otsu.separability, mask: mask = wholeFieldMask(meanAll) };
   }
+  const emptySlices = zeroSlices(meanAll, [nx, ny, nz]);
 
   // 2. traces in the mask
   const traces = maskSeries(run, mask.mask);
@@ -260,18 +291,44 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
   const T = stats.usedVolumes;
   const screen = (0.9 * spikeCutoffZ) / Math.sqrt(1 + (4 * spikeCutoffZ * spikeCutoffZ) / T);
   const candidates = screenSpikeVoxels(run, sums, stats, screen);
-  const spikes = voxelSpikes(run, candidates, { firstVolume: drop, detrendOrder, cutoffZ: spikeCutoffZ, censorVolumes: censorForStats });
+  const absolute = { belowMean: LOW_BASELINE_FRACTION * summaries.mean.median, floorScale: summaries.sd.median, referenceMean: summaries.mean.median };
+  const spikes = voxelSpikes(run, candidates, { firstVolume: drop, detrendOrder, cutoffZ: spikeCutoffZ, censorVolumes: censorForStats, absolute });
 
   // 6. findings
   const findings: Finding[] = [];
   if (nonFiniteCount > 0) findings.push(nonFiniteFinding(nonFinite, [nx, ny, nz]));
+  if (emptySlices.length > 0) findings.push(emptySliceFinding(emptySlices, nz));
   if (drop > 0) findings.push(steadyFinding(drop, auto, onset, modelCount, model, perVoxel, traces.globalMean));
   const { slicesWithVolume, sliceOnly } = splitSliceFlags(sl, new Set(vol.flagged.map((f) => f.volume)));
   findings.push(...volumeFindings(vol, traces.dvars, dvarsStd, traces.globalMean, slicesWithVolume));
-  findings.push(...sliceFindings(sl, sliceOnly));
+  findings.push(...sliceFindings(sliceOnly, sl.cutoffZ));
   const explainedVolume = new Set(sl.wholeVolumeEvents);
   const unexplained = spikes.filter((s) => !explainedVolume.has(s.volume));
-  findings.push(...spikeFindings(unexplained, maxSpikeFindings, spikeCutoffZ));
+  findings.push(...spikeFindings(unexplained, { cutoffZ: spikeCutoffZ, voxelsForCensor: SPIKE_VOXELS_FOR_CENSOR, maxIsolated: maxSpikeFindings }));
+  const ranked = rankFindings(findings);
+  const skipped: SkippedCheck[] = [];
+  if (unclearMask) {
+    skipped.push({
+      check: 'automatic brain mask',
+      why: `the mean image has no clear brain/background split (Otsu separability ${unclearMask.separability.toFixed(2)}, below ${MASK_MIN_SEPARABILITY}: a uniform object or an image without background), so every voxel with a finite, nonzero mean (${unclearMask.mask.voxels}) is used`,
+      how: 'give a brain mask on the run\'s grid (--mask on the command line, the mask option of lookAtRun)',
+    });
+  }
+  if (nz === 1) {
+    skipped.push({
+      check: 'slice checks (dropouts, bright slices, slice means moving with the head)',
+      why: 'the run has one slice, so no slice can be compared with the others',
+      how: 'nothing to do for a single-slice run; the volume measures (DVARS, global mean) and spike checks still ran',
+    });
+  }
+  if (!(trSec > 0) || flip === undefined || !(flip > 0)) {
+    const missing = [!(trSec > 0) ? 'the repetition time' : '', flip === undefined || !(flip > 0) ? 'the flip angle' : ''].filter(Boolean).join(' and ');
+    skipped.push({
+      check: 'steady-state model (how many volumes the spoiled-gradient-echo signal needs to settle, per voxel and for grey matter)',
+      why: `${missing} ${missing.includes(' and ') ? 'are' : 'is'} not known${sidecar ? ' (the sidecar has no ' + [!(trSec > 0) ? 'RepetitionTime' : '', flip === undefined ? 'FlipAngle' : ''].filter(Boolean).join(' or ') + ')' : ' (no BIDS sidecar beside the run)'}; the volumes to drop come from the global mean alone`,
+      how: 'put a BIDS sidecar beside the run (X_bold.nii.gz -> X_bold.json) with "RepetitionTime" (s) and "FlipAngle" (deg), or give them: flipAngleDeg in the look options / --flip-angle-deg on the command line',
+    });
+  }
 
   const spikesPerVolume = new Map<number, number>();
   for (const s of unexplained) spikesPerVolume.set(s.volume, (spikesPerVolume.get(s.volume) ?? 0) + 1);
@@ -290,7 +347,7 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
     steadyState: { dataCount: onset.count, onset, modelCount, model, perVoxel },
     dvarsFromFewVoxels,
     volumeOutliers: vol, sliceOutliers: sl, spikes,
-    findings, verdicts: findings.map((f) => f.verdict),
+    findings: ranked, skipped, verdicts: ranked.map((f) => f.verdict),
     recommendation: { dropInitialVolumes: drop, censorVolumes, why },
     settings: { detrendOrder, volumeCutoffZ, sliceCutoffZ, spikeCutoffZ, steadyCutoffZ, t1Sec: model?.t1Sec ?? options.t1Sec ?? GREY_MATTER_T1_SEC_3T, maxSpikeFindings, dropInitialVolumes: options.dropInitialVolumes ?? 'auto', ddof: stats.ddof, maskSource: mask.source },
     dims: [nx, ny, nz, nt], trSec,
@@ -361,6 +418,7 @@ function nonFiniteFinding(nonFinite: Uint8Array, dims: [number, number, number])
     reason: `${total} voxels hold NaN or infinite values in at least one volume${whole.length ? `; ${describeVolumes(whole, 'slice')} entirely` : ''}`,
     advice: FINDING_ADVICE['non-finite'],
     verdict: `${total} voxels with NaN/infinite values (${describeVolumes(slices, 'slice')}): excluded; repair or mask them`,
+    consequence: `${total} voxels excluded from every measure`,
   };
 }
 
@@ -382,6 +440,7 @@ function steadyFinding(drop: number, auto: boolean, onset: SteadyStateOnset, mod
     reason: `${auto ? `the global mean of the first ${onset.count} volumes lies more than ${onset.cutoffZ} robust SDs above the steady level (volumes 0-${drop - 1}: ${excessPercent.map((e) => signed(e, 2) + ' %').join(', ')})${modelText}` : `${drop} volumes dropped as requested (data count ${onset.count})`}`,
     advice: FINDING_ADVICE['non-steady-start'],
     verdict: `${drop} volume${drop === 1 ? '' : 's'} brighter than steady state: drop ${drop === 1 ? 'it' : 'them'}`,
+    consequence: `${drop} volume${drop === 1 ? '' : 's'} dropped from the start`,
   };
 }
 
@@ -428,38 +487,7 @@ function volumeFindings(vol: VolumeOutliers, dvars: Float64Array, dvarsStd: Floa
       verdict: jump
         ? `abrupt change at ${describeVolumes(volumes)} (DVARS ${(Math.max(...volumes.map((t) => dvarsStd[t]))).toFixed(1)}x its null level): censor`
         : `global signal off its drift at ${describeVolumes(volumes)} (z ${signed(maxG)}): censor`,
-    };
-  });
-}
-
-function sliceFindings(sl: SliceOutliers, flagged: SliceOutliers['flagged']): Finding[] {
-  return flagged.map((f) => {
-    const kind = f.direction === 'dark' ? 'slice-dropout' as const : 'slice-bright' as const;
-    const pct = (100 * (f.value - f.typical)) / f.typical;
-    return {
-      kind, volumes: [f.volume], slices: [f.slice], voxels: [],
-      evidence: { sliceMean: round(f.value, 3), typical: round(f.typical, 3), changePercent: round(pct, 2), z: round(f.z, 2), cutoffZ: sl.cutoffZ },
-      reason: `slice ${f.slice} mean in volume ${f.volume} is ${signed(pct)} % from that slice's usual value (robust z ${signed(f.z)}, cutoff +-${sl.cutoffZ})`,
-      advice: FINDING_ADVICE[kind],
-      verdict: `slice ${f.slice} of volume ${f.volume} ${f.direction === 'dark' ? 'drops out' : 'is bright'} (${signed(pct)} %): censor volume ${f.volume}`,
-    };
-  });
-}
-
-function spikeFindings(spikes: VoxelSpike[], max: number, cutoffZ: number): Finding[] {
-  const byVolume = new Map<number, VoxelSpike[]>();
-  for (const s of spikes) { const l = byVolume.get(s.volume) ?? []; l.push(s); byVolume.set(s.volume, l); }
-  const groups = [...byVolume.values()].sort((a, b) => Math.abs(b[0].z) - Math.abs(a[0].z)).slice(0, max);
-  return groups.map((list) => {
-    const top = list[0];
-    const t = top.volume;
-    const where = list.length === 1 ? `voxel (${top.ijk.join(', ')})` : `${list.length} voxels`;
-    return {
-      kind: 'voxel-spike' as const, volumes: [t], slices: [...new Set(list.map((s) => s.ijk[2]))].sort((a, b) => a - b), voxels: list.map((s) => s.ijk),
-      evidence: { z: list.map((s) => round(s.z, 2)), sizeSignal: list.map((s) => round(s.size, 3)), sizePercent: list.map((s) => round(s.sizePercent, 2)) },
-      reason: `${where} in volume ${t} depart${list.length === 1 ? 's' : ''} from ${list.length === 1 ? 'its' : 'their'} own time course by up to ${signed(top.sizePercent)} % (robust z ${signed(top.z)}, cutoff +-${cutoffZ})`,
-      advice: FINDING_ADVICE['voxel-spike'],
-      verdict: `spike in ${where} at volume ${t} (${signed(top.sizePercent)} %): ${list.length >= SPIKE_VOXELS_FOR_CENSOR ? 'many voxels at once: censor the volume' : 'isolated: leave it or despike'}`,
+      consequence: `${describeVolumes(volumes)} censored`,
     };
   });
 }
@@ -468,4 +496,36 @@ function round(x: number, digits: number): number {
   if (!Number.isFinite(x)) return x;
   const f = 10 ** digits;
   return Math.round(x * f) / f;
+}
+
+/** Every voxel whose mean is finite and nonzero: the mask when the mean image has no clear split. */
+function wholeFieldMask(mean: Float64Array): BrainMask {
+  const m = new Uint8Array(mean.length);
+  let voxels = 0;
+  for (let v = 0; v < m.length; v++) if (Number.isFinite(mean[v]) && mean[v] !== 0) { m[v] = 1; voxels++; }
+  if (voxels === 0) fail('CONSTANT_DATA', 'every voxel has a zero or non-finite mean; nothing can be measured');
+  return { mask: m, voxels, threshold: NaN, otsu: null, steps: null, source: 'otsu', method: 'no clear brain/background split in the mean image: every voxel with a finite, nonzero mean' };
+}
+
+/** Slices whose mean is exactly 0 in every voxel (empty slices: padding, or lost in reconstruction). */
+function zeroSlices(mean: Float64Array, dims: [number, number, number]): number[] {
+  const [nx, ny, nz] = dims;
+  const out: number[] = [];
+  for (let k = 0; k < nz; k++) {
+    let empty = true;
+    for (let v = k * nx * ny; v < (k + 1) * nx * ny && empty; v++) if (mean[v] !== 0) empty = false;
+    if (empty) out.push(k);
+  }
+  return out;
+}
+
+function emptySliceFinding(slices: number[], nz: number): Finding {
+  return {
+    kind: 'empty-slices', volumes: [], slices, voxels: [],
+    evidence: { slices, slicesInRun: nz },
+    reason: `${describeVolumes(slices, 'slice')} hold${slices.length === 1 ? 's' : ''} zero in every voxel of every volume: no signal was recorded there (or the slices were padded)`,
+    advice: FINDING_ADVICE['empty-slices'],
+    verdict: `${describeVolumes(slices, 'slice')} empty (all zeros): left out of the mask and every measure`,
+    consequence: `${slices.length} of ${nz} slices carry no data`,
+  };
 }

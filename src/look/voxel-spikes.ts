@@ -14,6 +14,24 @@ export interface VoxelSpike {
   /** Departure from the voxel's drift-fitted median, signal units, and as % of the voxel mean. */
   size: number;
   sizePercent: number;
+  /** The voxel's mean over the kept volumes, signal units. */
+  meanSignal: number;
+  /**
+   * 'own' when z is against the voxel's own spread; 'absolute' when the voxel's mean lies below the
+   * low-baseline level (edges, vessels, outside the brain): z is then against the larger of its own
+   * spread and the floor, and sizePercent is in % of the reference (brain) mean, not of its own.
+   */
+  scale: 'own' | 'absolute';
+}
+
+/** Judging low-baseline voxels on an absolute scale (see {@link VoxelSpike.scale}). */
+export interface AbsoluteScale {
+  /** Voxels whose mean is below this (signal units) are judged on the absolute scale. */
+  belowMean: number;
+  /** Smallest spread (robust SD, signal units) such a voxel is judged against: the typical brain voxel's. */
+  floorScale: number;
+  /** Mean the size is expressed against for such voxels (signal units): the typical brain voxel's. */
+  referenceMean: number;
 }
 
 /**
@@ -24,12 +42,14 @@ export interface VoxelSpike {
  * @param run - the run (not modified)
  * @param candidates - voxel indices to examine
  * @param options - firstVolume (default 0), detrendOrder (default 2), cutoffZ (default 6), censorVolumes
- *   (volumes already flagged as a whole: left out, as in voxelTimeStats)
+ *   (volumes already flagged as a whole: left out, as in voxelTimeStats), absolute (judge voxels of
+ *   near-zero baseline against the brain's noise and signal instead of their own; a percent of a
+ *   near-zero mean means nothing, and a spread of a few quantisation steps makes any change a spike)
  * @returns spikes, strongest first
  * @throws BoldsweepError TOO_FEW_VOLUMES when fewer than 5 volumes remain
  * @example voxelSpikes(run.volume, [1234, 5678], { firstVolume: 3 })
  */
-export function voxelSpikes(run: Volume, candidates: ArrayLike<number>, options: { firstVolume?: number; detrendOrder?: number; cutoffZ?: number; censorVolumes?: readonly number[] } = {}): VoxelSpike[] {
+export function voxelSpikes(run: Volume, candidates: ArrayLike<number>, options: { firstVolume?: number; detrendOrder?: number; cutoffZ?: number; censorVolumes?: readonly number[]; absolute?: AbsoluteScale } = {}): VoxelSpike[] {
   const [nx, ny, , nt] = run.dims;
   const n = voxelsPerVolume(run);
   const first = options.firstVolume ?? 0;
@@ -55,13 +75,18 @@ export function voxelSpikes(run: Volume, candidates: ArrayLike<number>, options:
     for (let t = 0; t < T; t++) sum += series[t];
     if (!Number.isFinite(sum)) continue;
     detrendSeries(series, basis, resid);
-    const { z, median } = robustZ(resid, zs);
+    const { z, median, scale } = robustZ(resid, zs);
     const mean = sum / T;
+    const abs = options.absolute !== undefined && mean < options.absolute.belowMean;
+    // on the absolute scale z shrinks by own spread / max(own spread, floor)
+    const shrink = abs && scale < options.absolute!.floorScale ? scale / options.absolute!.floorScale : 1;
     for (let t = 0; t < T; t++) {
-      if (!(Math.abs(z[t]) > cutoffZ)) continue;
+      const zt = z[t] * shrink;
+      if (!(Math.abs(zt) > cutoffZ)) continue;
       const k = Math.floor(v / (nx * ny)), j = Math.floor((v - k * nx * ny) / nx), i = v - k * nx * ny - j * nx;
       const size = resid[t] - median;
-      spikes.push({ voxel: v, ijk: [i, j, k], volume: kept[t], z: z[t], size, sizePercent: mean !== 0 ? (100 * size) / Math.abs(mean) : NaN });
+      const ref = abs ? options.absolute!.referenceMean : Math.abs(mean);
+      spikes.push({ voxel: v, ijk: [i, j, k], volume: kept[t], z: zt, size, sizePercent: ref !== 0 ? (100 * size) / ref : NaN, meanSignal: mean, scale: abs ? 'absolute' : 'own' });
     }
   }
   return spikes.sort((a, b) => Math.abs(b.z) - Math.abs(a.z));

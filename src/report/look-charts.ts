@@ -3,6 +3,7 @@ import type { Volume } from '../core/volume.js';
 import { voxelsPerVolume } from '../core/volume.js';
 import type { LookResult } from '../look/look-at-run.js';
 import { mapHex } from './colour-map.js';
+import { FIGURE_FONT } from './figure-svg.js';
 
 /** Colours shared by the look charts, taken from our published maps so charts match the images. */
 export const LOOK_COLOURS = {
@@ -40,17 +41,18 @@ export function traceChartSpec(values: ArrayLike<number>, look: Pick<LookResult,
   const width = options.width ?? 640, height = options.height ?? 80, left = options.paddingLeft ?? 80;
   const rows = Array.from({ length: nt }, (_, t) => ({ volume: t, value: Number.isFinite(values[t]) ? values[t] : null }));
   const drop = look.recommendation.dropInitialVolumes;
-  const x = { field: 'volume', type: 'quantitative' as const, title: `volume (TR ${look.trSec} s)`, scale: { domain: [-0.5, nt - 0.5], nice: false, zero: false } };
+  const x = { field: 'volume', type: 'quantitative' as const, ...volumeAxis(look.trSec), scale: { domain: [-0.5, nt - 0.5], nice: false, zero: false } };
   return {
     $schema: 'https://vega.github.io/schema/vega-lite/v5.json',
+    config: { font: FIGURE_FONT },
     title: { text: title, anchor: 'start', fontSize: 12 },
     width, height, autosize: { type: 'none' }, padding: { left, right: 20, top: 34, bottom: 34 },
     layer: [
-      ...(drop > 0 ? [{ data: { values: [{ from: -0.5, to: drop - 0.5 }] }, mark: { type: 'rect' as const, color: LOOK_COLOURS.dropped, opacity: 0.5 }, encoding: { x: { ...x, field: 'from' }, x2: { field: 'to' } } }] : []),
+      ...(drop > 0 ? [{ data: { values: [{ from: -0.5, to: drop - 0.5 }] }, mark: { type: 'rect' as const, color: LOOK_COLOURS.dropped, opacity: 0.5 }, encoding: { x: { ...x, field: 'from'}, x2: { field: 'to' } } }] : []),
       ...(look.recommendation.censorVolumes.length ? [{ data: { values: look.recommendation.censorVolumes.map((v) => ({ volume: v })) }, mark: { type: 'rule' as const, color: LOOK_COLOURS.censored, strokeWidth: 1.5 }, encoding: { x } }] : []),
       { data: { values: rows }, mark: { type: 'line' as const, color: LOOK_COLOURS.trace, strokeWidth: 1 }, encoding: { x, y: { field: 'value', type: 'quantitative' as const, title: yTitle, scale: { zero: false } } } },
     ],
-  } as TopLevelSpec;
+  } as unknown as TopLevelSpec;
 }
 
 /**
@@ -65,11 +67,12 @@ export function lookTracesSpec(look: LookResult, options: { width?: number } = {
   const width = options.width ?? 640;
   const part = (values: ArrayLike<number>, title: string, yTitle: string) => {
     const s = traceChartSpec(values, look, title, yTitle, { width }) as unknown as Record<string, unknown>;
-    const { $schema: _s, autosize: _a, padding: _p, ...rest } = s;
+    const { $schema: _s, autosize: _a, padding: _p, config: _c, ...rest } = s;
     return rest;
   };
   return {
     $schema: 'https://vega.github.io/schema/vega-lite/v5.json',
+    config: { font: FIGURE_FONT },
     title: { text: 'Per-volume traces in the brain mask (grey: dropped start; marks: volumes to censor)', anchor: 'start' },
     vconcat: [
       part(look.series.globalMean, 'Global mean signal', 'signal units'),
@@ -81,7 +84,8 @@ export function lookTracesSpec(look: LookResult, options: { width?: number } = {
 
 /**
  * Time courses of chosen voxels as a vega-lite line chart, in % signal change from each voxel's
- * mean over the kept volumes, x in seconds, censored volumes marked and dropped ones shaded.
+ * mean over the kept volumes, x in volumes with seconds on a second axis above (like every per-volume
+ * figure), censored volumes marked and dropped ones shaded; the legend sits below, never cut off.
  * @param run - the run
  * @param look - its look
  * @param voxels - voxels as (i, j, k) with a label each
@@ -92,9 +96,8 @@ export function lookTracesSpec(look: LookResult, options: { width?: number } = {
 export function voxelTimeCourseSpec(run: Volume, look: Pick<LookResult, 'recommendation' | 'trSec'>, voxels: Array<{ ijk: [number, number, number]; label: string }>, options: { width?: number; height?: number } = {}): TopLevelSpec {
   const [nx, ny, , nt] = run.dims;
   const n = voxelsPerVolume(run);
-  const tr = look.trSec > 0 ? look.trSec : 1;
   const drop = look.recommendation.dropInitialVolumes;
-  const rows: Array<{ timeSec: number; percent: number | null; voxel: string }> = [];
+  const rows: Array<{ volume: number; percent: number | null; voxel: string }> = [];
   for (const { ijk, label } of voxels) {
     const v = ijk[0] + nx * (ijk[1] + ny * ijk[2]);
     let s = 0;
@@ -103,24 +106,37 @@ export function voxelTimeCourseSpec(run: Volume, look: Pick<LookResult, 'recomme
     const name = `${label} (${ijk.join(', ')})`;
     for (let t = 0; t < nt; t++) {
       const y = run.data[t * n + v];
-      rows.push({ timeSec: t * tr, percent: m !== 0 && Number.isFinite(y) ? (100 * (y - m)) / Math.abs(m) : null, voxel: name });
+      rows.push({ volume: t, percent: m !== 0 && Number.isFinite(y) ? (100 * (y - m)) / Math.abs(m) : null, voxel: name });
     }
   }
-  const x = { field: 'timeSec', type: 'quantitative' as const, title: look.trSec > 0 ? 'time (s)' : 'volume', scale: { nice: false, zero: false } };
+  const x = { field: 'volume', type: 'quantitative' as const, ...volumeAxis(look.trSec), scale: { domain: [-0.5, nt - 0.5], nice: false, zero: false } };
   return {
     $schema: 'https://vega.github.io/schema/vega-lite/v5.json',
+    config: { font: FIGURE_FONT },
     title: { text: 'Voxel time courses: % signal change from each voxel\'s mean (grey: dropped start; marks: volumes to censor)', anchor: 'start' },
     width: options.width ?? 640, height: options.height ?? 220,
     layer: [
-      ...(drop > 0 ? [{ data: { values: [{ from: 0, to: (drop - 0.5) * tr }] }, mark: { type: 'rect' as const, color: LOOK_COLOURS.dropped, opacity: 0.5 }, encoding: { x: { ...x, field: 'from' }, x2: { field: 'to' } } }] : []),
-      ...(look.recommendation.censorVolumes.length ? [{ data: { values: look.recommendation.censorVolumes.map((t) => ({ timeSec: t * tr })) }, mark: { type: 'rule' as const, color: LOOK_COLOURS.censored, strokeDash: [3, 2] }, encoding: { x } }] : []),
+      ...(drop > 0 ? [{ data: { values: [{ from: -0.5, to: drop - 0.5 }] }, mark: { type: 'rect' as const, color: LOOK_COLOURS.dropped, opacity: 0.5 }, encoding: { x: { ...x, field: 'from'}, x2: { field: 'to' } } }] : []),
+      ...(look.recommendation.censorVolumes.length ? [{ data: { values: look.recommendation.censorVolumes.map((t) => ({ volume: t })) }, mark: { type: 'rule' as const, color: LOOK_COLOURS.censored, strokeDash: [3, 2] }, encoding: { x } }] : []),
       {
         data: { values: rows }, mark: { type: 'line' as const, strokeWidth: 1 },
         encoding: {
           x, y: { field: 'percent', type: 'quantitative' as const, title: '% signal change' },
-          color: { field: 'voxel', type: 'nominal' as const, title: 'voxel (i, j, k)', scale: { range: [mapHex('viridis', 0.1), mapHex('magma', 0.6), mapHex('viridis', 0.6), mapHex('cividis', 0.9)] } },
+          color: { field: 'voxel', type: 'nominal' as const, title: 'voxel (i, j, k)', legend: { orient: 'bottom', direction: 'vertical', labelLimit: 0 }, scale: { range: [mapHex('viridis', 0.1), mapHex('magma', 0.6), mapHex('viridis', 0.6), mapHex('cividis', 0.9)] } },
         },
       },
     ],
-  } as TopLevelSpec;
+  } as unknown as TopLevelSpec;
+}
+
+/**
+ * The time axis of every per-volume chart: volumes, with each label's time in seconds on a second line
+ * under it (volume t at t x TR), so all per-volume figures share one axis.
+ * @param trSec - repetition time (seconds line left out when unknown)
+ * @returns the x encoding's title and axis
+ * @example x: { field: 'volume', type: 'quantitative', ...volumeAxis(2) }
+ */
+export function volumeAxis(trSec: number): { title: string; axis: Record<string, unknown> } {
+  if (!(trSec > 0)) return { title: 'volume', axis: { format: 'd' } };
+  return { title: `volume (time in s under each, TR ${trSec} s)`, axis: { labelExpr: `[format(datum.value, 'd'), format(datum.value * ${trSec}, 'd') + ' s']`, labelLineHeight: 12 } };
 }

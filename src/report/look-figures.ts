@@ -1,12 +1,11 @@
 import type { Volume } from '../core/volume.js';
-import { volumeLike, voxelsPerVolume } from '../core/volume.js';
 import type { LookResult } from '../look/look-at-run.js';
 import { maskRings } from '../look/mask-rings.js';
 import { voxelRasterRows } from '../look/voxel-raster-rows.js';
 import { lookTracesSpec, voxelTimeCourseSpec } from './look-charts.js';
 import { renderSvg } from './render-svg.js';
-import { sliceGridPng } from './slice-grid-png.js';
-import { threePlanePng } from './three-plane-png.js';
+import { sliceGridSvg } from './slice-grid-svg.js';
+import { threePlaneSvg } from './three-plane-svg.js';
 import { voxelRasterSvg } from './voxel-raster-figure.js';
 
 /** One figure of a look, ready to write or display. */
@@ -31,8 +30,8 @@ export function chosenVoxels(look: LookResult): Array<{ ijk: [number, number, nu
   const [nx, ny, nz] = look.dims;
   const out: Array<{ ijk: [number, number, number]; label: string }> = [];
   for (const f of look.findings) {
-    if (f.kind !== 'voxel-spike' || out.length >= 2) continue;
-    out.push({ ijk: f.voxels[0], label: `spike, volume ${f.volumes[0]}` });
+    if ((f.kind !== 'voxel-spike' && f.kind !== 'unstable-voxel') || out.length >= 2) continue;
+    out.push({ ijk: f.voxels[0], label: f.kind === 'unstable-voxel' ? `unstable, ${f.volumes.length} volumes` : `spike, volume ${f.volumes[0]}` });
   }
   const centre = maskCentre(look);
   out.push({ ijk: centre, label: 'mask centre' });
@@ -48,7 +47,7 @@ export function chosenVoxels(look: LookResult): Array<{ ijk: [number, number, nu
  * The voxel nearest the mask's centre of mass that lies in the mask.
  * @param look - the look
  * @returns (i, j, k)
- * @example threePlanePng(look.maps.tsnr, maskCentre(look), { ... })
+ * @example threePlaneSvg(look.maps.tsnr, maskCentre(look), { title: 'tSNR', unit: 'tSNR, dimensionless' })
  */
 export function maskCentre(look: Pick<LookResult, 'dims' | 'mask'>): [number, number, number] {
   const [nx, ny] = look.dims;
@@ -71,8 +70,9 @@ export function maskCentre(look: Pick<LookResult, 'dims' | 'mask'>): [number, nu
 }
 
 /**
- * Every figure of a look: mean and tSNR through the mask centre (three planes), axial grids of the
- * masked mean, tSNR and SD, the voxel raster under the traces, the traces alone, and voxel time
+ * Every figure of a look (SVG, text set as vector text): the mask outlined on the mean image and the
+ * masked tSNR through the mask centre (three planes), axial grids of the mask on the mean image and of
+ * the masked tSNR and SD (outside the mask drawn as background, the outline in every map), the voxel raster under the traces, the traces alone, and voxel time
  * courses. Titles say what each shows; every image has its unit and L/R marked.
  * @param run - the run that was looked at
  * @param look - its look
@@ -83,18 +83,17 @@ export async function lookFigures(run: Volume, look: LookResult): Promise<LookFi
   const centre = maskCentre(look);
   const mask = look.mask.mask;
   const kept = `volumes ${look.recommendation.dropInitialVolumes}-${look.dims[3] - 1}`;
-  const tsnrTitle = `tSNR: mean / SD over ${kept}, order-${look.settings.detrendOrder} drift removed`;
-  const maskedMean = new Float32Array(voxelsPerVolume(run));
-  for (let v = 0; v < maskedMean.length; v++) maskedMean[v] = mask[v] ? look.maps.mean.data[v] : 0;
+  const drift = `order-${look.settings.detrendOrder} drift removed`;
+  const maskWords = look.mask.source === 'otsu' ? 'automatic brain mask' : 'your brain mask';
   const figures: LookFigure[] = [
-    { file: 'mean-planes.png', title: `Mean signal over ${kept}`, kind: 'png', data: threePlanePng(look.maps.mean, centre, { title: `Mean signal over ${kept}`, unit: 'SIGNAL UNITS', colourMap: 'grey' }) },
-    { file: 'tsnr-planes.png', title: tsnrTitle, kind: 'png', data: threePlanePng(look.maps.tsnr, centre, { title: 'tSNR (mean / SD over time)', unit: 'TSNR, DIMENSIONLESS', colourMap: 'viridis', mask }) },
-    { file: 'mask-grid.png', title: `Brain mask (${look.mask.source === 'otsu' ? 'Otsu threshold + morphology' : 'user mask'}): mean signal inside it`, kind: 'png', data: sliceGridPng(volumeLike(run, 1, maskedMean), { title: `Brain mask: ${look.mask.voxels} voxels`, unit: 'MEAN SIGNAL INSIDE THE MASK, SIGNAL UNITS', colourMap: 'grey' }) },
-    { file: 'tsnr-grid.png', title: tsnrTitle, kind: 'png', data: sliceGridPng(look.maps.tsnr, { title: 'tSNR, axial slices', unit: 'TSNR, DIMENSIONLESS', colourMap: 'viridis', mask }) },
-    { file: 'sd-grid.png', title: `Temporal SD over ${kept}, drift removed`, kind: 'png', data: sliceGridPng(look.maps.sd, { title: 'Temporal SD, axial slices', unit: 'SD, SIGNAL UNITS', colourMap: 'magma', mask }) },
+    { file: 'mask-planes.svg', title: `Brain mask (${look.mask.voxels} voxels) outlined on the mean image`, kind: 'svg', data: threePlaneSvg(look.maps.mean, centre, { title: `Brain mask outlined on the mean signal over ${kept}`, unit: 'mean signal, scanner units', colourMap: 'grey', mask, outside: 'show' }) },
+    { file: 'tsnr-planes.svg', title: `tSNR: mean / SD over ${kept}, ${drift}`, kind: 'svg', data: threePlaneSvg(look.maps.tsnr, centre, { title: `tSNR inside the ${maskWords} (mean / SD over ${kept})`, unit: 'tSNR (mean / temporal SD), dimensionless', colourMap: 'viridis', mask }) },
+    { file: 'mask-grid.svg', title: `Brain mask outlined on the mean image, axial slices`, kind: 'svg', data: sliceGridSvg(look.maps.mean, { title: `Brain mask (${look.mask.voxels} voxels) on the mean signal, axial slices`, unit: 'mean signal, scanner units', colourMap: 'grey', mask, outside: 'show' }) },
+    { file: 'tsnr-grid.svg', title: `tSNR, axial slices (${drift})`, kind: 'svg', data: sliceGridSvg(look.maps.tsnr, { title: `tSNR inside the ${maskWords}, axial slices`, unit: 'tSNR (mean / temporal SD), dimensionless', colourMap: 'viridis', mask }) },
+    { file: 'sd-grid.svg', title: `Temporal SD over ${kept}, ${drift}`, kind: 'svg', data: sliceGridSvg(look.maps.sd, { title: `Temporal SD inside the ${maskWords}, axial slices`, unit: 'temporal SD, scanner units', colourMap: 'magma', mask }) },
   ];
   const rows = voxelRasterRows(run, mask, { firstVolume: look.recommendation.dropInitialVolumes });
-  figures.push({ file: 'voxel-raster.svg', title: 'Voxel raster under the global mean and standardised DVARS', kind: 'svg', data: await voxelRasterSvg(look, rows) });
+  figures.push({ file: 'voxel-raster.svg', title: 'Voxel raster: every sampled voxel by depth below the mask surface, per-volume measures fused on top', kind: 'svg', data: await voxelRasterSvg(look, rows) });
   figures.push({ file: 'traces.svg', title: 'Per-volume traces: global mean, standardised DVARS, DVARS %', kind: 'svg', data: await renderSvg(lookTracesSpec(look)) });
   figures.push({ file: 'voxel-time-courses.svg', title: 'Time courses of chosen voxels', kind: 'svg', data: await renderSvg(voxelTimeCourseSpec(run, look, chosenVoxels(look))) });
   return figures;

@@ -1,22 +1,22 @@
 import type { LookResult } from '../look/look-at-run.js';
 import type { VoxelRasterRows } from '../look/voxel-raster-rows.js';
 import { colourTable } from './colour-map.js';
-import { colourBar } from './plane-panel.js';
-import { renderSvg } from './render-svg.js';
-import { createRgbImage, encodeRgbPng } from './rgb-image.js';
-import { LOOK_COLOURS, traceChartSpec } from './look-charts.js';
+import { svgColourBar, svgDocument, svgImage, svgText } from './figure-svg.js';
+import { formatValue } from './plane-panel.js';
+import { createRgbImage, encodeRgbPng, type RgbImage } from './rgb-image.js';
+import { LOOK_COLOURS } from './look-charts.js';
 
 /** z-score shown at the ends of the raster colour map. */
 export const RASTER_Z_LIMIT = 3;
 
 /**
- * The voxel raster as a PNG: one row per voxel, one column per volume, colour = the row's z-score
+ * The voxel raster as an image: one row per voxel, one column per volume, colour = the row's z-score
  * on the diverging map clipped at +-3 (one pixel per cell; scale it when showing it).
  * @param rows - from voxelRasterRows
- * @returns PNG bytes, rows.nt pixels wide and rows.rows tall
- * @example writeFileSync('raster.png', voxelRasterPng(voxelRasterRows(run.volume, look.mask.mask)))
+ * @returns the image, rows.nt pixels wide and rows.rows tall
+ * @example encodeRgbPng(voxelRasterImage(voxelRasterRows(run.volume, look.mask.mask)))
  */
-export function voxelRasterPng(rows: VoxelRasterRows): Uint8Array {
+export function voxelRasterImage(rows: VoxelRasterRows): RgbImage {
   const img = createRgbImage(rows.nt, rows.rows, [0, 0, 0]);
   const table = colourTable('diverging');
   for (let r = 0; r < rows.rows; r++) for (let t = 0; t < rows.nt; t++) {
@@ -25,51 +25,99 @@ export function voxelRasterPng(rows: VoxelRasterRows): Uint8Array {
     const o = 3 * (r * rows.nt + t);
     img.data[o] = table[3 * i]; img.data[o + 1] = table[3 * i + 1]; img.data[o + 2] = table[3 * i + 2];
   }
-  return encodeRgbPng(img);
+  return img;
 }
 
 /**
- * The voxel raster figure as one SVG: the global mean and standardised DVARS traces (vega-lite) on
- * top, the raster below on the same volume axis, row groups labelled on the left, censored volumes
- * marked over the raster, dropped volumes shaded, and a colour bar for the z-scores.
+ * The voxel raster as PNG bytes (see {@link voxelRasterImage}).
+ * @param rows - from voxelRasterRows
+ * @returns PNG bytes
+ * @example writeFileSync('raster.png', voxelRasterPng(rows))
+ */
+export function voxelRasterPng(rows: VoxelRasterRows): Uint8Array {
+  return encodeRgbPng(voxelRasterImage(rows));
+}
+
+/**
+ * The voxel raster figure as one SVG, our own layout: every sampled voxel's time course (rows, z-scored
+ * per row) ordered by depth below the mask surface, with a millimetre depth axis on the left (the band
+ * outside the mask at the top, above the 0 mm line); fused to the raster's top edge, two thin strips
+ * on the same volume columns: standardised DVARS (1 = the null level) and the global mean. Dropped
+ * volumes are shaded, volumes to censor ticked across the strips; the time axis is in volumes with
+ * seconds as a second label row. All text is vector text.
  * @param look - the look
  * @param rows - raster rows from voxelRasterRows
- * @param options - width of the plot area in pixels (default 640), rasterHeight (default 360)
+ * @param options - width of the raster in pixels (default 640), rasterHeight (default 380)
  * @returns SVG markup
  * @example tslab.display.html(await voxelRasterSvg(look, voxelRasterRows(run.volume, look.mask.mask)))
  */
 export async function voxelRasterSvg(look: LookResult, rows: VoxelRasterRows, options: { width?: number; rasterHeight?: number } = {}): Promise<string> {
-  const width = options.width ?? 640, left = 80, rasterH = options.rasterHeight ?? 360;
-  const charts = await Promise.all([
-    renderSvg(traceChartSpec(look.series.globalMean, look, 'Global mean signal in the mask', 'signal units', { width, paddingLeft: left })),
-    renderSvg(traceChartSpec(look.series.dvarsStandardised, look, 'Standardised DVARS', 'DVARS / null', { width, paddingLeft: left })),
-  ]);
-  const heights = charts.map((s) => Number(/height="([\d.]+)"/.exec(s)?.[1] ?? 140));
-  const totalW = width + left + 20;
-  let y = 30;
-  const parts: string[] = [];
-  parts.push(`<text x="8" y="18" font-family="sans-serif" font-size="14" font-weight="bold">Voxel raster: ${rows.rows} voxel time courses (rows, z-scored per row) under the per-volume traces</text>`);
-  for (let i = 0; i < charts.length; i++) {
-    parts.push(charts[i].replace(/^<svg /, `<svg x="0" y="${y}" `));
-    y += heights[i];
-  }
-  const rasterTop = y + 4;
-  const png = Buffer.from(voxelRasterPng(rows)).toString('base64');
-  parts.push(`<image x="${left}" y="${rasterTop}" width="${width}" height="${rasterH}" preserveAspectRatio="none" style="image-rendering:pixelated" href="data:image/png;base64,${png}"/>`);
-  const colW = width / rows.nt;
+  const W = options.width ?? 640, H = options.rasterHeight ?? 380;
+  const left = 96, top = 44, stripH = 34;
+  const nt = rows.nt, colW = W / nt;
+  const xOf = (t: number) => left + (t + 0.5) * colW;
+  const parts: string[] = [
+    svgText(12, 18, `Voxel raster: ${rows.rows} voxel time courses by depth below the brain-mask surface`, { size: 15, weight: 'bold' }),
+    svgText(12, 34, 'rows z-scored each; thin strips above share the volume columns', { size: 11, fill: '#555' }),
+  ];
   const drop = look.recommendation.dropInitialVolumes;
-  if (drop > 0) parts.push(`<rect x="${left}" y="${rasterTop - 4}" width="${(drop * colW).toFixed(2)}" height="4" fill="${LOOK_COLOURS.dropped}"/>`);
+  const strips: Array<{ label: string; values: ArrayLike<number>; unit: string }> = [
+    { label: 'DVARS / null', values: look.series.dvarsStandardised, unit: '' },
+    { label: 'global mean', values: look.series.globalMean, unit: '' },
+  ];
+  let y = top;
+  for (const s of strips) {
+    const vals = Array.from(s.values).slice(drop).filter(Number.isFinite);
+    const lo = Math.min(...vals), hi = Math.max(...vals);
+    const span = hi > lo ? hi - lo : 1;
+    parts.push(`<rect x="${left}" y="${y}" width="${W}" height="${stripH}" fill="#f7f7f7"/>`);
+    if (drop > 0) parts.push(`<rect x="${left}" y="${y}" width="${(drop * colW).toFixed(1)}" height="${stripH}" fill="${LOOK_COLOURS.dropped}" fill-opacity="0.6"/>`);
+    const pts: string[] = [];
+    for (let t = drop; t < nt; t++) {
+      const v = s.values[t];
+      if (!Number.isFinite(v)) continue;
+      const yy = y + stripH - 3 - ((Math.min(Math.max(v, lo), hi) - lo) / span) * (stripH - 6);
+      pts.push(`${xOf(t).toFixed(1)},${yy.toFixed(1)}`);
+    }
+    parts.push(`<polyline points="${pts.join(' ')}" fill="none" stroke="${LOOK_COLOURS.trace}" stroke-width="1"/>`);
+    parts.push(svgText(left - 6, y + stripH / 2 + 1, s.label, { size: 10, anchor: 'end' }));
+    parts.push(svgText(left - 6, y + stripH / 2 + 12, `${formatValue(lo)}-${formatValue(hi)}`, { size: 9, anchor: 'end', fill: '#666' }));
+    y += stripH;
+  }
   for (const t of look.recommendation.censorVolumes) {
-    parts.push(`<rect x="${(left + t * colW).toFixed(2)}" y="${rasterTop - 4}" width="${Math.max(1, colW).toFixed(2)}" height="4" fill="${LOOK_COLOURS.censored}"/>`);
+    parts.push(`<rect x="${(left + t * colW).toFixed(1)}" y="${top}" width="${Math.max(1.5, colW).toFixed(1)}" height="${y - top}" fill="${LOOK_COLOURS.censored}" fill-opacity="0.55"/>`);
   }
-  for (const g of rows.groups) {
-    const gy = rasterTop + (g.start / rows.rows) * rasterH, gh = (g.count / rows.rows) * rasterH;
-    parts.push(`<line x1="${left - 4}" x2="${left + width}" y1="${gy.toFixed(1)}" y2="${gy.toFixed(1)}" stroke="white" stroke-width="1"/>`);
-    parts.push(`<text x="${left - 6}" y="${(gy + gh / 2 + 4).toFixed(1)}" text-anchor="end" font-family="sans-serif" font-size="10">${g.label}</text>`);
+  const rasterTop = y;
+  parts.push(svgImage(voxelRasterImage(rows), left, rasterTop, W, H));
+  // depth axis: ticks where the rows' depth crosses round millimetre values
+  const rowOf = (d: number) => { let r = 0; while (r < rows.rows && rows.depthMm[r] < d) r++; return r; };
+  const maxD = rows.rows ? rows.depthMm[rows.rows - 1] : 0, minD = rows.rows ? rows.depthMm[0] : 0;
+  const step = maxD > 40 ? 10 : 5;
+  const ticks = [0];
+  for (let d = step; d <= maxD; d += step) ticks.push(d);
+  for (let d = -5; d >= minD; d -= 5) ticks.push(d);
+  for (const d of ticks.sort((a, b) => a - b)) {
+    const r = rowOf(d);
+    if (r >= rows.rows) continue;
+    const ty = rasterTop + (r / rows.rows) * H;
+    parts.push(`<line x1="${left - 4}" x2="${left}" y1="${ty.toFixed(1)}" y2="${ty.toFixed(1)}" stroke="#333"/>`);
+    parts.push(svgText(left - 6, ty + 4, `${d} mm`, { size: 10, anchor: 'end' }));
+    if (d === 0) {
+      parts.push(`<line x1="${left}" x2="${left + W}" y1="${ty.toFixed(1)}" y2="${ty.toFixed(1)}" stroke="black" stroke-width="1" stroke-dasharray="4 3"/>`);
+      if (r > 0) parts.push(svgText(left + W + 4, rasterTop + (r / rows.rows) * H / 2 + 4, 'outside', { size: 9, fill: '#555' }));
+      parts.push(svgText(left + W + 4, ty + 12, 'inside', { size: 9, fill: '#555' }));
+    }
   }
-  parts.push(`<text x="${left}" y="${rasterTop + rasterH + 14}" font-family="sans-serif" font-size="10">volume (columns line up with the traces above); top bar: grey = dropped start, coloured = volumes to censor</text>`);
-  const bar = Buffer.from(encodeRgbPng(colourBar(220, { min: -RASTER_Z_LIMIT, max: RASTER_Z_LIMIT, colourMap: 'diverging' }, 'Z-SCORE PER ROW'))).toString('base64');
-  parts.push(`<image x="${left}" y="${rasterTop + rasterH + 22}" width="220" height="36" href="data:image/png;base64,${bar}"/>`);
-  const totalH = rasterTop + rasterH + 64;
-  return `<svg xmlns="http://www.w3.org/2000/svg" xmlns:xlink="http://www.w3.org/1999/xlink" width="${totalW}" height="${totalH}" viewBox="0 0 ${totalW} ${totalH}"><rect width="${totalW}" height="${totalH}" fill="white"/>${parts.join('')}</svg>`;
+  parts.push(`<text transform="translate(16 ${(rasterTop + H / 2).toFixed(1)}) rotate(-90)" text-anchor="middle" font-family="'DejaVu Sans', Helvetica, Arial, sans-serif" font-size="11">depth below the mask surface</text>`);
+  // time axis: volumes, seconds under them
+  const bottom = rasterTop + H;
+  const vStep = nt > 200 ? 50 : nt > 80 ? 20 : 10;
+  for (let t = 0; t < nt; t += vStep) {
+    parts.push(`<line x1="${xOf(t).toFixed(1)}" x2="${xOf(t).toFixed(1)}" y1="${bottom}" y2="${bottom + 4}" stroke="#333"/>`);
+    parts.push(svgText(xOf(t), bottom + 15, String(t), { size: 10, anchor: 'middle' }));
+    if (look.trSec > 0) parts.push(svgText(xOf(t), bottom + 27, `${Math.round(t * look.trSec)} s`, { size: 9, anchor: 'middle', fill: '#666' }));
+  }
+  parts.push(svgText(left + W / 2, bottom + 42, `volume${look.trSec > 0 ? ` (seconds below, TR ${look.trSec} s)` : ''}; grey: dropped start; coloured columns: volumes to censor`, { size: 11, anchor: 'middle' }));
+  parts.push(svgColourBar(left, bottom + 52, 220, { min: -RASTER_Z_LIMIT, max: RASTER_Z_LIMIT, colourMap: 'diverging' }, 'z-score within each row'));
+  return svgDocument(left + W + 48, bottom + 100, parts);
 }

@@ -10,6 +10,7 @@ import { hashFile } from '../io/hash-file.js';
 import { addOutputFiles, claimOutputFolder, settleOutputSet } from '../io/output-folder.js';
 import type { LookResult } from '../look/look-at-run.js';
 import { lookFigures } from './look-figures.js';
+import { lookPageHtml } from './look-page.js';
 
 /** The run a look was made from, as findings.json records it. */
 export interface LookSource {
@@ -39,7 +40,8 @@ export function lookSummaryJson(look: LookResult, source: LookSource | string): 
     trSec: look.trSec,
     indexing: 'volumes, slices and voxels are 0-based',
     settings: look.settings,
-    mask: { source: look.mask.source, voxels: look.mask.voxels, otsuThreshold: look.mask.threshold, steps: look.mask.steps },
+    mask: { source: look.mask.source, method: look.mask.method, voxels: look.mask.voxels, otsuThreshold: look.mask.threshold, steps: look.mask.steps },
+    skipped: look.skipped,
     summariesInMask: look.summaries,
     steadyState: { dataCount, cutoffZ: onset.cutoffZ, referenceVolumes: onset.reference, modelCount, model, perVoxel },
     dvarsNullExpectation: look.series.dvarsNullExpectation,
@@ -88,7 +90,8 @@ export interface WriteLookOptions {
  * empty, or one boldsweep wrote (its marker names the files it may replace); files boldsweep did
  * not write are never touched, and files an earlier look wrote but this one does not (figures after
  * `figures: false`) are retired. Contents: mean/sd/tsnr/mask maps as NIfTI (.nii.gz, float32), the
- * figures (PNG and SVG), findings.json and series.tsv.
+ * figures (SVG), findings.json, series.tsv and look.html (findings, numbers and figures on one
+ * self-contained page).
  * @param run - the run that was looked at
  * @param look - its look
  * @param outDir - destination folder
@@ -109,12 +112,13 @@ export async function writeLookFolder(run: Volume, look: LookResult, outDir: str
       await writeNifti(join(tmp, `${name}.nii.gz`), map, { datatype: 'float32', description: `boldsweep look: ${name}` });
       files.push(`${name}.nii.gz`);
     }
-    if (options.figures !== false) {
-      for (const fig of await lookFigures(run, look)) {
-        await writeFileAtomic(join(tmp, fig.file), fig.data);
-        files.push(fig.file);
-      }
+    const figures = options.figures !== false ? await lookFigures(run, look) : [];
+    for (const fig of figures) {
+      await writeFileAtomic(join(tmp, fig.file), fig.data);
+      files.push(fig.file);
     }
+    await writeFileAtomic(join(tmp, 'look.html'), lookPageHtml(look, figures, options.source ?? 'in memory'));
+    files.push('look.html');
     await writeFileAtomic(join(tmp, 'series.tsv'), lookSeriesTsv(look));
     const source = options.source ? { file: basename(options.source), sha256: sha } : { file: null, sha256: null };
     await writeFileAtomic(join(tmp, 'findings.json'), JSON.stringify(lookSummaryJson(look, source), null, 2) + '\n');

@@ -2,7 +2,8 @@
 // digital phantom
 export { simulatePhantomRun } from './simulate-phantom-run.js';
 export { writePhantomRun, type PhantomRunFiles } from './write-phantom-run.js';
-export { defaultPhantomSpec, demoPhantomSpec, resolvePhantomSpec } from './phantom-spec.js';
+export { defaultPhantomSpec, demoPhantomSpec, resolvePhantomSpec, defaultPhantomEyes, defaultLowBaselineVoxels } from './phantom-spec.js';
+export { eyeFraction } from './eye-fraction.js';
 export type {
   PhantomSpec, PhantomSpecInput, PhantomAcquisition, PhantomActivation, PhantomPhysio, PhantomDrift, PhantomSmoothNoise,
   PhantomB0, PhantomSpikeSpec, PhantomDropoutSpec,

@@ -89,6 +89,47 @@ export interface PhantomDropoutSpec {
 }
 
 /**
+ * Two eyes in front of the brain, joined to it by optic nerves: fluid-filled globes that are bright
+ * in EPI, as in a real field of view that reaches below the frontal lobe.
+ */
+export interface PhantomEyes {
+  /** Centres of the two globes, world mm. __Default value:__ (-30, 62, -36) and (30, 62, -36) */
+  centresMm: [Vec3, Vec3];
+  /** Radius of each globe, mm. __Default value:__ 11 */
+  radiusMm: number;
+  /** Radius of each optic nerve with its fluid sheath and the tissue of the orbit's apex, a straight rod from the globe towards the brain's centre, mm. __Default value:__ 4.5 */
+  nerveRadiusMm: number;
+  /** Steady signal of the globe, as a fraction of pure grey matter's. __Default value:__ 1.3 */
+  signalFraction: number;
+}
+
+/**
+ * Voxels just inside the brain's surface whose signal sits near the noise floor (a vessel or a signal
+ * void at the edge) and changes at a few volumes by about their whole baseline: what a real run shows
+ * at the brain's edge, where a look must not list percent changes of a near-zero mean.
+ */
+export interface PhantomLowBaselineVoxels {
+  /** How many voxels. __Default value:__ 3 */
+  count: number;
+  /** Their mean signal, signal units. __Default value:__ 25 */
+  baselineSignal: number;
+  /** Their own noise SD, signal units (small: a few quantisation steps). __Default value:__ 1.5 */
+  noiseSd: number;
+  /** Volumes at which each voxel falls to about zero. __Default value:__ 6 */
+  excursionsPerVoxel: number;
+}
+
+/** Defaults of {@link PhantomEyes}. */
+export function defaultPhantomEyes(): PhantomEyes {
+  return { centresMm: [[-30, 62, -36], [30, 62, -36]], radiusMm: 11, nerveRadiusMm: 4.5, signalFraction: 1.3 };
+}
+
+/** Defaults of {@link PhantomLowBaselineVoxels}. */
+export function defaultLowBaselineVoxels(): PhantomLowBaselineVoxels {
+  return { count: 3, baselineSignal: 25, noiseSd: 1.5, excursionsPerVoxel: 6 };
+}
+
+/**
  * Everything that defines a simulated run of the digital phantom. Same spec and seed -> the same
  * run, to the byte. Components set to `null` (or empty lists) are left out.
  */
@@ -129,7 +170,14 @@ export interface PhantomSpec {
   spikes: PhantomSpikeSpec[];
   /** __Default value:__ [] */
   dropouts: PhantomDropoutSpec[];
+  /** Eyes and optic nerves (left out when absent; {@link defaultPhantomEyes} gives a real-looking pair). */
+  eyes?: PhantomEyes;
+  /** Near-zero-baseline edge voxels (left out when absent; {@link defaultLowBaselineVoxels}; positions and volumes from their own seeded stream). */
+  lowBaselineVoxels?: PhantomLowBaselineVoxels;
 }
+
+/** Spec fields that are absent unless set (so specs and truth files without them keep their bytes). */
+const OPTIONAL_FIELDS = ['eyes', 'lowBaselineVoxels'];
 
 /** A spec with any part left out (nested groups may be given in part too). */
 export type PhantomSpecInput = {
@@ -216,7 +264,7 @@ export function resolvePhantomSpec(input: PhantomSpecInput = {}): PhantomSpec {
   const out: Record<string, unknown> = { ...d };
   for (const [key, value] of Object.entries(input)) {
     if (value === undefined) continue;
-    if (!(key in d)) fail('INVALID_ARGUMENT', `phantom spec has no field '${key}' (fields: ${Object.keys(d).join(', ')})`);
+    if (!(key in d) && !OPTIONAL_FIELDS.includes(key)) fail('INVALID_ARGUMENT', `phantom spec has no field '${key}' (fields: ${Object.keys(d).join(', ')})`);
     const base = d[key];
     if (value !== null && typeof value === 'object' && !Array.isArray(value) && base !== null && typeof base === 'object' && !Array.isArray(base)) {
       out[key] = { ...(base as object), ...structuredClone(value as object) };
@@ -256,6 +304,16 @@ function checkPhantomSpec(s: PhantomSpec): void {
   s.spikes.forEach((sp, i) => {
     if (!Number.isInteger(sp.volume) || sp.volume < 0 || sp.volume >= s.nVolumes || !Number.isFinite(sp.amplitude)) bad(`spikes[${i}]`, `needs volume in 0..${s.nVolumes - 1} and a finite amplitude`, sp);
   });
+  if (s.eyes) {
+    const e = s.eyes;
+    if (!Array.isArray(e.centresMm) || e.centresMm.length !== 2 || e.centresMm.some((c) => !Array.isArray(c) || c.length !== 3 || c.some((x) => !Number.isFinite(x)))) bad('eyes.centresMm', 'must be two [x, y, z] points in mm', e.centresMm);
+    if (!(e.radiusMm > 0) || !(e.nerveRadiusMm >= 0) || !(e.signalFraction >= 0)) bad('eyes', 'needs radiusMm > 0, nerveRadiusMm >= 0 and signalFraction >= 0', e);
+  }
+  if (s.lowBaselineVoxels) {
+    const l = s.lowBaselineVoxels;
+    if (!Number.isInteger(l.count) || l.count < 0 || !Number.isInteger(l.excursionsPerVoxel) || l.excursionsPerVoxel < 0 || l.excursionsPerVoxel > s.nVolumes) bad('lowBaselineVoxels', 'needs integer count >= 0 and excursionsPerVoxel in 0..nVolumes', l);
+    if (!(l.baselineSignal >= 0) || !(l.noiseSd >= 0)) bad('lowBaselineVoxels', 'needs baselineSignal >= 0 and noiseSd >= 0', l);
+  }
   s.dropouts.forEach((dr, i) => {
     if (!Number.isInteger(dr.volume) || dr.volume < 0 || dr.volume >= s.nVolumes || !Number.isInteger(dr.slice) || dr.slice < 0 || dr.slice >= s.dims[2] || !(dr.keptFraction >= 0 && dr.keptFraction <= 1)) {
       bad(`dropouts[${i}]`, `needs volume in 0..${s.nVolumes - 1}, slice in 0..${s.dims[2] - 1} and keptFraction in [0, 1]`, dr);

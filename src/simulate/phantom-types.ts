@@ -49,6 +49,10 @@ export interface PhantomTruth {
   rotationCentreMm: Vec3;
   spikes: PhantomSpike[];
   dropouts: Array<{ volume: number; slice: number; keptFraction: number }>;
+  /** The near-zero-baseline edge voxels and the volumes at which each falls to zero (when the spec has them). */
+  lowBaselineVoxels?: Array<{ voxel: [number, number, number]; volumes: number[] }>;
+  /** Fraction of each voxel in the eyes and optic nerves, head frame (when the spec has eyes). */
+  eyeFraction?: Volume;
   /**
    * Steady state by the 1 % rule: `firstSteadyVolume` (1-based) is the first volume within 1 % of
    * steady state in every tissue present, so `nonSteadyVolumeCount` = firstSteadyVolume - 1 volumes

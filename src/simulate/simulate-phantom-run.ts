@@ -24,6 +24,7 @@ import { steadyStateModelCount } from '../look/steady-state-model.js';
 import { trilinearResample } from '../resample/trilinear-resample.js';
 import { blockDesignEvents } from './block-design-events.js';
 import { blockResponseAt } from './block-response-at.js';
+import { eyeFraction } from './eye-fraction.js';
 import { headAnatomy } from './head-anatomy.js';
 import { intravoxelDephasing } from './intravoxel-dephasing.js';
 import { resolvePhantomSpec, type PhantomSpecInput } from './phantom-spec.js';
@@ -127,6 +128,10 @@ export function simulatePhantomRun(input: PhantomSpecInput = {}): PhantomRun {
   const labels = crop(anatomy.labels, new Uint8Array(nVox));
   const brainVoxels: number[] = [];
   labels.forEach((l, p) => { if (l === TISSUE_LABEL['grey-matter'] || l === TISSUE_LABEL['white-matter']) brainVoxels.push(p); });
+  // optional parts of a real-looking run; each has its own stream, so the others stay unchanged
+  const eyes = spec.eyes ? eyeFraction(pDims, pAffine, spec.eyes, spec.anatomy.geometry.brain, spec.anatomy.supersample) : null;
+  const lowBaseline = spec.lowBaselineVoxels ? pickLowBaselineVoxels(labels, spec.dims, spec.lowBaselineVoxels.count, spec.lowBaselineVoxels.excursionsPerVoxel, nt, createRng(childSeed(spec.seed, 'low-baseline'))) : [];
+  const lowBaselineRng = createRng(childSeed(spec.seed, 'low-baseline-noise'));
   const spikes: PhantomSpike[] = spec.spikes.map((s) => {
     const p = brainVoxels[spikeRng.int(brainVoxels.length)];
     return { volume: s.volume, voxel: [p % nx, Math.floor(p / nx) % ny, Math.floor(p / (nx * ny))], amplitude: s.amplitude };
@@ -161,6 +166,7 @@ export function simulatePhantomRun(input: PhantomSpecInput = {}): PhantomRun {
           const f = fractions[t][p];
           if (f !== 0) s += f * sliceGain[t * nz + ks] * (t === gmIndex ? 1 + actWeight[p] * x : 1);
         }
+        if (eyes && eyes[p] > 0) s = (1 - eyes[p]) * s + eyes[p] * spec.eyes!.signalFraction * ratio[gmIndex];
         base[p] = dephase ? s * dephase[p] : s;
       }
     }
@@ -197,6 +203,10 @@ export function simulatePhantomRun(input: PhantomSpecInput = {}): PhantomRun {
       out[v] = spec.rician ? Math.sqrt(re * re + im * im) : re;
     }
     for (const s of spikes) if (s.volume === n) out[s.voxel[0] + nx * (s.voxel[1] + ny * s.voxel[2])] += s.amplitude;
+    for (const lb of lowBaseline) {
+      const e = lowBaselineRng.normal(0, 1) * spec.lowBaselineVoxels!.noiseSd;
+      out[lb.index] = lb.volumes.includes(n) ? Math.abs(e) : Math.max(0, spec.lowBaselineVoxels!.baselineSignal + e);
+    }
   }
 
   const volume = makeVolume({ dims: [nx, ny, nz, nt], spacingMm: [...spec.spacingMm], trSec: tr, affine, data });
@@ -245,10 +255,38 @@ export function simulatePhantomRun(input: PhantomSpecInput = {}): PhantomRun {
       rotationCentreMm: centreMm,
       spikes,
       dropouts: spec.dropouts.map((d) => ({ ...d })),
+      ...(spec.lowBaselineVoxels ? { lowBaselineVoxels: lowBaseline.map(({ voxel, volumes }) => ({ voxel, volumes })) } : {}),
+      ...(eyes ? { eyeFraction: vol3(crop(eyes, new Float32Array(nVox))) } : {}),
       steadyState: { tolerancePercent: 1, firstSteadyVolume: first, nonSteadyVolumeCount: first - 1, perTissue },
       tissueSignal,
       totalReadoutTimeSec: readoutSec,
       spec,
     };
   }
+}
+
+/**
+ * Grey-matter voxels on the brain's surface (a 6-neighbour is not brain), `count` of them drawn
+ * without replacement, each with `perVoxel` distinct volumes from volume 10 on (after the steady-state
+ * approach) at which it falls to about zero.
+ */
+function pickLowBaselineVoxels(labels: Uint8Array, dims: readonly [number, number, number], count: number, perVoxel: number, nt: number, rng: ReturnType<typeof createRng>): Array<{ index: number; voxel: [number, number, number]; volumes: number[] }> {
+  const [nx, ny, nz] = dims;
+  const brain = (l: number) => l === TISSUE_LABEL['grey-matter'] || l === TISSUE_LABEL['white-matter'];
+  const surface: number[] = [];
+  for (let k = 1; k < nz - 1; k++) for (let j = 1; j < ny - 1; j++) for (let i = 1; i < nx - 1; i++) {
+    const p = i + nx * (j + ny * k);
+    if (labels[p] !== TISSUE_LABEL['grey-matter']) continue;
+    if ([1, -1, nx, -nx, nx * ny, -nx * ny].some((d) => !brain(labels[p + d]))) surface.push(p);
+  }
+  const out: Array<{ index: number; voxel: [number, number, number]; volumes: number[] }> = [];
+  const first = Math.min(10, Math.max(0, nt - perVoxel));
+  for (let c = 0; c < count && surface.length > 0; c++) {
+    const p = surface.splice(rng.int(surface.length), 1)[0];
+    const pool = Array.from({ length: nt - first }, (_, i) => first + i);
+    const volumes: number[] = [];
+    for (let e = 0; e < perVoxel && pool.length > 0; e++) volumes.push(pool.splice(rng.int(pool.length), 1)[0]);
+    out.push({ index: p, voxel: [p % nx, Math.floor(p / nx) % ny, Math.floor(p / (nx * ny))], volumes: volumes.sort((a, b) => a - b) });
+  }
+  return out;
 }

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { diagonalAffine } from '../../src/core/affine.js';
 import { isBoldsweepError } from '../../src/core/errors.js';
+import { createRng } from '../../src/core/random.js';
 import { makeVolume } from '../../src/core/volume.js';
 import { lookAtRun } from '../../src/look/look-at-run.js';
 import { robustZ } from '../../src/look/robust-z.js';
@@ -80,7 +81,43 @@ describe('findings table', () => {
   it('is an empty table with the same columns when nothing was found', async () => {
     const { findingsTable } = await import('../../src/look/findings-table.js');
     const t = findingsTable({ findings: [] });
-    expect(t.shape).toEqual([0, 8]);
+    expect(t.shape).toEqual([0, 9]);
     expect(t.columns).toContain('verdict');
   });
+});
+
+describe('runs a look cannot read the usual way', () => {
+  const make = (dims: [number, number, number, number], f: (i: number, j: number, k: number) => number, noise: (i: number, j: number, k: number) => number) => {
+    const [nx, ny, nz, nt] = dims;
+    const rng = createRng(3);
+    const data = new Float32Array(nx * ny * nz * nt);
+    for (let t = 0, p = 0; t < nt; t++) for (let k = 0; k < nz; k++) for (let j = 0; j < ny; j++) for (let i = 0; i < nx; i++, p++) data[p] = f(i, j, k) + rng.normal(0, 1) * noise(i, j, k);
+    return makeVolume({ dims, spacingMm: [3, 3, 3], trSec: 2, affine: diagonalAffine([3, 3, 3]), data });
+  };
+  const disc = (i: number, j: number) => ((i - 10) ** 2 + (j - 10) ** 2 < 50 ? 800 : 20);
+
+  it('a uniform phantom (no brain/background split): uses every voxel and says so', async () => {
+    const look = lookAtRun(make([20, 20, 10, 30], () => 500, () => 5));
+    expect(look.mask.voxels).toBe(4000);
+    expect(look.skipped.map((s) => s.check)).toContain('automatic brain mask');
+    expect(look.skipped.find((s) => s.check === 'automatic brain mask')!.how).toMatch(/--mask/);
+  });
+
+  it('all-zero slices: named as one finding, left out of the mask', () => {
+    const run = make([20, 20, 10, 30], (i, j, k) => (k < 3 ? 0 : disc(i, j)), (_i, _j, k) => (k < 3 ? 0 : 5));
+    const look = lookAtRun(run);
+    const f = look.findings.find((x) => x.kind === 'empty-slices');
+    expect(f?.slices).toEqual([0, 1, 2]);
+    expect(look.findings[0].kind).toBe('empty-slices');
+    for (let v = 0; v < 3 * 400; v++) expect(look.mask.mask[v]).toBe(0);
+  });
+
+  it('a single-slice (2D) run: runs, skips the slice checks and says why', async () => {
+    const run = make([20, 20, 1, 30], (i, j) => disc(i, j), () => 5);
+    const look = lookAtRun(run);
+    expect(look.mask.voxels).toBeGreaterThan(100);
+    expect(look.skipped.map((s) => s.check).join()).toMatch(/slice checks/);
+    const { lookFigures } = await import('../../src/report/look-figures.js');
+    expect((await lookFigures(run, look)).length).toBeGreaterThan(5); // figures draw one slice too
+  }, 30000);
 });
