@@ -37,6 +37,7 @@ export const ERROR_ADVICE = {
   RECORD_INVALID: 'The decision record is damaged or from an incompatible version.',
   // parallel work
   WORKER_SCRIPT_MISSING: 'Worker threads run compiled JavaScript: build the package first (npm run build) so the worker file exists under dist/.',
+  KERNEL_MISSING: 'The WebAssembly kernels are compiled at build time: run npm run build (it writes dist/kernels/ from kernels/).',
   WORKER_FAILED: 'A worker thread stopped unexpectedly (often out of memory). Retry with fewer workers, or workers: 1 to run in the main thread.',
 } as const;
 
