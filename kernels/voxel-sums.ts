@@ -39,8 +39,8 @@ const MAX_DIFFERENCE_TERMS = 3;
 
 /** Look kernel for p drift terms (see the file header). */
 export function look(src: usize, cols: i32, rows: i32, fitStart: i32, weights: usize, out: usize, theta: f64, stride: i32, mats: usize, p: i32, scratch: usize): void {
-  // one function per count of register accumulators: V8 compiles each small function's loops well,
-  // all of them inlined into one large function ran 1.6 times slower (Node 20)
+  // one function per number of terms up to MAX_CUMULATIVE_TERMS, each compiled with that number as a
+  // constant (accumulators in registers); more terms take the general form
   if (p == 1) look1(src, cols, rows, fitStart, weights, out, theta, stride, mats);
   else if (p == 2) look2(src, cols, rows, fitStart, weights, out, theta, stride, mats);
   else if (p == 3) look3(src, cols, rows, fitStart, weights, out, theta, stride, mats);
