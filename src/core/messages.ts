@@ -51,6 +51,7 @@ export const ERROR_ADVICE = {
   SLICE_TIMING_INVALID: 'Slice times are seconds from the start of each volume, each at least 0 and below RepetitionTime: fix SliceTiming in the BIDS sidecar (check it is in seconds, not milliseconds), or pass slice times made for your acquisition order.',
   // parallel work
   WORKER_SCRIPT_MISSING: 'Worker threads run compiled JavaScript: build the package first (npm run build) so the worker file exists under dist/.',
+  KERNEL_MISSING: 'The WebAssembly kernels are compiled at build time: run npm run build (it writes dist/kernels/ from kernels/).',
   WORKER_FAILED: 'A worker thread stopped unexpectedly (often out of memory). Retry with fewer workers, or workers: 1 to run in the main thread.',
 } as const;
 

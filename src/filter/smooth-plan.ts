@@ -177,7 +177,7 @@ function separablePasses(src: Float32Array, mask: Uint8Array | null, plan: Pick<
     i32[offsets / 4 + 2 * (d - 1)] = -8 * d;
     i32[offsets / 4 + 2 * (d - 1) + 1] = 8 * d;
   }
-  kernels.conv.get(rx)!(a, p, plane * nz, offsets, wAddr(0));
+  kernels.conv(a, p, plane * nz, offsets, wAddr(0), rx);
 
   // y pass: a -> p; z pass: p -> a
   for (let k = 0; k < nz; k++) axisPass(kernels, radii[1], p + k * plane * 8, a + k * plane * 8, ny, px, plan.mode, offsets, zero, wAddr(1), i32);
@@ -189,14 +189,13 @@ function separablePasses(src: Float32Array, mask: Uint8Array | null, plan: Pick<
  * planes of the volume), from byte address `src` to `dst`.
  */
 function axisPass(kernels: ConvKernels, r: number, dst: number, src: number, nAxis: number, inner: number, mode: BoundaryMode, offsets: number, zero: number, w: number, i32: Int32Array): void {
-  const conv = kernels.conv.get(r)!;
   const step = inner * 8;
   if (nAxis > 2 * r) {
     for (let d = 1; d <= r; d++) {
       i32[offsets / 4 + 2 * (d - 1)] = -step * d;
       i32[offsets / 4 + 2 * (d - 1) + 1] = step * d;
     }
-    conv(dst + r * step, src + r * step, (nAxis - 2 * r) * inner, offsets, w);
+    kernels.conv(dst + r * step, src + r * step, (nAxis - 2 * r) * inner, offsets, w, r);
   }
   for (let j = 0; j < nAxis; j++) {
     if (j >= r && j < nAxis - r) continue;
@@ -207,6 +206,6 @@ function axisPass(kernels: ConvKernels, r: number, dst: number, src: number, nAx
       i32[offsets / 4 + 2 * (d - 1)] = jm < 0 ? zero - here : (jm - j) * step;
       i32[offsets / 4 + 2 * (d - 1) + 1] = jp < 0 ? zero - here : (jp - j) * step;
     }
-    conv(dst + j * step, here, inner, offsets, w);
+    kernels.conv(dst + j * step, here, inner, offsets, w, r);
   }
 }

@@ -1,6 +1,6 @@
 import { fail } from '../core/fail.js';
 import { voxelsPerVolume, type Volume } from '../core/volume.js';
-import { VOXELS_PER_STEP, exactSumNames, lookSumNames, voxelSumsKernels } from './voxel-sums-wasm.js';
+import { VOXELS_PER_STEP, exactSumNames, lookSumNames, sumsScratchBytes, voxelSumsKernels } from './voxel-sums-wasm.js';
 
 /** What {@link voxelSums} computes: which volumes, in which order, with which drift terms. */
 export interface VoxelSumsPlan {
@@ -58,8 +58,9 @@ export function voxelSums(run: Volume, plan: VoxelSumsPlan, reuse?: readonly Flo
   // block width: a whole number of kernel steps
   const step = VOXELS_PER_STEP;
   const cols = step * Math.max(8, Math.min(Math.ceil(n / step), Math.floor(BLOCK_BYTES / (4 * step * R))));
-  // memory: weights, matrices, outputs, then the block of rows (all 16-byte aligned)
-  const wBytes = align16(8 * R * p) + align16(8 * mats.length);
+  // memory: weights, matrices, the kernel's scratch, outputs, then the block of rows (all 16-byte aligned)
+  const scratchAt = align16(8 * R * p) + align16(8 * mats.length);
+  const wBytes = scratchAt + sumsScratchBytes(p);
   const outBytes = align16(8 * names.length * cols);
   const kernels = voxelSumsKernels(p, wBytes + outBytes + 4 * R * cols);
   const kernel = plan.mode === 'look' ? kernels.look : kernels.exact;
@@ -79,7 +80,7 @@ export function voxelSums(run: Volume, plan: VoxelSumsPlan, reuse?: readonly Flo
     const len = Math.min(cols, n - v0);
     const c = step * Math.ceil(len / step); // a short last block carries unused lanes
     copyRows(data, n, rows, v0, len, f32, src4, c);
-    kernel(srcAt, c, R, plan.fitStart, 0, outAt, theta, c, matsAt);
+    kernel(srcAt, c, R, plan.fitStart, 0, outAt, theta, c, matsAt, p, scratchAt);
     for (let q = 0; q < names.length; q++) out[q].set(f64.subarray(out8 + q * c, out8 + q * c + len), v0);
   }
   const result: Record<string, Float64Array> = {};
