@@ -29,7 +29,7 @@ export { plantActivations, plantTimeCourse, type PlantOptions, type PlantTruth, 
 
 // recipe steps
 export {
-  type StepNote, type StepContext, type StepResult, type StepFunction, type StepDefinition,
+  type StepNote, type StepContext, type StepResult, type StepFunction, type StepDefinition, type StepKind, type ParameterLabel, type RegisterStepOptions,
   registerStep, getStep, listSteps, parseStepParams, applyStep, describeStep,
 } from './steps/index.js';
 export { smoothRun, smoothVolume3d } from './filter/index.js';
