@@ -123,3 +123,31 @@ describe('registerStep checks the definition', () => {
     expect(codeOfSync(() => registerStep('plain-ok', { schema: z.object({}).strict(), version: 3, kind: 'temporal', apply: base.apply, describe: () => 'ok', labels: {} }))).toBeUndefined();
   });
 });
+
+describe('slice times through the steps', () => {
+  it('reach each step from the sidecar\'s SliceTiming, and a step may replace them for the steps after it', async () => {
+    const seen: Array<number[] | null> = [];
+    const identity = { schema: z.object({ align: z.boolean().default(false) }).strict(), version: 1, kind: 'temporal' as const, labels: {}, describe: () => 'slice times' };
+    registerStep<{ align: boolean }>('record-slice-times', {
+      ...identity,
+      apply: (volume, params, context) => {
+        seen.push(context.sliceTimesSec ? Array.from(context.sliceTimesSec) : null);
+        const note = { step: 'record-slice-times', params, summary: '', diagnostics: {}, methodsText: '', citations: [] };
+        // aligning (as slice-timing correction would) puts every slice at the middle of the volume
+        return params.align ? { volume, note, context: { ...context, sliceTimesSec: new Float64Array(volume.dims[2]).fill(volume.trSec / 2) } } : { volume, note };
+      },
+    }, { replace: true });
+    const nz = run.volume.dims[2];
+    const times = Array.from({ length: nz }, (_, k) => ((k % 2) * Math.ceil(nz / 2) + Math.floor(k / 2)) * (run.volume.trSec / nz));
+    const sidecar = { ...(run.sidecar ?? {}), RepetitionTime: run.volume.trSec, SliceTiming: times } as typeof run.sidecar;
+    const s: SweepSpecInput = { ...spec, recipe: [{ step: 'record-slice-times', params: { align: true } }, { step: 'volume-mean-scale', params: {} }, { step: 'smooth', params: { fwhmMm: 0 } }], vary: {}, repeats: 1 };
+    // a second recording step after the aligning one (a step may appear once per recipe: register a twin)
+    registerStep('record-slice-times-after', getStep('record-slice-times') as StepDefinition<unknown>, { replace: true });
+    s.recipe.splice(1, 0, { step: 'record-slice-times-after', params: {} });
+    await runSweep({ volume: run.volume, events: run.events, sidecar }, s, { inThisThread: true, placementMask: run.greyMatter });
+    // the group stage and the tSNR each run the recipe once: [first step, second step] twice
+    expect(seen.length).toBeGreaterThanOrEqual(2);
+    expect(seen[0]).toEqual(times);
+    expect(seen[1]).toEqual(new Array(nz).fill(run.volume.trSec / 2));
+  });
+});
