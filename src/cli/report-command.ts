@@ -7,7 +7,7 @@ import { positiveNumber, withExitCodes } from './cli-common.js';
 interface ReportCliOptions {
   metric: string;
   targetSize?: number;
-  prefer: 'smallest' | 'largest';
+  prefer?: 'smallest' | 'largest';
 }
 
 /**
@@ -23,10 +23,10 @@ export function registerReportCommand(program: Command): Command {
     .argument('<dir>', 'a folder written by "boldsweep sweep" or "boldsweep gather"')
     .option('--metric <name>', 'detection metric to maximise (a scorecard column, e.g. hitRate, rocAuc, blobHitRate)', 'hitRate')
     .option('--target-size <mm>', 'planted size the choice is made for (default: the median planted size)', positiveNumber)
-    .option('--prefer <end>', 'which end of the parameter range is simpler: smallest or largest', 'smallest')
+    .option('--prefer <end>', 'which end of the parameter range is simpler: smallest or largest (default: as the varied step defines it, else smallest)')
     .action(async (dir: string, o: ReportCliOptions) => {
       const folder = readSweepFolder(dir);
-      const prefer = o.prefer === 'largest' ? 'largest' : 'smallest';
+      const prefer = o.prefer === undefined ? undefined : o.prefer === 'largest' ? 'largest' : 'smallest';
       const { recommendation, files } = await writeReport(dir, folder, { metric: o.metric, targetSizeMm: o.targetSize, prefer });
       console.log(recommendation.summary);
       console.log(`wrote ${files.report}, ${files.methods}, ${files.record}`);

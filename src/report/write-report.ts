@@ -2,7 +2,7 @@ import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { writeFileAtomic } from '../io/atomic-write.js';
 import { recommendSetting, type RecommendOptions, type Recommendation } from '../decide/recommend-setting.js';
-import { parameterName, settingText } from '../sweep/settings-grid.js';
+import { parameterName, settingText, simplerEnd } from '../sweep/settings-grid.js';
 import { summariseScorecard } from '../decide/summarise-scorecard.js';
 import { detectionChart, falseAlarmChart, smoothnessChart, tsnrChart } from './charts-sweep.js';
 import { rocChart } from './charts-roc.js';
@@ -54,7 +54,8 @@ export async function sweepCharts(folder: SweepFolder, rec: Recommendation): Pro
  * and decision-record.json (input paths relative to the output folder).
  * @param dir - output folder (created when missing)
  * @param folder - the sweep (from runSweep or readSweepFolder) with run facts and masks
- * @param options - recommendation options (metric, targetSizeMm, prefer)
+ * @param options - recommendation options (metric, targetSizeMm, prefer; prefer defaults to the end
+ *   the varied steps' simplicity orders call simpler, else 'smallest')
  * @returns the recommendation, record, methods and charts, and the paths written
  * @example const { recommendation } = await writeReport('out/demo', folder)
  */
@@ -62,7 +63,9 @@ export async function writeReport(dir: string, folder: SweepFolder, options: Rec
   mkdirSync(dir, { recursive: true });
   const { result } = folder;
   const thr = thresholdText(result.spec.threshold);
-  const recommendation = recommendSetting(result.scorecard, { thresholdText: thr, ...options });
+  // the simpler end of the varied values comes from the steps' own simplicity orders unless given
+  const prefer = options.prefer ?? simplerEnd(result.spec) ?? undefined;
+  const recommendation = recommendSetting(result.scorecard, { thresholdText: thr, ...options, prefer });
   const record = await buildDecisionRecord({ result, recommendation, run: folder.run, masks: folder.masks, relativeTo: dir });
   const methods = methodsText(record);
   const charts = await sweepCharts(folder, recommendation);

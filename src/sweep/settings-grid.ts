@@ -119,3 +119,39 @@ export function settingText(s: Setting): string {
   });
   return parts.length ? parts.join(', ') : 'the fixed recipe';
 }
+
+/**
+ * Which end of the varied values is simpler, by the varied steps' own simplicity orders
+ * (StepDefinition.simplicity) at the recipe's parameters: 'smallest' when every varied step
+ * parameter's simplicity rises with its value, 'largest' when every one falls, null when they
+ * disagree, a key has no order (a model option, a step without `simplicity`, one not registered
+ * here) or values are not numbers. The recommendation's one-standard-error rule uses it as its
+ * default preference.
+ * @param spec - the sweep's recipe and varied values
+ * @returns 'smallest', 'largest' or null
+ * @example simplerEnd({ recipe: [{ step: 'highpass', params: { cutoffSec: 128 } }], vary: { 'highpass.cutoffSec': [64, 128] } }) // 'largest'
+ */
+export function simplerEnd(spec: { recipe: ReadonlyArray<{ step: string; params: Record<string, unknown> }>; vary: Record<string, ReadonlyArray<number | string | boolean | null>> }): 'smallest' | 'largest' | null {
+  let end: 'smallest' | 'largest' | null = null;
+  for (const [key, values] of Object.entries(spec.vary)) {
+    if (values.length < 2) continue;
+    if (values.some((v) => typeof v !== 'number')) return null;
+    let ranked: Array<[number, number]>;
+    try {
+      ranked = values.map((v) => [v as number, settingSimplicity({ [key]: v }, spec.recipe)[0] ?? NaN]);
+    } catch {
+      return null; // parameters this registry cannot check (a step registered elsewhere)
+    }
+    if (ranked.some(([, s]) => !Number.isFinite(s))) return null;
+    ranked.sort((a, b) => a[0] - b[0]);
+    let rising = true, falling = true;
+    for (let i = 1; i < ranked.length; i++) {
+      if (ranked[i][1] < ranked[i - 1][1]) rising = false;
+      if (ranked[i][1] > ranked[i - 1][1]) falling = false;
+    }
+    const here = rising && !falling ? 'smallest' : falling && !rising ? 'largest' : null;
+    if (here === null || (end !== null && end !== here)) return null;
+    end = here;
+  }
+  return end;
+}

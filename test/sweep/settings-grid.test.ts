@@ -4,7 +4,7 @@ import { describe, expect, it } from 'vitest';
 import { isBoldsweepError } from '../../src/core/errors.js';
 import { listSteps } from '../../src/steps/registry.js';
 import { readSweepSpec } from '../../src/sweep/read-sweep-spec.js';
-import { parameterName, parameterUnit, settingSimplicity, settingText, settingsGrid } from '../../src/sweep/settings-grid.js';
+import { parameterName, parameterUnit, settingSimplicity, simplerEnd, settingText, settingsGrid } from '../../src/sweep/settings-grid.js';
 import { parseSweepSpecShape } from '../../src/sweep/spec.js';
 
 describe('parameter words, units and simplicity come from the step definitions', () => {
@@ -31,6 +31,17 @@ describe('parameter words, units and simplicity come from the step definitions',
     const grid = settingsGrid({ 'highpass.cutoffSec': [64, 128], 'smooth.fwhmMm': [0, 6], 'model.ar1': [true] });
     expect(grid.map((s) => settingSimplicity(s, recipe))).toEqual([[-64, 0, null], [-64, 6, null], [-128, 0, null], [-128, 6, null]]);
     expect(settingSimplicity({ 'grand-mean-scale.target': 100 }, [{ step: 'grand-mean-scale', params: {} }])).toEqual([null]);
+  });
+
+  it('tells the recommendation which end of the values is simpler', () => {
+    const smooth = { step: 'smooth', params: { fwhmMm: 0 } }, highpass = { step: 'highpass', params: { cutoffSec: 128 } };
+    expect(simplerEnd({ recipe: [smooth], vary: { 'smooth.fwhmMm': [8, 0, 4] } })).toBe('smallest');
+    // a longer high-pass cutoff removes less: the larger value is the simpler one
+    expect(simplerEnd({ recipe: [highpass], vary: { 'highpass.cutoffSec': [64, 128, 256] } })).toBe('largest');
+    expect(simplerEnd({ recipe: [highpass, smooth], vary: { 'highpass.cutoffSec': [64, 128], 'smooth.fwhmMm': [0, 6] } })).toBeNull();
+    expect(simplerEnd({ recipe: [smooth], vary: { 'model.ar1': [true, false] } })).toBeNull();
+    expect(simplerEnd({ recipe: [{ step: 'grand-mean-scale', params: {} }], vary: { 'grand-mean-scale.target': [100, 1000] } })).toBeNull();
+    expect(simplerEnd({ recipe: [{ step: 'not-registered', params: {} }], vary: { 'not-registered.sizeMm': [1, 2] } })).toBeNull();
   });
 });
 
