@@ -3,6 +3,8 @@ import { join } from 'node:path';
 import { writeFileAtomic } from '../io/atomic-write.js';
 import { recommendSetting, type RecommendOptions, type Recommendation } from '../decide/recommend-setting.js';
 import { parameterName, settingText, simplerEnd } from '../sweep/settings-grid.js';
+import { parameterTradeoff } from '../decide/parameter-tradeoff.js';
+import { getStep, listSteps } from '../steps/registry.js';
 import { summariseScorecard } from '../decide/summarise-scorecard.js';
 import { detectionChart, falseAlarmChart, smoothnessChart, tsnrChart } from './charts-sweep.js';
 import { rocChart } from './charts-roc.js';
@@ -73,6 +75,8 @@ export async function writeReport(dir: string, folder: SweepFolder, options: Rec
   const sweepLines = [
     `Recipe: ${spec.recipe.map((s) => `${s.step}(${Object.entries(s.params).map(([k, v]) => `${k}=${JSON.stringify(v)}`).join(', ')})`).join(' -> ')}`,
     ...Object.entries(spec.vary).map(([k, v]) => `Varied ${parameterLabel(k)}: ${v.join(', ')}`),
+    // a varied geometric step (interpolation kernel, voxel size): which value detects best and which blurs least
+    ...geometricKeys(spec.vary).flatMap((k) => parameterTradeoff(result.scorecard, k, { metric: recommendation.metric }).map((g) => `Trade-off: ${g.text}`)),
     spec.plant.count > 0
       ? `Planted: ${spec.plant.count} ${spec.plant.shape} blobs per run; sizes ${spec.plant.sizesFwhmMm.join(', ')} mm; amplitudes ${spec.plant.amplitudesPct.join(', ')} %`
       : 'Planted: nothing (null sweep: every detection is a false alarm)',
@@ -96,4 +100,12 @@ export async function writeReport(dir: string, folder: SweepFolder, options: Rec
   await writeFileAtomic(files.methods, methodsMarkdown(methods, `Methods: ${settingText(recommendation.choice.chosen.setting)}`));
   await writeFileAtomic(files.record, JSON.stringify(record, null, 1) + '\n');
   return { recommendation, record, methods, charts, files };
+}
+
+/** Varied keys of registered geometric steps whose values are not numbers (kernels, methods): the ones a trade-off line compares. */
+function geometricKeys(vary: Record<string, unknown[]>): string[] {
+  return Object.keys(vary).filter((k) => {
+    const step = k.slice(0, k.indexOf('.'));
+    return step !== 'model' && listSteps().includes(step) && getStep(step).kind === 'geometric' && vary[k].some((v) => typeof v !== 'number');
+  });
 }

@@ -1,4 +1,10 @@
+import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { parameterTradeoff } from '../../src/decide/parameter-tradeoff.js';
+import { runFacts } from '../../src/report/run-facts.js';
+import { writeReport } from '../../src/report/write-report.js';
 import { applyAffine } from '../../src/core/affine.js';
 import { closeSharedWorkerPools } from '../../src/core/worker-pool.js';
 import { plantActivations } from '../../src/plant/plant-activations.js';
@@ -14,11 +20,11 @@ import { coarseGrid, coarsenGridDefinition } from './fixtures/coarsen-grid-defin
 
 // The geometric test step coarsen-grid stands in for the resample step: its output lives on a target
 // grid with twice the voxel size. Worker threads import fixtures/coarsen-grid.mjs (build first).
-registerStep('coarsen-grid', coarsenGridDefinition as StepDefinition<{ factor: number }>, { module: new URL('./fixtures/coarsen-grid.mjs', import.meta.url).href, replace: true });
+registerStep('coarsen-grid', coarsenGridDefinition as StepDefinition<{ factor: number; kernel: string }>, { module: new URL('./fixtures/coarsen-grid.mjs', import.meta.url).href, replace: true });
 
 const spec: SweepSpecInput = {
   recipe: [{ step: 'coarsen-grid', params: { factor: 1 } }],
-  vary: { 'coarsen-grid.factor': [1, 2] },
+  vary: { 'coarsen-grid.factor': [1, 2], 'coarsen-grid.kernel': ['trilinear', 'nearest'] },
   plant: { sizesFwhmMm: [12], amplitudesPct: [6], count: 4, separation: 2.5 },
   repeats: 2,
   threshold: { kind: 'fwe-rft' },
@@ -61,7 +67,7 @@ describe('frames: scoring carries the truth into the cell\'s output frame', () =
   });
 
   it('a sweep whose step moves the run onto a coarser grid finds the planted blobs where they were planted', () => {
-    const rows = (factor: number) => here.scorecard.rows.filter((r) => r['coarsen-grid.factor'] === factor);
+    const rows = (factor: number) => here.scorecard.rows.filter((r) => r['coarsen-grid.factor'] === factor && r['coarsen-grid.kernel'] === 'trilinear');
     for (const r of rows(2)) {
       expect(r.blobHitRate).toBe(1);
       // the statistic peaks within one target voxel (6 mm) of each planted centre
@@ -75,6 +81,27 @@ describe('frames: scoring carries the truth into the cell\'s output frame', () =
       expect(ratio).toBeLessThan(1 / 5);
     }
     for (const r of rows(1)) expect(r.blobHitRate).toBe(1);
+    // on the run's own grid both kernels sample the voxels themselves: the same scores
+    const nearest1 = here.scorecard.rows.filter((r) => r['coarsen-grid.factor'] === 1 && r['coarsen-grid.kernel'] === 'nearest');
+    nearest1.forEach((r, i) => expect(r.hitRate).toBe(rows(1)[i].hitRate));
+  });
+
+  it('the report says which kernel detects best and which blurs least at each grid, with numbers', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'boldsweep-frames-report-'));
+    try {
+      const folder = { result: here, run: runFacts({ volume: null3.volume, sidecar: null }), masks: { brain: { kind: 'brain' as const }, placement: { kind: 'brain' as const }, exclude: null } };
+      const { files } = await writeReport(dir, folder);
+      const html = readFileSync(files.report, 'utf8');
+      const lines = parameterTradeoff(here.scorecard, 'coarsen-grid.kernel').map((g) => g.text);
+      expect(lines).toHaveLength(2);
+      expect(lines[1]).toMatch(/^At grid coarsening factor 2, of the coarsening kernel values, (trilinear|nearest) detects best and (trilinear|nearest) blurs least: mean hit rate/);
+      // block averaging (trilinear at the block centre) spreads the noise over more voxels than picking one
+      const g2 = parameterTradeoff(here.scorecard, 'coarsen-grid.kernel')[1];
+      expect(g2.blursLeast.value).toBe('nearest');
+      for (const line of lines) expect(html).toContain(line.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').split(':')[0]);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
   });
 
   it('gives the same scorecard on two worker threads', async () => {
