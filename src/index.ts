@@ -49,7 +49,7 @@ export {
 } from './sweep/index.js';
 
 // decide
-export { summariseScorecard, recommendSetting, type Recommendation, type SettingSummary } from './decide/index.js';
+export { summariseScorecard, recommendSetting, parameterTradeoff, type Recommendation, type SettingSummary, type TradeoffGroup } from './decide/index.js';
 
 // report
 export {
