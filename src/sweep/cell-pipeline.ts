@@ -19,7 +19,7 @@ import { rocCurve } from '../score/roc-curve.js';
 import { scoreDetection } from '../score/score-detection.js';
 import { DEFAULT_FPR_GRID, tprAtFpr } from '../score/curve-table.js';
 import { applyThresholdRule } from './threshold-rule.js';
-import { gridOf, runRecipeStep } from './recipe-step.js';
+import { runRecipeStep } from './recipe-step.js';
 import { stableHash } from './stable-hash.js';
 import { collectGarbage } from './collect-garbage.js';
 import { isMainThread } from 'node:worker_threads';

@@ -183,12 +183,11 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
   const estimates: Record<string, unknown> = {};
   const estimateHashes: Record<string, string> = {};
   const cacheDir = options.cacheDir ?? null;
-  const sharedMasks = !options.inThisThread;
+  // masks go to worker threads in shared memory (made once, shared by every task)
+  const masks = options.inThisThread ? { brainMask, placementMask, scoreMask } : { brainMask: sharedBytes(brainMask), placementMask: sharedBytes(placementMask), scoreMask: sharedBytes(scoreMask) };
   const baseContext = (stageMode: SweepContext['stageMode'], progress: Int32Array | null): SweepContext => ({
     run: { dims: [...volume.dims], spacingMm: [...volume.spacingMm], trSec: volume.trSec, affine: Array.from(volume.affine), data: volume.data },
-    brainMask: sharedMasks ? sharedBytes(brainMask) : brainMask,
-    placementMask: sharedMasks ? sharedBytes(placementMask) : placementMask,
-    scoreMask: sharedMasks ? sharedBytes(scoreMask) : scoreMask,
+    ...masks,
     events, sidecar: run.sidecar, threshold: spec.threshold, cacheDir, stageMode, progress, stepModules: modules, estimates,
   });
   const estimatePlans = planSweep(spec, inputs).estimates;
