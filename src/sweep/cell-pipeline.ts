@@ -21,6 +21,7 @@ import { DEFAULT_FPR_GRID, tprAtFpr } from '../score/curve-table.js';
 import { applyThresholdRule } from './threshold-rule.js';
 import { runRecipeStep } from './recipe-step.js';
 import { stableHash } from './stable-hash.js';
+import { modelSampleTimeSec } from './model-sample-time.js';
 import { collectGarbage } from './collect-garbage.js';
 import { isMainThread } from 'node:worker_threads';
 import { readGroupStage, writeCachedCell, writeCachedEstimate, writeCachedTsnr, writeGroupStage, type GroupStage } from './stage-cache.js';
@@ -321,8 +322,10 @@ function modelAndScore(holder: { volume: Volume | null }, context: StepContext, 
   const nuisance: NuisanceRegressor[] = [...new Set(cell.model.censorVolumes)].sort((a, b) => a - b).map((c) => c - offset).filter((c) => c >= 0 && c < nt)
     .map((c) => ({ name: `censor_${c + offset}`, values: Float64Array.from({ length: nt }, (_, t) => (t === c ? 1 : 0)) }));
   nuisance.push(...regressors.map((r) => stepRegressor(r, nt)));
+  // slice times aligned to one time by a step: the task regressor is sampled then (else mid-volume)
+  const sampleTimeSec = modelSampleTimeSec(context.sliceTimesSec, volume.trSec);
   const design = buildDesign(events, {
-    nt, trSec: volume.trSec,
+    nt, trSec: volume.trSec, ...(sampleTimeSec === null ? {} : { sampleTimeSec }),
     drift: cell.model.highpassCutoffSec ? { kind: 'dct', cutoffSec: cell.model.highpassCutoffSec } : { kind: 'none' },
     nuisance,
   });

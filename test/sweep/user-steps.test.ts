@@ -125,29 +125,39 @@ describe('registerStep checks the definition', () => {
 });
 
 describe('slice times through the steps', () => {
-  it('reach each step from the sidecar\'s SliceTiming, and a step may replace them for the steps after it', async () => {
-    const seen: Array<number[] | null> = [];
-    const identity = { schema: z.object({ align: z.boolean().default(false) }).strict(), version: 1, kind: 'temporal' as const, labels: {}, describe: () => 'slice times' };
-    registerStep<{ align: boolean }>('record-slice-times', {
-      ...identity,
-      apply: (volume, params, context) => {
-        seen.push(context.sliceTimesSec ? Array.from(context.sliceTimesSec) : null);
-        const note = { step: 'record-slice-times', params, summary: '', diagnostics: {}, methodsText: '', citations: [] };
-        // aligning (as slice-timing correction would) puts every slice at the middle of the volume
-        return params.align ? { volume, note, context: { ...context, sliceTimesSec: new Float64Array(volume.dims[2]).fill(volume.trSec / 2) } } : { volume, note };
-      },
-    }, { replace: true });
+  const seen: Array<number[] | null> = [];
+  // a stand-in for slice-timing correction: it aligns every slice to one time (null: leaves them)
+  registerStep<{ alignToSec: number | null }>('record-slice-times', {
+    schema: z.object({ alignToSec: z.number().min(0).nullable().default(null) }).strict(),
+    version: 1, kind: 'temporal', labels: { alignToSec: { name: 'slice time aligned to', unit: 's' } }, describe: (p) => `slice times ${p.alignToSec ?? 'as acquired'}`,
+    apply: (volume, params, context) => {
+      seen.push(context.sliceTimesSec ? Array.from(context.sliceTimesSec) : null);
+      const note = { step: 'record-slice-times', params, summary: '', diagnostics: {}, methodsText: '', citations: [] };
+      return params.alignToSec === null ? { volume, note } : { volume, note, context: { ...context, sliceTimesSec: new Float64Array(volume.dims[2]).fill(params.alignToSec) } };
+    },
+  }, { replace: true });
+  // a second recording step after it (a step may appear once per recipe: a twin under another name)
+  registerStep('record-slice-times-after', getStep('record-slice-times') as StepDefinition<unknown>, { replace: true });
+
+  it('reach each step from the sidecar\'s SliceTiming; a step may replace them; aligned times set the model\'s sample time', async () => {
     const nz = run.volume.dims[2];
-    const times = Array.from({ length: nz }, (_, k) => ((k % 2) * Math.ceil(nz / 2) + Math.floor(k / 2)) * (run.volume.trSec / nz));
-    const sidecar = { ...(run.sidecar ?? {}), RepetitionTime: run.volume.trSec, SliceTiming: times } as typeof run.sidecar;
-    const s: SweepSpecInput = { ...spec, recipe: [{ step: 'record-slice-times', params: { align: true } }, { step: 'volume-mean-scale', params: {} }, { step: 'smooth', params: { fwhmMm: 0 } }], vary: {}, repeats: 1 };
-    // a second recording step after the aligning one (a step may appear once per recipe: register a twin)
-    registerStep('record-slice-times-after', getStep('record-slice-times') as StepDefinition<unknown>, { replace: true });
-    s.recipe.splice(1, 0, { step: 'record-slice-times-after', params: {} });
-    await runSweep({ volume: run.volume, events: run.events, sidecar }, s, { inThisThread: true, placementMask: run.greyMatter });
-    // the group stage and the tSNR each run the recipe once: [first step, second step] twice
-    expect(seen.length).toBeGreaterThanOrEqual(2);
-    expect(seen[0]).toEqual(times);
-    expect(seen[1]).toEqual(new Array(nz).fill(run.volume.trSec / 2));
+    const tr = run.volume.trSec;
+    const times = Array.from({ length: nz }, (_, k) => ((k % 2) * Math.ceil(nz / 2) + Math.floor(k / 2)) * (tr / nz));
+    const sidecar = { ...(run.sidecar ?? {}), RepetitionTime: tr, SliceTiming: times } as typeof run.sidecar;
+    const s: SweepSpecInput = {
+      ...spec, repeats: 1, vary: { 'record-slice-times.alignToSec': [null, tr / 2, 0] },
+      recipe: [{ step: 'record-slice-times', params: {} }, { step: 'record-slice-times-after', params: {} }, { step: 'smooth', params: { fwhmMm: 4 } }],
+    };
+    seen.length = 0;
+    const r = await runSweep({ volume: run.volume, events: run.events, sidecar }, s, { inThisThread: true, placementMask: run.greyMatter });
+    // every run of the recipe: the first step sees the sidecar's times, the second what the first handed on
+    for (let i = 0; i < seen.length; i += 2) expect(seen[i]).toEqual(times);
+    expect(seen.filter((x, i) => i % 2 === 1).map((x) => JSON.stringify(x))).toEqual(expect.arrayContaining([JSON.stringify(times), JSON.stringify(new Array(nz).fill(tr / 2)), JSON.stringify(new Array(nz).fill(0))]));
+    // slices aligned to mid-volume: the same design as sampling mid-volume without slice times
+    const row = (v: number | null) => r.scorecard.rows.find((x) => x['record-slice-times.alignToSec'] === v)!;
+    const metrics = (x: Record<string, unknown>) => Object.fromEntries(r.scorecard.metrics.map((m) => [m, x[m]]));
+    expect(metrics(row(tr / 2))).toEqual(metrics(row(null)));
+    // slices aligned to the start of the volume: the model samples there, so the fit changes
+    expect(row(0).centreMargin).not.toBe(row(null).centreMargin);
   });
 });
