@@ -37,7 +37,7 @@ export {
 
 // recipe steps
 export {
-  type StepNote, type StepContext, type StepResult, type StepFunction, type StepDefinition,
+  type StepNote, type StepContext, type StepResult, type StepFunction, type StepDefinition, type StepKind, type ParameterLabel, type RegisterStepOptions,
   registerStep, getStep, listSteps, parseStepParams, applyStep, describeStep,
 } from './steps/index.js';
 export { smoothRun, smoothVolume3d } from './filter/index.js';
@@ -57,7 +57,7 @@ export {
 } from './sweep/index.js';
 
 // decide
-export { summariseScorecard, recommendSetting, type Recommendation, type SettingSummary } from './decide/index.js';
+export { summariseScorecard, recommendSetting, parameterTradeoff, type Recommendation, type SettingSummary, type TradeoffGroup } from './decide/index.js';
 
 // report
 export {

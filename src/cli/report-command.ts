@@ -7,7 +7,7 @@ import { positiveNumber, withExitCodes } from './cli-common.js';
 interface ReportCliOptions {
   metric: string;
   targetSize?: number;
-  prefer: 'smallest' | 'largest';
+  prefer?: 'smallest' | 'largest';
   force?: boolean;
 }
 
@@ -29,7 +29,7 @@ export function registerReportCommand(program: Command): Command {
     .argument('<dir>', 'a folder written by "boldsweep sweep" or "boldsweep gather"')
     .option('--metric <name>', 'detection metric to maximise (a scorecard column, e.g. hitRate, rocAuc, blobHitRate)', 'hitRate')
     .option('--target-size <mm>', 'planted size the choice is made for (default: the median planted size)', positiveNumber)
-    .option('--prefer <end>', 'which end of the parameter range is simpler: smallest or largest', preferEnd, 'smallest')
+    .option('--prefer <end>', 'which end of the parameter range is simpler: smallest or largest (default: as the varied step defines it, else smallest)', preferEnd)
     .option('--force', 'write into a sweep folder made before output folders carried boldsweep\'s marker (only the report\'s own files are written)')
     .addHelpText('after', `
 Example:

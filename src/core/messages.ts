@@ -38,6 +38,7 @@ export const ERROR_ADVICE = {
   PLANTING_DOES_NOT_FIT: 'Use fewer or smaller planted activations, or a larger mask.',
   SPEC_INVALID: 'Fix the listed fields of the sweep spec.',
   UNKNOWN_STEP: 'Use one of the step names listed in the message.',
+  STEP_MODULE_MISSING: 'Worker threads load their own steps: register the step with registerStep(name, definition, { module: import.meta.url }) in a module that registers it when imported, or run the sweep with inThisThread: true.',
   UNKNOWN_PARAMETER: 'Use one of the parameter names listed in the message.',
   CONSTANT_DATA: 'The data do not vary; the requested measure is undefined for them.',
   TOO_FEW_VOLUMES: 'The run is shorter than the measure needs; use a longer run.',

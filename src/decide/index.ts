@@ -2,3 +2,4 @@
 export { summariseScorecard, type SettingSummary } from './summarise-scorecard.js';
 export { meanInterval, proportionInterval, type MeanInterval, type ProportionInterval } from './confidence.js';
 export { recommendSetting, metricWords, STANDING_CAVEATS, type Recommendation, type RecommendOptions, type PlantChoice, type SettingEvidence } from './recommend-setting.js';
+export { parameterTradeoff, type TradeoffEntry, type TradeoffGroup, type TradeoffOptions } from './parameter-tradeoff.js';

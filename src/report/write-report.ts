@@ -2,7 +2,9 @@ import { basename, join } from 'node:path';
 import { writeFileAtomic } from '../io/atomic-write.js';
 import { prepareOutputFiles, type ClaimOptions } from '../io/output-folder.js';
 import { recommendSetting, type RecommendOptions, type Recommendation } from '../decide/recommend-setting.js';
-import { parameterName, settingText } from '../sweep/settings-grid.js';
+import { parameterName, settingText, simplerEnd } from '../sweep/settings-grid.js';
+import { parameterTradeoff } from '../decide/parameter-tradeoff.js';
+import { getStep, listSteps } from '../steps/registry.js';
 import { summariseScorecard } from '../decide/summarise-scorecard.js';
 import { detectionChart, falseAlarmChart, smoothnessChart, tsnrChart } from './charts-sweep.js';
 import { rocChart } from './charts-roc.js';
@@ -58,7 +60,8 @@ export async function sweepCharts(folder: SweepFolder, rec: Recommendation): Pro
  * by boldsweep; only boldsweep's own files are replaced.
  * @param dir - output folder (created when missing)
  * @param folder - the sweep (from runSweep or readSweepFolder) with run facts and masks
- * @param options - recommendation options (metric, targetSizeMm, prefer)
+ * @param options - recommendation options (metric, targetSizeMm, prefer; prefer defaults to the end
+ *   the varied steps' simplicity orders call simpler, else 'smallest')
  * @param write - force, inputs (see `claimOutputFolder`)
  * @returns the recommendation, record, methods and charts, and the paths written
  * @example const { recommendation } = await writeReport('out/demo', folder)
@@ -67,7 +70,9 @@ export async function writeReport(dir: string, folder: SweepFolder, options: Rec
   await prepareOutputFiles(dir, [...REPORT_FILES], { ...write, inputs: write.inputs ?? Object.values(folder.run.files) });
   const { result } = folder;
   const thr = thresholdText(result.spec.threshold);
-  const recommendation = recommendSetting(result.scorecard, { thresholdText: thr, ...options });
+  // the simpler end of the varied values comes from the steps' own simplicity orders unless given
+  const prefer = options.prefer ?? simplerEnd(result.spec) ?? undefined;
+  const recommendation = recommendSetting(result.scorecard, { thresholdText: thr, ...options, prefer });
   const record = await buildDecisionRecord({ result, recommendation, run: folder.run, masks: folder.masks });
   const methods = methodsText(record);
   const charts = await sweepCharts(folder, recommendation);
@@ -75,6 +80,8 @@ export async function writeReport(dir: string, folder: SweepFolder, options: Rec
   const sweepLines = [
     `Recipe: ${spec.recipe.map((s) => `${s.step}(${Object.entries(s.params).map(([k, v]) => `${k}=${JSON.stringify(v)}`).join(', ')})`).join(' -> ')}`,
     ...Object.entries(spec.vary).map(([k, v]) => `Varied ${parameterLabel(k)}: ${v.join(', ')}`),
+    // a varied geometric step (interpolation kernel, voxel size): which value detects best and which blurs least
+    ...geometricKeys(spec.vary).flatMap((k) => parameterTradeoff(result.scorecard, k, { metric: recommendation.metric }).map((g) => `Trade-off: ${g.text}`)),
     spec.plant.count > 0
       ? `Planted: ${spec.plant.count} ${spec.plant.shape} blobs per run; sizes ${spec.plant.sizesFwhmMm.join(', ')} mm; amplitudes ${spec.plant.amplitudesPct.join(', ')} %`
       : 'Planted: nothing (null sweep: every detection is a false alarm)',
@@ -98,4 +105,12 @@ export async function writeReport(dir: string, folder: SweepFolder, options: Rec
   await writeFileAtomic(files.methods, methodsMarkdown(methods, `Methods: ${settingText(recommendation.choice.chosen.setting)}`));
   await writeFileAtomic(files.record, JSON.stringify(record, null, 1) + '\n');
   return { recommendation, record, methods, charts, files };
+}
+
+/** Varied keys of registered geometric steps whose values are not numbers (kernels, methods): the ones a trade-off line compares. */
+function geometricKeys(vary: Record<string, unknown[]>): string[] {
+  return Object.keys(vary).filter((k) => {
+    const step = k.slice(0, k.indexOf('.'));
+    return step !== 'model' && listSteps().includes(step) && getStep(step).kind === 'geometric' && vary[k].some((v) => typeof v !== 'number');
+  });
 }

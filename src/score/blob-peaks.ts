@@ -19,7 +19,8 @@ export interface BlobPeaks {
  * @param statistic - per-voxel statistic, length nx*ny*nz
  * @param dims - [nx, ny, nz]
  * @param affine - voxel -> world (mm)
- * @param centresVoxel - true centres in voxel indices
+ * @param centresVoxel - true centres in voxel indices (fractional ones are allowed: distances use them as
+ *   they are, the centre value is read at the nearest voxel)
  * @param searchRadiusMm - how far from each centre to look for the peak
  * @param within - optional region (e.g. brain mask); voxels outside are not searched
  * @returns per blob: location error (mm), peak value and the value at the centre
@@ -53,7 +54,9 @@ export function blobPeaks(statistic: ArrayLike<number>, dims: readonly number[],
     }
     out.errorMm[b] = Math.sqrt(bestD2);
     out.peakValue[b] = best;
-    out.centreValue[b] = statistic[ci + nx * (cj + ny * ck)];
+    // a centre between voxel centres (truth carried onto another grid) reads its nearest voxel
+    const [ri, rj, rk] = [Math.min(nx - 1, Math.max(0, Math.round(ci))), Math.min(ny - 1, Math.max(0, Math.round(cj))), Math.min(nz - 1, Math.max(0, Math.round(ck)))];
+    out.centreValue[b] = statistic[ri + nx * (rj + ny * rk)];
   });
   return out;
 }

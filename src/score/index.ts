@@ -12,3 +12,5 @@ export type { BlobPeaks } from './blob-peaks.js';
 export { effectBias } from './effect-bias.js';
 export type { EffectBias } from './effect-bias.js';
 export { DEFAULT_FPR_GRID, tprAtFpr, curveColumnName, curveTableToTsv, readCurveTableTsv, type CurveTable } from './curve-table.js';
+export { truthInFrame } from './truth-in-frame.js';
+export { maskOnGrid } from './mask-on-grid.js';

@@ -7,4 +7,4 @@ export { orthonormalSpan, projectOutBasis } from './project-out-basis.js';
 export { type HighpassParams, type DetrendParams, highpassStep, detrendStep } from './temporal-filter.js';
 export { type DropInitialVolumesParams, type ShiftedEvents, shiftEvents, dropInitialVolumesStep } from './drop-initial-volumes.js';
 export { requireMask } from './require-mask.js';
-export { type StepDefinition, registerStep, getStep, listSteps, parseStepParams, applyStep, describeStep } from './registry.js';
+export { type StepDefinition, type RegisterStepOptions, registerStep, getStep, listSteps, parseStepParams, applyStep, describeStep, stepModules, stepVersion } from './registry.js';

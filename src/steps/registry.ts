@@ -1,4 +1,6 @@
 import { z } from 'zod';
+import { isAbsolute } from 'node:path';
+import { pathToFileURL } from 'node:url';
 import { fail } from '../core/fail.js';
 import type { Volume } from '../core/volume.js';
 import { registerBuiltinSteps } from './builtin-steps.js';
@@ -49,20 +51,108 @@ export interface StepDefinition<P = Record<string, unknown>, E = unknown> {
 }
 
 const steps = new Map<string, StepDefinition<unknown>>();
+/** Module (file URL) that registers each user step, for worker threads to import. */
+const modules = new Map<string, string>();
+/** Names of the steps boldsweep ships with (every worker thread registers them itself). */
+const builtins = new Set<string>();
+
+const STEP_KINDS: readonly StepKind[] = ['select-volumes', 'temporal', 'spatial-filter', 'geometric'];
+
+/** Options of {@link registerStep}. */
+export interface RegisterStepOptions {
+  /** Allow overwriting an existing name. __Default value:__ false */
+  replace?: boolean;
+  /**
+   * URL (or absolute path) of the module that registers this step when imported, usually the
+   * caller's `import.meta.url`. A sweep's worker threads import it before their first task, so the
+   * step exists there too. The module must register the step under the same name with the same
+   * definition when imported (in any thread). __Default value:__ none: the step then works in this
+   * thread only (a sweep with worker threads refuses it with STEP_MODULE_MISSING)
+   */
+  module?: string;
+}
+
+/** Check the parts of a definition a schema cannot check (the sweep relies on them). */
+function checkDefinition(name: string, d: StepDefinition<unknown>): void {
+  const bad = (what: string): never => fail('INVALID_ARGUMENT', `step '${name}': ${what}`);
+  if (!d || typeof d !== 'object') bad('the definition must be an object');
+  if (!d.schema || typeof (d.schema as { safeParse?: unknown }).safeParse !== 'function') bad('schema must be a zod schema');
+  if (!Number.isInteger(d.version) || d.version < 1) bad(`version must be a positive integer (bump it whenever the step's numerics change), got ${String(d.version)}`);
+  if (!STEP_KINDS.includes(d.kind)) bad(`kind must be one of ${STEP_KINDS.join(', ')}, got ${String(d.kind)}`);
+  if (typeof d.apply !== 'function') bad('apply must be a function');
+  if (typeof d.describe !== 'function') bad('describe must be a function');
+  if (d.estimate !== undefined && typeof d.estimate !== 'function') bad('estimate must be a function when given');
+  if (d.outputFrame !== undefined && typeof d.outputFrame !== 'function') bad('outputFrame must be a function when given');
+  if (d.simplicity !== undefined && typeof d.simplicity !== 'function') bad('simplicity must be a function when given');
+  if (!d.labels || typeof d.labels !== 'object') bad('labels must be an object: parameter -> { name, unit }');
+  const keys = schemaKeys(d.schema as z.ZodTypeAny);
+  for (const [param, label] of Object.entries(d.labels)) {
+    if (keys.length > 0 && !keys.includes(param)) bad(`labels names '${param}', which is not a parameter (parameters: ${keys.join(', ')})`);
+    if (!label || typeof label.name !== 'string' || label.name.trim() === '' || typeof label.unit !== 'string') bad(`labels.${param} must be { name: non-empty text, unit: text ('' for none) }`);
+  }
+}
+
+/** A module reference as a file URL (an absolute path is converted). */
+function moduleUrl(name: string, module: string): string {
+  if (isAbsolute(module)) return pathToFileURL(module).href;
+  try {
+    return new URL(module).href;
+  } catch {
+    return fail('INVALID_ARGUMENT', `step '${name}': module must be a URL (e.g. import.meta.url) or an absolute path, got '${module}'`);
+  }
+}
 
 /**
  * Add a step under a name (lower-case words joined by '-'), so recipes and sweeps can use it.
  * @param name - step name, e.g. 'smooth'
- * @param definition - schema, apply, describe
- * @param options - replace: allow overwriting an existing name (default false)
+ * @param definition - schema, version, kind, apply, describe, labels (see {@link StepDefinition})
+ * @param options - replace: allow overwriting an existing name; module: the module that registers
+ *   the step (its `import.meta.url`), so a sweep's worker threads can register it too
  * @returns nothing
- * @throws BoldsweepError INVALID_ARGUMENT for a malformed or already used name
- * @example registerStep('clip', { schema: z.object({ max: z.number() }).strict(), apply: clipStep, describe: (p) => `clip ${p.max}` })
+ * @throws BoldsweepError INVALID_ARGUMENT for a malformed or already used name, or a malformed definition
+ *   (version not a positive integer, unknown kind, labels for parameters the schema lacks)
+ * @example registerStep('clip', { schema: z.object({ max: z.number() }).strict(), version: 1, kind: 'spatial-filter', apply: clipStep, describe: (p) => `clip ${p.max}`, labels: { max: { name: 'clip ceiling', unit: '' } } }, { module: import.meta.url })
  */
-export function registerStep<P>(name: string, definition: StepDefinition<P>, options: { replace?: boolean } = {}): void {
+export function registerStep<P, E = unknown>(name: string, definition: StepDefinition<P, E>, options: RegisterStepOptions = {}): void {
   if (!/^[a-z][a-z0-9]*(-[a-z0-9]+)*$/.test(name)) fail('INVALID_ARGUMENT', `step name must be lower-case words joined by '-', got '${name}'`);
   if (steps.has(name) && !options.replace) fail('INVALID_ARGUMENT', `a step named '${name}' is already registered (pass { replace: true } to overwrite it)`);
+  if (name === 'model') fail('INVALID_ARGUMENT', "'model' names the model options in a sweep; choose another step name");
+  checkDefinition(name, definition as unknown as StepDefinition<unknown>);
+  const module = options.module === undefined ? null : moduleUrl(name, options.module);
   steps.set(name, definition as unknown as StepDefinition<unknown>);
+  builtins.delete(name);
+  if (module) modules.set(name, module); else modules.delete(name);
+}
+
+/**
+ * The modules worker threads must import so that the named steps exist there: none for built-in
+ * steps, the registering module of each user step.
+ * @param names - step names (e.g. those of a sweep's recipe)
+ * @returns module URLs, sorted, without repeats
+ * @throws BoldsweepError UNKNOWN_STEP; STEP_MODULE_MISSING for a user step registered without `module`
+ * @example stepModules(['smooth', 'my-step']) // ['file:///home/me/my-step.mjs']
+ */
+export function stepModules(names: readonly string[]): string[] {
+  const out = new Set<string>();
+  for (const name of names) {
+    getStep(name);
+    if (builtins.has(name)) continue;
+    const m = modules.get(name);
+    if (!m) fail('STEP_MODULE_MISSING', `step '${name}' was registered without a module, so worker threads cannot load it`, { details: { step: name } });
+    out.add(m);
+  }
+  return [...out].sort();
+}
+
+/**
+ * Version of a registered step's numerics (part of every cache key that involves the step).
+ * @param name - step name
+ * @returns a positive integer
+ * @throws BoldsweepError UNKNOWN_STEP
+ * @example stepVersion('smooth') // 1
+ */
+export function stepVersion(name: string): number {
+  return getStep(name).version;
 }
 
 /**
@@ -122,13 +212,15 @@ export function parseStepParams(name: string, raw: unknown): unknown {
  * @param volume - the run (not modified)
  * @param raw - raw parameters
  * @param context - sidecar, events, mask
+ * @param estimate - what the step's `estimate` computed from the unplanted run for these parameters
+ *   (steps without `estimate` ignore it)
  * @returns the step's result (new volume, note, possibly a new context)
  * @throws BoldsweepError UNKNOWN_STEP, UNKNOWN_PARAMETER, INVALID_ARGUMENT, or the step's own errors
  * @example const { volume, note } = await applyStep('smooth', run.volume, { fwhmMm: 6 }, context)
  */
-export async function applyStep(name: string, volume: Volume, raw: unknown, context: StepContext): Promise<StepResult> {
+export async function applyStep(name: string, volume: Volume, raw: unknown, context: StepContext, estimate?: unknown): Promise<StepResult> {
   const params = parseStepParams(name, raw);
-  return getStep(name).apply(volume, params, context);
+  return getStep(name).apply(volume, params, context, estimate);
 }
 
 /**
@@ -142,4 +234,7 @@ export function describeStep(name: string, raw: unknown): string {
   return getStep(name).describe(parseStepParams(name, raw));
 }
 
-registerBuiltinSteps((name, definition) => registerStep(name, definition));
+registerBuiltinSteps((name, definition) => {
+  registerStep(name, definition);
+  builtins.add(name);
+});

@@ -9,21 +9,29 @@ import { estimateSmoothness } from '../model/smoothness.js';
 import { plantActivations, type PlantTruth } from '../plant/plant-activations.js';
 import { plantTimeCourse } from '../plant/plant-time-course.js';
 import type { StepContext, StepNote } from '../steps/step-types.js';
+import type { Frame } from '../core/grid-frame.js';
+import { affineSpacing } from '../core/affine.js';
+import type { NuisanceRegressor } from '../model/design.js';
+import { getStep, parseStepParams } from '../steps/registry.js';
+import { maskOnGrid } from '../score/mask-on-grid.js';
+import { truthInFrame } from '../score/truth-in-frame.js';
 import { rocCurve } from '../score/roc-curve.js';
 import { scoreDetection } from '../score/score-detection.js';
 import { DEFAULT_FPR_GRID, tprAtFpr } from '../score/curve-table.js';
 import { applyThresholdRule } from './threshold-rule.js';
 import { runRecipeStep } from './recipe-step.js';
+import { stableHash } from './stable-hash.js';
+import { modelSampleTimeSec } from './model-sample-time.js';
 import { collectGarbage } from './collect-garbage.js';
 import { isMainThread } from 'node:worker_threads';
-import { readGroupStage, writeCachedCell, writeCachedTsnr, writeGroupStage, type GroupStage } from './stage-cache.js';
+import { readGroupStage, writeCachedCell, writeCachedEstimate, writeCachedTsnr, writeGroupStage, type GroupStage } from './stage-cache.js';
 import { applyStagePatch, stagePatch, type StagePatch } from './stage-patch.js';
 import { sharesMemory } from './shares-memory.js';
 import { adoptWorkBuffer, currentWorkBuffer, releaseWorkBuffer, workBuffer } from './work-buffer.js';
 import { fail } from '../core/fail.js';
 import type { CellPlan, CellGroup } from './plan.js';
 import type { RecipeStep } from './spec.js';
-import type { CellResult, SweepContext, SweepTask, TsnrResult, TsnrTask } from './sweep-task.js';
+import type { CellResult, EstimateResult, EstimateTask, SweepContext, SweepTask, TsnrResult, TsnrTask } from './sweep-task.js';
 import type { BoldEvent } from '../io/run-types.js';
 import { randomBlockEvents } from './random-block-events.js';
 
@@ -52,6 +60,43 @@ import { randomBlockEvents } from './random-block-events.js';
 function sharedRunVolume(ctx: SweepContext): Volume {
   const r = ctx.run;
   return makeVolume({ dims: [...r.dims], spacingMm: [...r.spacingMm], trSec: r.trSec, affine: Float64Array.from(r.affine), data: r.data });
+}
+
+/**
+ * The context the first step sees: the run's sidecar, the task events, the brain mask, the raw
+ * frame, and the slice acquisition times from the sidecar's SliceTiming (when it has one per slice).
+ */
+function initialContext(ctx: SweepContext, events: BoldEvent[]): StepContext {
+  const times = ctx.sidecar?.SliceTiming;
+  const sliceTimesSec = times && times.length === ctx.run.dims[2] ? Float64Array.from(times) : null;
+  return { sidecar: ctx.sidecar, events, mask: ctx.brainMask, frame: { kind: 'raw' }, sliceTimesSec };
+}
+
+/** The estimate of key `key` (null key: the step estimates nothing). */
+function estimateOf(ctx: SweepContext, key: string | null | undefined): unknown {
+  if (key === null || key === undefined) return undefined;
+  if (!(key in ctx.estimates)) fail('INVALID_ARGUMENT', `sweep estimate ${key.slice(0, 12)} was not computed before the task that needs it`);
+  return ctx.estimates[key];
+}
+
+/** Brain and score masks carried onto each target grid a thread has met (key: the grid). */
+const masksOnGrid = new Map<string, { brain: Uint8Array; score: Uint8Array }>();
+
+/**
+ * The brain mask and the score mask in a frame: the sweep's own for the raw and reference frames
+ * (the run's grid); carried onto a target grid with maskOnGrid (trilinear, kept at >= 0.5).
+ */
+function masksInFrame(ctx: SweepContext, frame: Frame): { brain: Uint8Array; score: Uint8Array } {
+  if (frame.kind !== 'target') return { brain: ctx.brainMask, score: ctx.scoreMask };
+  const key = stableHash({ dims: frame.grid.dims, affine: frame.grid.affine, run: ctx.run.dims, runAffine: ctx.run.affine, brain: ctx.brainMask.length });
+  let m = masksOnGrid.get(key);
+  if (!m) {
+    const from = { dims: [ctx.run.dims[0], ctx.run.dims[1], ctx.run.dims[2]] as [number, number, number], affine: Float64Array.from(ctx.run.affine) };
+    m = { brain: maskOnGrid(ctx.brainMask, from, frame.grid), score: maskOnGrid(ctx.scoreMask, from, frame.grid) };
+    if (masksOnGrid.size > 8) masksOnGrid.clear();
+    masksOnGrid.set(key, m);
+  }
+  return m;
 }
 
 /**
@@ -107,15 +152,17 @@ async function computeGroupStage(ctx: SweepContext, group: CellGroup, trialType:
     volume = raw;
     truth = emptyTruth(raw, group.plantSeed, nt);
   }
-  let context: StepContext = { sidecar: ctx.sidecar, events, mask: ctx.brainMask };
+  let context = initialContext(ctx, events);
   const notes: StepNote[] = [];
-  for (const step of group.prefix) {
-    const r = await runRecipeStep(step, volume, context);
+  const regressors: NuisanceRegressor[] = [];
+  for (let i = 0; i < group.prefix.length; i++) {
+    const r = await runRecipeStep(group.prefix[i], volume, context, estimateOf(ctx, group.prefixEstimates[i]));
     volume = r.volume;
-    context = r.context ?? context;
+    context = r.context;
     notes.push(r.note);
+    if (r.regressors) regressors.push(...r.regressors);
   }
-  return { volume, truth, context, notes };
+  return { volume, truth, context, notes, regressors };
 }
 
 /**
@@ -142,10 +189,10 @@ async function unplantedBase(ctx: SweepContext, group: CellGroup, context: StepC
   if (prefixesWithoutBase.has(prefix)) return null;
   let volume = sharedRunVolume(ctx);
   let c = context;
-  for (const step of group.prefix) {
-    const r = await runRecipeStep(step, volume, c);
+  for (let i = 0; i < group.prefix.length; i++) {
+    const r = await runRecipeStep(group.prefix[i], volume, c, estimateOf(ctx, group.prefixEstimates[i]));
     volume = r.volume;
-    c = r.context ?? c;
+    c = r.context;
   }
   if (sharesMemory(volume.data, ctx.run.data)) return volume.data;
   prefixesWithoutBase.add(prefix);
@@ -162,7 +209,7 @@ async function obtainStage(task: SweepTask, trialType: string): Promise<{ stage:
   const ctx = task.context;
   const toHeld = (s: GroupStage, voxels: HeldStage['voxels']): HeldStage => {
     const { data: _data, ...geometry } = s.volume;
-    return { geometry, voxels, truth: s.truth, context: s.context, notes: s.notes };
+    return { geometry, voxels, truth: s.truth, context: s.context, notes: s.notes, regressors: s.regressors ?? [] };
   };
   if (ctx.stageMode === 'disk' && ctx.cacheDir) {
     const cached = readGroupStage(ctx.cacheDir, task.group.key, workBuffer);
@@ -177,7 +224,7 @@ async function obtainStage(task: SweepTask, trialType: string): Promise<{ stage:
   const stage = await computeGroupStage(ctx, task.group, trialType);
   // nothing planted and only volumes selected: the stage is the shared run itself
   if (sharesMemory(stage.volume.data, ctx.run.data)) return { stage: toHeld(stage, { whole: stage.volume.data }), how: 'computed' };
-  const base = await unplantedBase(ctx, task.group, { sidecar: ctx.sidecar, events: groupEvents(ctx, task.group), mask: ctx.brainMask });
+  const base = await unplantedBase(ctx, task.group, initialContext(ctx, groupEvents(ctx, task.group)));
   const patch = base ? stagePatch(stage.volume.data, base, voxelsPerVolume(stage.volume), MAX_PATCH_FRACTION) : null;
   if (base && patch) {
     // not written to the disk cache: planting again costs less than writing and syncing a run
@@ -221,14 +268,14 @@ function keptElsewhere(input: Float32Array, others: Float32Array[]): boolean {
  * Run one step with the thread's work buffer offered as its output (when the buffer is the input
  * itself or shares no memory with it, as the step context requires).
  */
-async function runStepIntoWork(step: RecipeStep, volume: Volume, context: StepContext): Promise<{ volume: Volume; context: StepContext; note: StepNote }> {
+async function runStepIntoWork(step: RecipeStep, volume: Volume, context: StepContext, estimate?: unknown): Promise<{ volume: Volume; context: StepContext; note: StepNote; regressors: NuisanceRegressor[] }> {
   const outputBuffer = (length: number): Float32Array => {
     const work = workBuffer(length);
     return work === volume.data || !sharesMemory(work, volume.data) ? work : new Float32Array(length);
   };
-  const r = await runRecipeStep(step, volume, { ...context, outputBuffer });
-  const { outputBuffer: _given, ...next } = r.context ?? context;
-  return { volume: r.volume, context: next, note: r.note };
+  const r = await runRecipeStep(step, volume, { ...context, outputBuffer }, estimate);
+  const { outputBuffer: _given, ...next } = r.context;
+  return { volume: r.volume, context: next, note: r.note, regressors: r.regressors ?? [] };
 }
 
 const finite = (x: number): number | null => (Number.isFinite(x) ? x : null);
@@ -255,18 +302,30 @@ function release(): void {
  * Model, threshold and score one preprocessed run.
  * @returns metrics, ROC samples
  */
-function modelAndScore(holder: { volume: Volume | null }, context: StepContext, truth: PlantTruth, ctx: SweepContext, cell: CellPlan, trialType: string): { metrics: Record<string, number | null>; tpr: number[]; residualsInWork: boolean } {
-  const brain = ctx.brainMask;
+function modelAndScore(holder: { volume: Volume | null }, context: StepContext, plantedTruth: PlantTruth, ctx: SweepContext, cell: CellPlan, trialType: string, regressors: readonly NuisanceRegressor[]): { metrics: Record<string, number | null>; tpr: number[]; residualsInWork: boolean } {
   let volume = holder.volume!;
+  // the cell's frame: on a target grid the masks and the truth are carried onto it
+  const frame: Frame = context.frame ?? { kind: 'raw' };
+  if (frame.kind === 'target') {
+    const g = frame.grid;
+    if (volume.dims[0] !== g.dims[0] || volume.dims[1] !== g.dims[1] || volume.dims[2] !== g.dims[2]) {
+      fail('GRID_MISMATCH', `the recipe's output is declared on a target grid [${g.dims.join('x')}] but has [${volume.dims.slice(0, 3).join('x')}] voxels: the geometric step's output frame and its output disagree`);
+    }
+  }
+  const { brain, score: scoreMask } = masksInFrame(ctx, frame);
+  const truth = truthInFrame(plantedTruth, frame);
 
   const events = context.events!;
   const nt = volume.dims[3];
   // censored volumes are indexed in the run as opened; steps may only have removed initial volumes
   const offset = ctx.run.dims[3] - nt;
-  const nuisance = [...new Set(cell.model.censorVolumes)].sort((a, b) => a - b).map((c) => c - offset).filter((c) => c >= 0 && c < nt)
+  const nuisance: NuisanceRegressor[] = [...new Set(cell.model.censorVolumes)].sort((a, b) => a - b).map((c) => c - offset).filter((c) => c >= 0 && c < nt)
     .map((c) => ({ name: `censor_${c + offset}`, values: Float64Array.from({ length: nt }, (_, t) => (t === c ? 1 : 0)) }));
+  nuisance.push(...regressors.map((r) => stepRegressor(r, nt)));
+  // slice times aligned to one time by a step: the task regressor is sampled then (else mid-volume)
+  const sampleTimeSec = modelSampleTimeSec(context.sliceTimesSec, volume.trSec);
   const design = buildDesign(events, {
-    nt, trSec: volume.trSec,
+    nt, trSec: volume.trSec, ...(sampleTimeSec === null ? {} : { sampleTimeSec }),
     drift: cell.model.highpassCutoffSec ? { kind: 'dct', cutoffSec: cell.model.highpassCutoffSec } : { kind: 'none' },
     nuisance,
   });
@@ -277,7 +336,8 @@ function modelAndScore(holder: { volume: Volume | null }, context: StepContext, 
   const glmOptions = { mask: brain, keepResiduals: true, residualsOut: residualsInWork ? volume.data : undefined };
   const fit = cell.model.ar1 ? fitGlmAr1(volume, design, { ...glmOptions, ar1SmoothFwhmMm: cell.model.ar1SmoothFwhmMm }) : fitGlm(volume, design, glmOptions);
   // the preprocessed run is not needed any more: let it go before the residuals are used
-  const grid = { dims: [volume.dims[0], volume.dims[1], volume.dims[2]], spacingMm: volume.spacingMm };
+  // voxel sizes of a target grid come from its affine (the step's spacingMm should agree)
+  const grid = { dims: [volume.dims[0], volume.dims[1], volume.dims[2]], spacingMm: frame.kind === 'target' ? affineSpacing(frame.grid.affine) : volume.spacingMm };
   holder.volume = null;
   volume = null as unknown as Volume;
   const maps = contrastMaps(fit, { [trialType]: 1 }, { name: trialType });
@@ -285,8 +345,8 @@ function modelAndScore(holder: { volume: Volume | null }, context: StepContext, 
   fit.residuals = null;
   const thr = applyThresholdRule(maps.t.data, brain, grid.dims, ctx.threshold, { kind: 't', dof: maps.dof }, smooth.fwhmMm, grid.spacingMm);
   // one ROC curve for both the scorecard's area and the curve table (it sorts every scored voxel)
-  const curve = hasBothClasses(truth.mask, ctx.scoreMask) ? rocCurve(maps.t.data, truth.mask, ctx.scoreMask) : undefined;
-  const score = scoreDetection({ statistic: maps.t, survivors: thr.survivors, truth, brainMask: ctx.scoreMask, effectPct: maps.percentSignalChange, threshold: thr.threshold, thresholdMethod: thr.rule, rocCurve: curve });
+  const curve = hasBothClasses(truth.mask, scoreMask) ? rocCurve(maps.t.data, truth.mask, scoreMask) : undefined;
+  const score = scoreDetection({ statistic: maps.t, survivors: thr.survivors, truth, brainMask: scoreMask, effectPct: maps.percentSignalChange, threshold: thr.threshold, thresholdMethod: thr.rule, rocCurve: curve });
   const tpr = score.truthVoxels > 0 && curve ? tprAtFpr(curve.fpr, curve.tpr, DEFAULT_FPR_GRID) : [];
   const [fx, fy, fz] = smooth.fwhmMm;
   const metrics: Record<string, number | null> = {};
@@ -299,6 +359,19 @@ function modelAndScore(holder: { volume: Volume | null }, context: StepContext, 
     smoothnessFwhmMm: finite(Math.cbrt(fx * fy * fz)), smoothnessXMm: finite(fx), smoothnessYMm: finite(fy), smoothnessZMm: finite(fz), dof: maps.dof,
   });
   return { metrics, tpr, residualsInWork };
+}
+
+/**
+ * A step's regressor for a model of `nt` volumes: regressors are per output volume of their step,
+ * and the only later steps that change the number of volumes drop initial ones, so a longer
+ * regressor loses its first values.
+ */
+function stepRegressor(r: NuisanceRegressor, nt: number): NuisanceRegressor {
+  const len = r.values.length;
+  if (len < nt) fail('INVALID_ARGUMENT', `step regressor '${r.name}' has ${len} values, the preprocessed run has ${nt} volumes`);
+  const values = new Float64Array(nt);
+  for (let t = 0; t < nt; t++) values[t] = r.values[len - nt + t];
+  return { name: r.name, values };
 }
 
 /**
@@ -324,20 +397,22 @@ export async function runSweepTask(task: SweepTask, onCell?: (done: number) => v
     let volume: Volume | null = stageVolume(stage);
     let context = stage.context;
     const notes = [...stage.notes];
+    const regressors = [...stage.regressors];
     const truth = stage.truth;
     stage = null;
-    for (const step of cell.suffix) {
+    for (let i = 0; i < cell.suffix.length; i++) {
       const input: Float32Array = volume!.data;
-      const r = await runStepIntoWork(step, volume!, context);
+      const r = await runStepIntoWork(cell.suffix[i], volume!, context, estimateOf(ctx, cell.suffixEstimates[i]));
       volume = r.volume;
       context = r.context;
       notes.push(r.note);
+      regressors.push(...r.regressors);
       // the step's input, when nothing else keeps it (a whole stage computed for this cell alone)
       if (!keptElsewhere(input, [ctx.run.data, volume.data, ...(held && 'whole' in held.voxels ? [held.voxels.whole] : [])])) release();
     }
     const holder = { volume };
     volume = null;
-    const { metrics, tpr, residualsInWork } = modelAndScore(holder, context, truth, ctx, cell, trialType);
+    const { metrics, tpr, residualsInWork } = modelAndScore(holder, context, truth, ctx, cell, trialType, regressors);
     const result: CellResult = { key: cell.key, metrics, tpr, notes, seconds: (performance.now() - t0) / 1000, groupStage: how };
     if (ctx.cacheDir) await writeCachedCell(ctx.cacheDir, result);
     out.push(result);
@@ -361,19 +436,48 @@ export async function runTsnrTask(task: TsnrTask): Promise<TsnrResult> {
   const t0 = performance.now();
   const ctx = task.context;
   let volume: Volume | null = sharedRunVolume(ctx);
-  let context: StepContext = { sidecar: ctx.sidecar, events: ctx.events, mask: ctx.brainMask };
-  for (const step of task.steps) {
+  let context = initialContext(ctx, ctx.events);
+  for (let i = 0; i < task.steps.length; i++) {
     const input: Float32Array = volume!.data;
-    const r = await runStepIntoWork(step, volume!, context);
+    const r = await runStepIntoWork(task.steps[i], volume!, context, estimateOf(ctx, task.estimates[i]));
     volume = r.volume;
     context = r.context;
     if (!keptElsewhere(input, [ctx.run.data, volume.data])) release();
   }
   const stats = voxelTimeStats(volume!, { detrendOrder: 2 });
   volume = null;
+  const { brain } = masksInFrame(ctx, context.frame ?? { kind: 'raw' });
   const inMask: number[] = [];
-  for (let v = 0; v < ctx.brainMask.length; v++) if (ctx.brainMask[v] && Number.isFinite(stats.tsnr[v])) inMask.push(stats.tsnr[v]);
+  for (let v = 0; v < brain.length; v++) if (brain[v] && Number.isFinite(stats.tsnr[v])) inMask.push(stats.tsnr[v]);
   const result: TsnrResult = { key: task.key, tsnrMedian: inMask.length ? medianOf(inMask) : null, seconds: (performance.now() - t0) / 1000 };
   if (ctx.cacheDir) await writeCachedTsnr(ctx.cacheDir, result);
+  return result;
+}
+
+/**
+ * What one step estimates from the unplanted run for one setting: the steps before it run on the run
+ * as it is (with their own estimates), then the step's `estimate`. Nothing planted ever reaches it,
+ * so every planting of the setting is preprocessed with the same estimate.
+ * @param task - the steps up to the estimating one and the shared context (with earlier estimates)
+ * @returns the estimate, its hash and the seconds taken (written to the cache when there is one)
+ * @example const { value, hash } = await runEstimateTask(task)
+ */
+export async function runEstimateTask(task: EstimateTask): Promise<EstimateResult> {
+  const t0 = performance.now();
+  const ctx = task.context;
+  let volume: Volume = sharedRunVolume(ctx);
+  let context = initialContext(ctx, ctx.events);
+  const last = task.steps.length - 1;
+  for (let i = 0; i < last; i++) {
+    const r = await runRecipeStep(task.steps[i], volume, context, estimateOf(ctx, task.before[i]));
+    volume = r.volume;
+    context = r.context;
+  }
+  const step = task.steps[last];
+  const def = getStep(step.step);
+  if (!def.estimate) fail('INVALID_ARGUMENT', `step '${step.step}' estimates nothing`);
+  const value = await def.estimate(volume, parseStepParams(step.step, step.params), context);
+  const result: EstimateResult = { key: task.key, value, hash: stableHash({ estimate: value }), seconds: (performance.now() - t0) / 1000 };
+  if (ctx.cacheDir) await writeCachedEstimate(ctx.cacheDir, result);
   return result;
 }

@@ -37,7 +37,7 @@ export function gatherResults(parts: SweepResult[], options: { allowPartial?: bo
   const curveRows = parts.flatMap((p) => p.curves.rows).sort((a, b) => a.cell - b.cell);
   const notes = new Map<number, SweepResult['notes'][number]>();
   for (const p of parts) for (const n of p.notes) if (!notes.has(n.settingIndex)) notes.set(n.settingIndex, n);
-  const sum = (k: 'cellsRun' | 'cellsComputed' | 'cellsFromCache' | 'tasks') => parts.reduce((s, p) => s + p.stats[k], 0);
+  const sum = (k: 'cellsRun' | 'cellsComputed' | 'cellsFromCache' | 'estimatesComputed' | 'tasks') => parts.reduce((s, p) => s + (p.stats[k] ?? 0), 0);
   return {
     ...first,
     scorecard: { ...first.scorecard, rows, seconds },
@@ -45,7 +45,7 @@ export function gatherResults(parts: SweepResult[], options: { allowPartial?: bo
     notes: [...notes.values()].sort((a, b) => a.settingIndex - b.settingIndex),
     shard: null,
     stats: {
-      cellsInPlan: expected, cellsRun: sum('cellsRun'), cellsComputed: sum('cellsComputed'), cellsFromCache: sum('cellsFromCache'), tasks: sum('tasks'),
+      cellsInPlan: expected, cellsRun: sum('cellsRun'), cellsComputed: sum('cellsComputed'), cellsFromCache: sum('cellsFromCache'), estimatesComputed: sum('estimatesComputed'), tasks: sum('tasks'),
       workers: Math.max(...parts.map((p) => p.stats.workers)), wallSeconds: Math.max(...parts.map((p) => p.stats.wallSeconds)),
     },
   };

@@ -1,10 +1,11 @@
 import { childSeed } from '../core/random.js';
+import { getStep } from '../steps/registry.js';
 import { settingsGrid, type Setting } from './settings-grid.js';
 import type { RecipeStep, SweepSpec } from './spec.js';
 import { stableHash } from './stable-hash.js';
 
 /** Bump when what a cached stage or cell holds changes, so old caches are never reused. */
-export const CACHE_FORMAT = 'boldsweep-sweep-cache-3';
+export const CACHE_FORMAT = 'boldsweep-sweep-cache-4';
 
 /** One planted condition: a blob size and amplitude (count 0 = nothing planted). */
 export interface PlantCondition {
@@ -33,6 +34,8 @@ export interface CellGroup {
   eventsSeed: number;
   /** Recipe steps run before the varied step (identical for every setting). */
   prefix: RecipeStep[];
+  /** Per prefix step: key of what it estimated from the unplanted run (see {@link EstimatePlan}), or null. */
+  prefixEstimates: Array<string | null>;
   /** Cache key of the group's output (hash of run, mask, planting and prefix steps). */
   key: string;
 }
@@ -46,6 +49,8 @@ export interface CellPlan {
   setting: Setting;
   /** Recipe steps from the first varied step on, with this setting's values filled in. */
   suffix: RecipeStep[];
+  /** Per suffix step: key of what it estimated from the unplanted run, or null. */
+  suffixEstimates: Array<string | null>;
   /** Model options with any varied "model.*" values filled in. */
   model: SweepSpec['model'];
   /** Cache key of the cell's scores. */
@@ -56,7 +61,9 @@ export interface CellPlan {
 export interface SweepPlan {
   settings: Setting[];
   /** Per setting: the whole recipe with the setting and the cache key of its tSNR (equal recipes share a key). */
-  tsnr: Array<{ settingIndex: number; steps: RecipeStep[]; key: string }>;
+  tsnr: Array<{ settingIndex: number; steps: RecipeStep[]; estimates: Array<string | null>; key: string }>;
+  /** What the recipe's steps estimate from the unplanted run, one entry per distinct key, in recipe order. */
+  estimates: EstimatePlan[];
   plants: PlantCondition[];
   groups: CellGroup[];
   cells: CellPlan[];
@@ -64,6 +71,27 @@ export interface SweepPlan {
   splitAt: number;
   /** Hash of everything that determines the scorecard (spec without workers, inputs). */
   sweepKey: string;
+}
+
+/**
+ * One estimate: a step with `estimate` at recipe position `at`, run on the unplanted run after the
+ * steps before it, for one setting of those steps and its own. Settings that agree on all of them
+ * share the estimate (one key).
+ */
+export interface EstimatePlan {
+  /** Cache key: run, masks, and the steps up to and including this one (names, versions, parameters). */
+  key: string;
+  /** Position of the estimating step in the recipe. */
+  at: number;
+  /** The recipe up to and including the estimating step, with the setting filled in. */
+  steps: RecipeStep[];
+  /** Per step before `at`: key of its own estimate, or null. */
+  before: Array<string | null>;
+}
+
+/** A recipe's steps as they enter cache keys: name, version of the numerics, parameters. */
+function keyed(steps: readonly RecipeStep[]): Array<{ step: string; version: number; params: Record<string, unknown> }> {
+  return steps.map((s) => ({ step: s.step, version: getStep(s.step).version, params: s.params }));
 }
 
 /** The inputs a plan depends on besides the spec (hashes, so the plan stays small). */
@@ -78,12 +106,15 @@ export interface PlanInputs {
  * Plan a sweep: plant conditions x repeats form groups (each planted once), and every setting of a
  * group forms a cell. Steps before the first varied one belong to the group, so a smoothing sweep
  * plants and runs the earlier steps once per repeat, not once per setting.
+ * Every key holds each involved step's name and version, and the hash of each estimate the steps
+ * use (when known: the runner plans once, computes the estimates, then plans again with their hashes).
  * @param spec - a validated spec
  * @param inputs - hashes of the run and its context
+ * @param estimateHashes - estimate key -> hash of the estimated value. __Default value:__ none
  * @returns the plan, cells ordered group by group
  * @example const plan = planSweep(spec, { runHash, contextHash }); plan.cells.length // settings x plants x repeats
  */
-export function planSweep(spec: SweepSpec, inputs: PlanInputs): SweepPlan {
+export function planSweep(spec: SweepSpec, inputs: PlanInputs, estimateHashes: Readonly<Record<string, string>> = {}): SweepPlan {
   const settings = settingsGrid(spec.vary);
   const { shape, count, marginMm, separation } = spec.plant;
   const plants: PlantCondition[] = count === 0
@@ -92,7 +123,23 @@ export function planSweep(spec: SweepSpec, inputs: PlanInputs): SweepPlan {
   const splitAt = firstVariedStep(spec);
   const prefix = spec.recipe.slice(0, splitAt);
   const { workers: _workers, ...determining } = spec;
-  const sweepKey = stableHash({ format: CACHE_FORMAT, spec: determining, inputs });
+  const sweepKey = stableHash({ format: CACHE_FORMAT, spec: determining, versions: keyed(spec.recipe).map((s) => s.version), inputs });
+  // estimates: per setting, one key per estimating step (from the recipe up to it)
+  const estimates = new Map<string, EstimatePlan>();
+  const estimateKeys = settings.map((setting) => {
+    const steps = applySetting(spec.recipe, setting);
+    const keys: Array<string | null> = [];
+    steps.forEach((s, at) => {
+      if (!getStep(s.step).estimate) { keys.push(null); return; }
+      const upTo = steps.slice(0, at + 1);
+      const key = stableHash({ format: CACHE_FORMAT, stage: 'estimate', inputs, steps: keyed(upTo) });
+      if (!estimates.has(key)) estimates.set(key, { key, at, steps: upTo, before: keys.slice() });
+      keys.push(key);
+    });
+    return keys;
+  });
+  const hashesOf = (keys: Array<string | null>) => keys.map((k) => (k === null ? null : estimateHashes[k] ?? null));
+  const prefixEstimates = (estimateKeys[0] ?? []).slice(0, splitAt);
   const groups: CellGroup[] = [];
   const cells: CellPlan[] = [];
   for (let p = 0; p < plants.length; p++) {
@@ -100,26 +147,27 @@ export function planSweep(spec: SweepSpec, inputs: PlanInputs): SweepPlan {
       const plantSeed = childSeed(spec.seed, 'plant', r);
       const eventsSeed = childSeed(spec.seed, 'events', r);
       const g: CellGroup = {
-        index: groups.length, plantIndex: p, plant: plants[p], repeat: r, plantSeed, prefix, events: spec.events, eventsSeed,
-        key: stableHash({ format: CACHE_FORMAT, stage: 'group', inputs, plant: plants[p], plantSeed, prefix, model: { trialType: spec.model.trialType }, events: spec.events, eventsSeed: spec.events.kind === 'run' ? null : eventsSeed }),
+        index: groups.length, plantIndex: p, plant: plants[p], repeat: r, plantSeed, prefix, prefixEstimates, events: spec.events, eventsSeed,
+        key: stableHash({ format: CACHE_FORMAT, stage: 'group', inputs, plant: plants[p], plantSeed, prefix: keyed(prefix), estimates: hashesOf(prefixEstimates), model: { trialType: spec.model.trialType }, events: spec.events, eventsSeed: spec.events.kind === 'run' ? null : eventsSeed }),
       };
       groups.push(g);
       settings.forEach((setting, s) => {
         const suffix = applySetting(spec.recipe.slice(splitAt), setting);
+        const suffixEstimates = estimateKeys[s].slice(splitAt);
         const model = { ...spec.model };
         for (const [k, v] of Object.entries(setting)) if (k.startsWith('model.')) (model as Record<string, unknown>)[k.slice(6)] = v;
         cells.push({
-          index: cells.length, group: g.index, settingIndex: s, setting, suffix, model,
-          key: stableHash({ format: CACHE_FORMAT, stage: 'cell', group: g.key, suffix, model, threshold: spec.threshold }),
+          index: cells.length, group: g.index, settingIndex: s, setting, suffix, suffixEstimates, model,
+          key: stableHash({ format: CACHE_FORMAT, stage: 'cell', group: g.key, suffix: keyed(suffix), estimates: hashesOf(suffixEstimates), model, threshold: spec.threshold }),
         });
       });
     }
   }
   const tsnr = settings.map((setting, settingIndex) => {
     const steps = applySetting(spec.recipe, setting);
-    return { settingIndex, steps, key: stableHash({ format: CACHE_FORMAT, stage: 'tsnr', inputs, steps }) };
+    return { settingIndex, steps, estimates: estimateKeys[settingIndex], key: stableHash({ format: CACHE_FORMAT, stage: 'tsnr', inputs, steps: keyed(steps), estimates: hashesOf(estimateKeys[settingIndex]) }) };
   });
-  return { settings, tsnr, plants, groups, cells, splitAt, sweepKey };
+  return { settings, tsnr, estimates: [...estimates.values()].sort((a, b) => a.at - b.at), plants, groups, cells, splitAt, sweepKey };
 }
 
 /**

@@ -6,7 +6,8 @@ import type { BoldEvent, Sidecar } from '../io/run-types.js';
 import { brainMaskFromMean } from '../look/brain-mask.js';
 import { meanImage } from '../look/mean-image.js';
 import type { StepNote } from '../steps/step-types.js';
-import { runSweepTask, runTsnrTask } from './cell-pipeline.js';
+import { runEstimateTask, runSweepTask, runTsnrTask } from './cell-pipeline.js';
+import { stepModules } from '../steps/registry.js';
 import { collectGarbage } from './collect-garbage.js';
 import { SCORECARD_METRICS } from './cell-metrics.js';
 import { DEFAULT_FPR_GRID, type CurveTable } from '../score/curve-table.js';
@@ -18,15 +19,17 @@ import { sharedBytes } from './shared-volume.js';
 import { parseSweepSpec } from './parse-sweep-spec.js';
 import type { SweepSpec, SweepSpecInput } from './spec.js';
 import { stableHash } from './stable-hash.js';
-import { readCachedCell, readCachedTsnr, removeGroupStage } from './stage-cache.js';
+import { readCachedCell, readCachedEstimate, readCachedTsnr, removeGroupStage } from './stage-cache.js';
 import { releaseWorkBuffer } from './work-buffer.js';
-import type { CellResult, SweepContext, SweepJob, SweepTask, TsnrResult, TsnrTask } from './sweep-task.js';
+import type { CellResult, EstimateResult, EstimateTask, SweepContext, SweepJob, SweepTask, TsnrResult, TsnrTask } from './sweep-task.js';
 
 /*
  * A sweep, phase by phase:
  *   1. validate the spec (shape, step names, parameters)
  *   2. masks and hashes of the inputs (run voxels, masks, events)
- *   3. plan: groups (plant condition x repeat) and cells (group x setting); keep this shard's cells
+ *   3. plan: groups (plant condition x repeat) and cells (group x setting); keep this shard's cells;
+ *      first what the recipe's steps estimate from the unplanted run (once per setting of the steps
+ *      up to each estimating step, cached), whose hashes enter the stage and cell keys
  *   4. take finished cells from the cache
  *   5. tasks: the remaining cells of each group (split when there are fewer groups than workers)
  *   6. run tasks on worker threads (or in this thread for workers = 1); each worker plants, runs the
@@ -82,6 +85,8 @@ export interface SweepStats {
   cellsRun: number;
   cellsComputed: number;
   cellsFromCache: number;
+  /** Estimates computed (not read from the cache) from the unplanted run. */
+  estimatesComputed: number;
   tasks: number;
   workers: number;
   wallSeconds: number;
@@ -170,13 +175,49 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
   const sha = (a: Uint8Array) => createHash('sha256').update(a).digest('hex');
   const contextHash = stableHash({ brain: sha(brainMask), placement: sha(placementMask), score: sha(scoreMask), events });
 
-  // 3. plan and shard
-  const plan = planSweep(spec, { runHash, contextHash });
+  // 3. estimates, plan and shard
+  // worker threads import the modules that register the recipe's user steps; a user step registered
+  // without one cannot run there (STEP_MODULE_MISSING, checked before any work)
+  const modules = options.inThisThread ? [] : stepModules(spec.recipe.map((r) => r.step));
+  const inputs = { runHash, contextHash };
+  const estimates: Record<string, unknown> = {};
+  const estimateHashes: Record<string, string> = {};
+  const cacheDir = options.cacheDir ?? null;
+  // masks go to worker threads in shared memory (made once, shared by every task)
+  const masks = options.inThisThread ? { brainMask, placementMask, scoreMask } : { brainMask: sharedBytes(brainMask), placementMask: sharedBytes(placementMask), scoreMask: sharedBytes(scoreMask) };
+  const baseContext = (stageMode: SweepContext['stageMode'], progress: Int32Array | null): SweepContext => ({
+    run: { dims: [...volume.dims], spacingMm: [...volume.spacingMm], trSec: volume.trSec, affine: Array.from(volume.affine), data: volume.data },
+    ...masks,
+    events, sidecar: run.sidecar, threshold: spec.threshold, cacheDir, stageMode, progress, stepModules: modules, estimates,
+  });
+  const estimatePlans = planSweep(spec, inputs).estimates;
+  let estimatesComputed = 0;
+  for (const at of [...new Set(estimatePlans.map((e) => e.at))]) {
+    // one recipe position at a time: a later estimate runs the earlier estimating steps with theirs
+    const todoNow: EstimateTask[] = [];
+    for (const e of estimatePlans.filter((x) => x.at === at)) {
+      const cached = cacheDir ? readCachedEstimate(cacheDir, e.key) : null;
+      if (cached) { estimates[e.key] = cached.value; estimateHashes[e.key] = cached.hash; continue; }
+      todoNow.push({ kind: 'estimate', index: todoNow.length, key: e.key, steps: e.steps, before: e.before, context: baseContext('none', null) });
+    }
+    const keepEstimate = (r: EstimateResult) => { estimates[r.key] = r.value; estimateHashes[r.key] = r.hash; estimatesComputed++; };
+    if (todoNow.length === 0) continue;
+    if (options.inThisThread) {
+      for (const t of todoNow) keepEstimate(await runEstimateTask(t));
+    } else {
+      const pool = createWorkerPool<SweepJob, EstimateResult>(new URL('./sweep-worker.js', import.meta.url), { size: Math.min(workers, todoNow.length) });
+      try {
+        (await Promise.all(todoNow.map((t) => pool.run(t)))).forEach(keepEstimate);
+      } finally {
+        await pool.close();
+      }
+    }
+  }
+  const plan = planSweep(spec, inputs, estimateHashes);
   const shard = options.shard ? (typeof options.shard === 'string' ? parseShard(options.shard) : options.shard) : null;
   const mine = shard ? shardCells(plan, shard) : plan.cells.map((c) => c.index);
 
   // 4. cache
-  const cacheDir = options.cacheDir ?? null;
   const results = new Map<number, CellResult>();
   let fromCache = 0;
   if (cacheDir) {
@@ -220,17 +261,10 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
   const useThreads = !options.inThisThread && taskCells.length + tsnrTodo.size > 0;
   const progress = new Int32Array(useThreads ? new SharedArrayBuffer(4 * Math.max(1, taskCells.length)) : new ArrayBuffer(4 * Math.max(1, taskCells.length)));
   const jobCount = taskCells.length + tsnrTodo.size;
-  const baseContext = (stageMode: SweepContext['stageMode']): SweepContext => ({
-    run: { dims: [...volume.dims], spacingMm: [...volume.spacingMm], trSec: volume.trSec, affine: Array.from(volume.affine), data: volume.data },
-    brainMask: useThreads ? sharedBytes(brainMask) : brainMask,
-    placementMask: useThreads ? sharedBytes(placementMask) : placementMask,
-    scoreMask: useThreads ? sharedBytes(scoreMask) : scoreMask,
-    events, sidecar: run.sidecar, threshold: spec.threshold, cacheDir, stageMode, progress,
-  });
   const reuse = options.reuseStages ?? true;
-  const ctxPlain = baseContext(reuse ? 'memory' : 'none');
+  const ctxPlain = baseContext(reuse ? 'memory' : 'none', progress);
   const ctxDisk: SweepContext = { ...ctxPlain, stageMode: 'disk' };
-  const tsnrTasks: TsnrTask[] = [...tsnrTodo.values()].map((t, i) => ({ kind: 'tsnr', index: taskCells.length + i, key: t.key, steps: t.steps, context: ctxPlain }));
+  const tsnrTasks: TsnrTask[] = [...tsnrTodo.values()].map((t, i) => ({ kind: 'tsnr', index: taskCells.length + i, key: t.key, steps: t.steps, estimates: t.estimates, context: ctxPlain }));
   const tasks: SweepTask[] = taskCells.map((t, i) => ({
     kind: 'cells', index: i, group: plan.groups[t.group], cells: t.cells,
     // a group stage goes to disk when other tasks (or a resumed sweep) can reuse it (cell-pipeline.ts
@@ -314,6 +348,6 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
     spec, plan: { settings: plan.settings, plants: plan.plants, splitAt: plan.splitAt, sweepKey: plan.sweepKey }, scorecard, curves,
     notes: [...notes.entries()].sort((a, b) => a[0] - b[0]).map(([settingIndex, ns]) => ({ settingIndex, notes: ns })),
     inputs: { runHash, contextHash }, shard,
-    stats: { cellsInPlan: plan.cells.length, cellsRun: total, cellsComputed: computed, cellsFromCache: fromCache, tasks: jobCount, workers: useThreads ? Math.min(workers, jobCount) : jobCount ? 1 : 0, wallSeconds: (performance.now() - t0) / 1000 },
+    stats: { cellsInPlan: plan.cells.length, cellsRun: total, cellsComputed: computed, cellsFromCache: fromCache, estimatesComputed, tasks: jobCount, workers: useThreads ? Math.min(workers, jobCount) : jobCount ? 1 : 0, wallSeconds: (performance.now() - t0) / 1000 },
   };
 }

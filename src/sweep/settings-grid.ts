@@ -1,3 +1,6 @@
+import { getStep, listSteps, parseStepParams } from '../steps/registry.js';
+import type { ParameterLabel } from '../steps/step-types.js';
+
 /** One point of a sweep's grid: "<step>.<param>" -> value. */
 export type Setting = Record<string, number | string | boolean | null>;
 
@@ -29,25 +32,35 @@ export function settingLabel(s: Setting): string {
   return parts.length ? parts.join(', ') : '(fixed recipe)';
 }
 
-/** Plain names of well-known parameters (others are spelled out from their key). */
-const PARAMETER_NAMES: Record<string, string> = {
-  'smooth.fwhmMm': 'smoothing FWHM',
-  'highpass.cutoffSec': 'high-pass cutoff',
-  'detrend.order': 'detrending order',
-  'drop-initial-volumes.count': 'initial volumes dropped',
-  'grand-mean-scale.target': 'grand-mean target',
-  'model.ar1': 'AR(1) noise model',
-  'model.ar1SmoothFwhmMm': 'AR(1) autocorrelation smoothing FWHM',
-  'model.highpassCutoffSec': 'model drift cutoff',
+/**
+ * Words and units of the model options a sweep may vary (the steps keep theirs in their definitions:
+ * StepDefinition.labels). Options not listed are spelled out from their key.
+ */
+const MODEL_LABELS: Record<string, ParameterLabel> = {
+  'model.ar1': { name: 'AR(1) noise model', unit: '' },
+  'model.ar1SmoothFwhmMm': { name: 'AR(1) autocorrelation smoothing FWHM', unit: 'mm' },
+  'model.highpassCutoffSec': { name: 'model drift cutoff', unit: 's' },
 };
 
+/** The label of a "<step>.<param>" or "model.<option>" key, from one place: the step's definition or the model table. */
+function labelOf(key: string): ParameterLabel | null {
+  if (MODEL_LABELS[key]) return MODEL_LABELS[key];
+  const dot = key.indexOf('.');
+  const step = key.slice(0, dot);
+  if (step === 'model' || !listSteps().includes(step)) return null;
+  return getStep(step).labels[key.slice(dot + 1)] ?? null;
+}
+
 /**
- * The unit a parameter name carries in its suffix (fwhmMm -> mm, cutoffSec -> s, ...).
+ * A parameter's unit: from the step definition's labels (or the model options' table); for a
+ * parameter without a label, the unit its name carries in its suffix (fwhmMm -> mm, cutoffSec -> s, ...).
  * @param key - e.g. 'smooth.fwhmMm'
- * @returns 'mm', 's', '%', 'deg' or ''
+ * @returns e.g. 'mm', 's', '%', 'deg' or ''
  * @example parameterUnit('highpass.cutoffSec') // 's'
  */
 export function parameterUnit(key: string): string {
+  const label = labelOf(key);
+  if (label) return label.unit;
   if (/Mm$/.test(key)) return 'mm';
   if (/Sec$/.test(key)) return 's';
   if (/Pct$/.test(key)) return '%';
@@ -56,17 +69,41 @@ export function parameterUnit(key: string): string {
 }
 
 /**
- * A parameter's plain name, without unit: "smooth.fwhmMm" -> "smoothing FWHM"; unknown keys become
- * "<step> <param words>".
+ * A parameter's plain name, without unit, from the step definition's labels (or the model options'
+ * table): "smooth.fwhmMm" -> "smoothing FWHM"; parameters without a label become "<step> <param words>".
  * @param key - "<step>.<param>"
  * @returns the name
  * @example parameterName('smooth.fwhmMm') // 'smoothing FWHM'
  */
 export function parameterName(key: string): string {
-  if (PARAMETER_NAMES[key]) return PARAMETER_NAMES[key];
+  const label = labelOf(key);
+  if (label) return label.name;
   const dot = key.indexOf('.');
   const param = key.slice(dot + 1).replace(/(Mm|Sec|Pct|Deg)$/, '').replace(/([a-z])([A-Z])/g, '$1 $2').toLowerCase();
   return `${key.slice(0, dot)} ${param}`;
+}
+
+/**
+ * How simple a setting is by its steps' own simplicity orders (StepDefinition.simplicity): for each
+ * varied step, its simplicity at the recipe's parameters with the setting filled in, in the order
+ * the keys are varied; model options and steps without a simplicity order give null (use the
+ * sweep's order of values).
+ * @param setting - the setting
+ * @param recipe - the sweep's recipe (fixed parameters of each step)
+ * @returns one number (lower = simpler) or null per varied key
+ * @example settingSimplicity({ 'smooth.fwhmMm': 6 }, spec.recipe) // [6]
+ */
+export function settingSimplicity(setting: Setting, recipe: ReadonlyArray<{ step: string; params: Record<string, unknown> }>): Array<number | null> {
+  return Object.entries(setting).map(([key, value]) => {
+    const dot = key.indexOf('.');
+    const step = key.slice(0, dot);
+    const at = recipe.find((r) => r.step === step);
+    if (step === 'model' || !at || !listSteps().includes(step)) return null;
+    const def = getStep(step);
+    if (!def.simplicity) return null;
+    const s = def.simplicity(parseStepParams(step, { ...at.params, [key.slice(dot + 1)]: value }));
+    return Number.isFinite(s) ? s : null;
+  });
 }
 
 /**
@@ -81,4 +118,40 @@ export function settingText(s: Setting): string {
     return `${parameterName(k)} ${v}${unit ? (unit === '%' ? ' %' : ` ${unit}`) : ''}`;
   });
   return parts.length ? parts.join(', ') : 'the fixed recipe';
+}
+
+/**
+ * Which end of the varied values is simpler, by the varied steps' own simplicity orders
+ * (StepDefinition.simplicity) at the recipe's parameters: 'smallest' when every varied step
+ * parameter's simplicity rises with its value, 'largest' when every one falls, null when they
+ * disagree, a key has no order (a model option, a step without `simplicity`, one not registered
+ * here) or values are not numbers. The recommendation's one-standard-error rule uses it as its
+ * default preference.
+ * @param spec - the sweep's recipe and varied values
+ * @returns 'smallest', 'largest' or null
+ * @example simplerEnd({ recipe: [{ step: 'highpass', params: { cutoffSec: 128 } }], vary: { 'highpass.cutoffSec': [64, 128] } }) // 'largest'
+ */
+export function simplerEnd(spec: { recipe: ReadonlyArray<{ step: string; params: Record<string, unknown> }>; vary: Record<string, ReadonlyArray<number | string | boolean | null>> }): 'smallest' | 'largest' | null {
+  let end: 'smallest' | 'largest' | null = null;
+  for (const [key, values] of Object.entries(spec.vary)) {
+    if (values.length < 2) continue;
+    if (values.some((v) => typeof v !== 'number')) return null;
+    let ranked: Array<[number, number]>;
+    try {
+      ranked = values.map((v) => [v as number, settingSimplicity({ [key]: v }, spec.recipe)[0] ?? NaN]);
+    } catch {
+      return null; // parameters this registry cannot check (a step registered elsewhere)
+    }
+    if (ranked.some(([, s]) => !Number.isFinite(s))) return null;
+    ranked.sort((a, b) => a[0] - b[0]);
+    let rising = true, falling = true;
+    for (let i = 1; i < ranked.length; i++) {
+      if (ranked[i][1] < ranked[i - 1][1]) rising = false;
+      if (ranked[i][1] > ranked[i - 1][1]) falling = false;
+    }
+    const here = rising && !falling ? 'smallest' : falling && !rising ? 'largest' : null;
+    if (here === null || (end !== null && end !== here)) return null;
+    end = here;
+  }
+  return end;
 }

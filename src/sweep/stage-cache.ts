@@ -4,7 +4,8 @@ import { writeFileAtomic } from '../io/atomic-write.js';
 import type { Volume } from '../core/volume.js';
 import type { StepContext, StepNote } from '../steps/step-types.js';
 import type { PlantTruth } from '../plant/plant-activations.js';
-import type { CellResult, TsnrResult } from './sweep-task.js';
+import type { NuisanceRegressor } from '../model/design.js';
+import type { CellResult, EstimateResult, TsnrResult } from './sweep-task.js';
 
 /**
  * The stage cache on disk. Every file is written atomically (temp file + rename), so an interrupted
@@ -15,14 +16,18 @@ import type { CellResult, TsnrResult } from './sweep-task.js';
  *   <dir>/groups/<key>.f32    a group stage: the planted run after the shared steps (raw float32), when
  *                             a sweep cannot keep it as a small patch (see cell-pipeline.ts)
  *   <dir>/groups/<key>.json   its geometry, step context, notes and planted truth (written last)
+ *   <dir>/estimates/<key>.json what a step estimated from the unplanted run for one setting
  */
 
 /** A group stage: the planted run after the steps shared by every setting. */
 export interface GroupStage {
   volume: Volume;
   truth: PlantTruth;
+  /** The context after the shared steps; its `frame` says where the stage's voxels live. */
   context: StepContext;
   notes: StepNote[];
+  /** Regressors the shared steps handed the model (one value per volume of the step's output). */
+  regressors: NuisanceRegressor[];
 }
 
 type Encoded = { $typed: string; base64: string };
@@ -206,4 +211,34 @@ export function readCachedTsnr(dir: string, key: string): TsnrResult | null {
 export async function writeCachedTsnr(dir: string, result: TsnrResult): Promise<void> {
   mkdirSync(join(dir, 'tsnr'), { recursive: true });
   await writeFileAtomic(join(dir, 'tsnr', `${result.key}.json`), JSON.stringify(result));
+}
+
+/**
+ * Read what a step estimated from the unplanted run.
+ * @param dir - cache folder
+ * @param key - estimate key
+ * @returns the result, or null when absent or unreadable (then it is computed again)
+ * @example readCachedEstimate(dir, plan.estimates[0].key)
+ */
+export function readCachedEstimate(dir: string, key: string): EstimateResult | null {
+  const path = join(dir, 'estimates', `${key}.json`);
+  if (!existsSync(path)) return null;
+  try {
+    const r = readCacheJson<EstimateResult>(readFileSync(path, 'utf8'));
+    return r.key === key ? r : null;
+  } catch {
+    return null;
+  }
+}
+
+/**
+ * Store what a step estimated from the unplanted run.
+ * @param dir - cache folder
+ * @param result - the estimate (its key names the file)
+ * @returns when the file is in place
+ * @example await writeCachedEstimate(dir, result)
+ */
+export async function writeCachedEstimate(dir: string, result: EstimateResult): Promise<void> {
+  mkdirSync(join(dir, 'estimates'), { recursive: true });
+  await writeFileAtomic(join(dir, 'estimates', `${result.key}.json`), writeCacheJson(result));
 }

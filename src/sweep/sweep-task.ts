@@ -36,6 +36,10 @@ export interface SweepContext {
   stageMode: 'disk' | 'memory' | 'none';
   /** Per-task progress counters (cells done), shared with the main thread; index = task index. */
   progress: Int32Array | null;
+  /** Modules a worker thread imports before its first task, so the user steps of the recipe exist there. */
+  stepModules: string[];
+  /** What the recipe's steps estimated from the unplanted run: estimate key -> value (see plan.ts). */
+  estimates: Record<string, unknown>;
 }
 
 /** One task: some cells of one group (usually all of them). */
@@ -74,6 +78,8 @@ export interface TsnrTask {
   key: string;
   /** The whole recipe with the setting filled in. */
   steps: RecipeStep[];
+  /** Per step: key of its estimate (in `context.estimates`), or null. */
+  estimates: Array<string | null>;
   context: SweepContext;
 }
 
@@ -84,5 +90,31 @@ export interface TsnrResult {
   seconds: number;
 }
 
+/**
+ * What one step estimates from the unplanted run (say motion parameters) for one setting of the
+ * steps up to it: the steps before it run on the run as it is, then the step's `estimate`.
+ */
+export interface EstimateTask {
+  kind: 'estimate';
+  index: number;
+  /** Cache key (run, masks, steps up to and including the estimating one, their versions). */
+  key: string;
+  /** The recipe up to and including the estimating step, with the setting filled in. */
+  steps: RecipeStep[];
+  /** Per step before the last: key of its own estimate (in `context.estimates`), or null. */
+  before: Array<string | null>;
+  context: SweepContext;
+}
+
+/** What an estimate task produced. */
+export interface EstimateResult {
+  key: string;
+  /** The estimate, as the step returned it (structured-cloneable). */
+  value: unknown;
+  /** Hash of the value: it enters the cache keys of every stage that used it. */
+  hash: string;
+  seconds: number;
+}
+
 /** Anything a sweep worker runs. */
-export type SweepJob = SweepTask | TsnrTask;
+export type SweepJob = SweepTask | TsnrTask | EstimateTask;
