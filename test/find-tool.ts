@@ -107,3 +107,30 @@ function runs(path: string, args: string[]): string {
   if (r.status === 0) return '';
   return `\`${[path, ...args].join(' ')}\` failed (${r.error?.message ?? `exit ${r.status}`}${r.stderr ? `: ${r.stderr.trim().split('\n').pop()}` : ''})`;
 }
+
+/** The Slurm and munge executables a test cluster needs, found or not. */
+export interface FoundSlurm {
+  exe: { munged: string; slurmctld: string; slurmd: string; sbatch: string } | null;
+  reason: string;
+}
+
+/**
+ * Find sbatch (see findTool('slurm')) and the daemons munged, slurmctld and slurmd: in
+ * `$BOLDSWEEP_SLURM_DAEMONS` (a folder) when set, else on PATH (Debian puts them in /usr/sbin).
+ * Prints the reason and returns exe null when one is missing; throws under BOLDSWEEP_REQUIRE_TOOLS=1.
+ * @returns the executables, or null and why
+ * @example const slurm = findSlurm(); describe.skipIf(!slurm.exe)('on Slurm', ...)
+ */
+export function findSlurm(): FoundSlurm {
+  const sbatch = findTool('slurm');
+  if (!sbatch.path) return { exe: null, reason: sbatch.reason };
+  const daemonDir = process.env.BOLDSWEEP_SLURM_DAEMONS;
+  const find = (n: string) => (daemonDir ? (isExecutable(join(daemonDir, n)) ? join(daemonDir, n) : null) : onPath([n]));
+  const munged = find('munged'), slurmctld = find('slurmctld'), slurmd = find('slurmd');
+  if (munged && slurmctld && slurmd) return { exe: { munged, slurmctld, slurmd, sbatch: sbatch.path }, reason: '' };
+  const missing = [['munged', munged], ['slurmctld', slurmctld], ['slurmd', slurmd]].filter(([, p]) => !p).map(([n]) => n).join(', ');
+  const reason = `${missing} not found ${daemonDir ? `in BOLDSWEEP_SLURM_DAEMONS=${daemonDir}` : 'on PATH (add /usr/sbin)'} (install Debian's slurm-wlm munge, or set BOLDSWEEP_SLURM_DAEMONS to their folder)`;
+  if (toolsRequired()) throw new Error(`BOLDSWEEP_REQUIRE_TOOLS=1 and the Slurm daemons are missing: ${reason}`);
+  console.warn(`skipping the checks that need a Slurm cluster: ${reason}`);
+  return { exe: null, reason };
+}

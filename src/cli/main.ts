@@ -9,6 +9,7 @@ import { registerLook } from './look-command.js';
 import { registerSweepCommand, registerGatherCommand } from './sweep-command.js';
 import { registerReportCommand } from './report-command.js';
 import { registerDemoCommand } from './demo-command.js';
+import { registerSlurmCommand } from './slurm-command.js';
 
 const program = new Command();
 program
@@ -20,6 +21,7 @@ registerLook(program);
 registerSweepCommand(program); registerGatherCommand(program);
 registerReportCommand(program);
 registerDemoCommand(program);
+registerSlurmCommand(program);
 
 
 program.parseAsync(process.argv).catch((e: unknown) => {
