@@ -73,7 +73,7 @@ async function child(args: string[]): Promise<void> {
   }
   const [workers, repeats, cacheDir] = rest;
   const t0 = performance.now();
-  let run = await openRun(path);
+  let run = await openRun(path, { sharedMemory: true });
   run = { ...run, volume: shareVolume(run.volume) };
   const brainMask = await buildMask({ kind: 'otsu-mean' }, run.volume);
   const r = await runSweep(run, cellSpec(Number(repeats), Number(workers)), { cacheDir, brainMask, placementMask: brainMask });

@@ -43,8 +43,8 @@ export async function runDemo(o: DemoCliOptions): Promise<void> {
   const dataDir = resolve(o.data ?? join(packageRoot(), 'data-demo'));
   const image = join(dataDir, `${DEMO_RUN_STEM}_bold.nii.gz`);
   if (!existsSync(image)) fail('FILE_NOT_FOUND', `the demo run ${image} is missing (regenerate it with "npm run make-demo-data")`);
-  let run = await openRun(image);
-  // one copy of the run, in shared memory (the original becomes garbage)
+  let run = await openRun(image, { sharedMemory: true });
+  // one copy of the run, read straight into shared memory (shareVolume then keeps it as it is)
   run = { ...run, volume: shareVolume(run.volume) };
 
   // 1. the run and a first look

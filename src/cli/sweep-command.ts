@@ -57,7 +57,7 @@ Example:
   boldsweep report sweeps/smoothing`)
     .action(async (runPath: string, o: SweepCliOptions) => {
       const spec = readSweepSpec(o.spec);
-      let run = await openRun(runPath);
+      let run = await openRun(runPath, { sharedMemory: true });
       run = { ...run, volume: shareVolume(run.volume) };
       const masks: { brain: MaskSource; placement: MaskSource; exclude: MaskSource | null } = {
         brain: o.mask ? await maskFromFile(o.mask, { values: o.maskValues }) : { kind: 'otsu-mean' },
