@@ -22,7 +22,7 @@ export interface TaskMemory {
   requestMib: number;
   /** The run as 32-bit floats, MiB. */
   runMib: number;
-  /** Peak while opening: file bytes, decompressed bytes, the run and its shared-memory copy, plus the baseline. */
+  /** Peak while opening: for .nii.gz the compressed and decompressed bytes, the run (read straight into shared memory), plus the baseline. */
   openMib: number;
   /** Peak while sweeping: the run, one run-sized work array per worker, per-voxel maps, baseline. */
   sweepMib: number;
@@ -55,7 +55,7 @@ export function taskMemory(m: TaskMemoryInput): TaskMemory {
   const runMib = (m.voxels4d * 4) / MIB;
   const decompressedMib = m.compressed ? (m.voxels4d * m.fileBytesPerVoxel) / MIB : 0;
   const packedMib = m.compressed ? m.fileBytes / MIB : 0;
-  const openMib = MAIN_BASELINE_MIB + packedMib + decompressedMib + 2 * runMib;
+  const openMib = MAIN_BASELINE_MIB + packedMib + decompressedMib + runMib;
   const mapsMib = (m.workers * m.voxels3d * MODEL_BYTES_PER_VOXEL) / MIB;
   const sweepMib = MAIN_BASELINE_MIB + m.workers * WORKER_BASELINE_MIB + (1 + m.workers) * runMib + mapsMib;
   const requestMib = Math.ceil((Math.max(openMib, sweepMib) * MEMORY_MARGIN) / 256) * 256;
@@ -64,8 +64,8 @@ export function taskMemory(m: TaskMemoryInput): TaskMemory {
     `run as float32: ${f(runMib)} (${m.voxels4d} voxel-volumes x 4 bytes)`,
     `sweeping: the run once (shared) + ${m.workers} run-sized work array(s), one per worker + per-voxel model maps ${f(mapsMib)} + Node ${MAIN_BASELINE_MIB} MiB + ${m.workers} x ${WORKER_BASELINE_MIB} MiB per worker = ${f(sweepMib)}`,
     m.compressed
-      ? `opening (.nii.gz): compressed ${f(packedMib)} + decompressed ${f(decompressedMib)} + the run and its shared copy ${f(2 * runMib)} + Node = ${f(openMib)}`
-      : `opening: the run and its shared copy ${f(2 * runMib)} + Node = ${f(openMib)}`,
+      ? `opening (.nii.gz): compressed ${f(packedMib)} + decompressed ${f(decompressedMib)} + the run ${f(runMib)} + Node = ${f(openMib)}`
+      : `opening: the run ${f(runMib)} + Node = ${f(openMib)}`,
     `request: the larger x ${MEMORY_MARGIN} margin, rounded up to 256 MiB = ${requestMib} MiB`,
   ];
   return { requestMib, runMib, openMib, sweepMib, lines };
