@@ -49,7 +49,7 @@ async function child(args: string[]): Promise<void> {
   const [dataDir, cacheDir, workers, repeats, reuse] = args;
   const baselineRssBytes = process.memoryUsage().rss;
   const t0 = performance.now();
-  let run = await openRun(join(dataDir, `${STEM}_bold.nii.gz`));
+  let run = await openRun(join(dataDir, `${STEM}_bold.nii.gz`), { sharedMemory: true });
   run = { ...run, volume: shareVolume(run.volume) };
   const brainMask = await buildMask({ kind: 'otsu-mean' }, run.volume);
   const placementMask = await buildMask(await maskFromFile(join(dataDir, `${STEM}_truth-tissue.nii.gz`), { values: [TISSUE_LABEL['grey-matter']] }), run.volume);

@@ -31,3 +31,4 @@ export * from './sweep/index.js';
 export * from './decide/index.js';
 export * from './report/index.js';
 export * from './simulate/index.js';
+export * from './cluster/index.js';

@@ -47,8 +47,8 @@ export async function runDemo(o: DemoCliOptions): Promise<void> {
   if (!existsSync(image)) fail('FILE_NOT_FOUND', `the demo run ${image} is missing (regenerate it with "npm run make-demo-data")`);
   const write = { force: o.force, inputs: [image] };
   checkOutputFolder(o.out, write);
-  let run = await openRun(image);
-  // one copy of the run, in shared memory (the original becomes garbage)
+  let run = await openRun(image, { sharedMemory: true });
+  // one copy of the run, read straight into shared memory (shareVolume then keeps it as it is)
   run = { ...run, volume: shareVolume(run.volume) };
 
   // 1. the run and a first look

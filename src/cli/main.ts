@@ -13,6 +13,7 @@ import { registerSpecCommand } from './spec-command.js';
 import { registerSweepCommand, registerGatherCommand } from './sweep-command.js';
 import { registerReportCommand } from './report-command.js';
 import { registerDemoCommand } from './demo-command.js';
+import { registerSlurmCommand } from './slurm-command.js';
 
 const program = new Command().exitOverride(exitTwoOnUsage);
 program
@@ -36,6 +37,7 @@ registerSpecCommand(program);
 registerSweepCommand(program); registerGatherCommand(program);
 registerReportCommand(program);
 registerDemoCommand(program);
+registerSlurmCommand(program);
 
 program.parseAsync(process.argv).catch((e: unknown) => {
   if (isBoldsweepError(e)) {

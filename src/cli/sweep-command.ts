@@ -77,7 +77,7 @@ Example:
       const inputs = [runPath, o.mask, o.placement, o.exclude, o.events, o.sidecar, o.look];
       checkOutputFolder(o.out, { force: o.force, inputs });
       let spec = readSweepSpec(o.spec);
-      let run = await openRun(runPath, { ...(o.events ? { events: o.events } : {}), ...(o.sidecar ? { sidecar: o.sidecar } : {}) });
+      let run = await openRun(runPath, { sharedMemory: true, ...(o.events ? { events: o.events } : {}), ...(o.sidecar ? { sidecar: o.sidecar } : {}) });
       if (spec.events.kind === 'run' && !run.events?.length) {
         const expected = basename(siblingCandidates(runPath).events[0]);
         fail('EVENTS_MISSING', `the spec plants and models the run's own task timing, but ${o.events ? `${o.events} holds no events` : `there is no events file ${expected} beside ${basename(runPath)}`} (pass one with --events <file>)`);

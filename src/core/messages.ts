@@ -54,6 +54,11 @@ export const ERROR_ADVICE = {
   WORKER_SCRIPT_MISSING: 'Worker threads run compiled JavaScript: build the package first (npm run build) so the worker file exists under dist/.',
   KERNEL_MISSING: 'The WebAssembly kernels are compiled at build time: run npm run build (it writes dist/kernels/ from kernels/).',
   WORKER_FAILED: 'A worker thread stopped unexpectedly (often out of memory). Retry with fewer workers, or workers: 1 to run in the main thread.',
+  // cluster (Slurm job arrays of shards)
+  TOO_MANY_SHARDS: 'Use at most as many shards as the sweep has planting groups (plant conditions x repeats): a shard runs whole groups, so more shards would leave some with nothing to do.',
+  SHARD_SWEEP_MISMATCH: 'Gather only the shard folders of one sweep (same run, spec, seed and masks). Remove the folder that belongs to another sweep from the list, or run that shard again with this spec.',
+  SBATCH_MISSING: 'Run this where the Slurm client is installed (a cluster login node; Debian package slurm-client), or leave out --submit and submit the written scripts there with submit.sh.',
+  SBATCH_FAILED: 'Read the scheduler\'s message above (partition, memory or time limits, account); adjust --partition, --time or --workers and run again, or edit the written scripts and run submit.sh.',
 } as const;
 
 /** Stable error codes; see {@link ERROR_ADVICE} for what each means. */

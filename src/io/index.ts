@@ -5,6 +5,7 @@ export { int16Scaling, type Int16Scaling } from './int16-scaling.js';
 export type { Run, Sidecar, BoldEvent, NiftiReadInfo, TransformSource } from './run-types.js';
 export { readNifti, type ReadNiftiOptions } from './nifti-read.js';
 export { parseNiftiHeader, MAX_DIM, MAX_VOXELS, type NiftiHeaderFacts } from './nifti-header.js';
+export { readNiftiHeaderFacts, type NiftiHeaderOnly } from './read-nifti-header-facts.js';
 export { NIFTI_DATATYPES, niftiDatatypeName, type NiftiDatatype } from './nifti-datatypes.js';
 export { convertVoxels } from './convert-voxels.js';
 export { niftiTransform, usableAffine } from './nifti-transform.js';

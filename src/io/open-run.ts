@@ -14,6 +14,8 @@ export interface OpenRunOptions {
   events?: string | null;
   /** NaN/Inf voxels: `'error'` refuses the run, `'zero'` sets them to 0 and counts them. __Default value:__ `'error'`. */
   nonFinite?: 'error' | 'zero';
+  /** Voxels on a SharedArrayBuffer (for a sweep's worker threads; no second copy). __Default value:__ `false`. */
+  sharedMemory?: boolean;
 }
 
 /**
@@ -33,7 +35,7 @@ export async function openRun(path: string, options: OpenRunOptions = {}): Promi
   const sidecarPath = options.sidecar === undefined ? found.sidecar : options.sidecar;
   const eventsPath = options.events === undefined ? found.events : options.events;
 
-  const { volume, info } = await readNifti(path, { nonFinite: options.nonFinite });
+  const { volume, info } = await readNifti(path, { nonFinite: options.nonFinite, sharedMemory: options.sharedMemory });
   const [, , nz, nt] = volume.dims;
   if (nt < 2) fail('NOT_4D', `the image has dims [${volume.dims.join(', ')}] (${nt} volume)`, { file: path });
 

@@ -2,7 +2,7 @@ import { fail } from '../core/fail.js';
 
 /**
  * Grey-matter T1 at 3 T used when the caller gives none: 1.331 s (Wansapura JP et al. 1999 J Magn
- * Reson Imaging 9(4):531-538; value from memory, see references §6). Published values span about
+ * Reson Imaging 9(4):531-538; value from memory, see REFERENCES.md §6). Published values span about
  * 1.3-1.8 s (Stanisz et al. 2005 give 1.82 s), so the model count is evidence, not a rule.
  */
 export const GREY_MATTER_T1_SEC_3T = 1.331;

@@ -77,7 +77,7 @@ export function ar1BiasTraces(design: Pick<DesignMatrix, 'x' | 'nt' | 'p'>): { m
 
 /**
  * Bias-corrected lag-1 autocorrelation (Worsley KJ et al. 2002, NeuroImage 15:1-15; formula as
- * re-derived in the project's reference notes): with a0 = r'r and a1 = sum r_t r_{t-1} of the OLS
+ * re-derived; REFERENCES.md §13): with a0 = r'r and a1 = sum r_t r_{t-1} of the OLS
  * residuals, rho~ = (m00 a1 - m10 a0) / (m11 a0 - m01 a1). First-order in rho, so a small bias
  * remains at large rho.
  * @param a0 - sum of squared residuals

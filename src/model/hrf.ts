@@ -14,7 +14,7 @@ export type HrfShape = 'glover' | 'gamma-difference';
 /**
  * Parameters of the Glover form. The defaults a1 = 6, a2 = 12, b1 = b2 = 0.9 s, c = 0.35 are quoted
  * from memory of Glover (1999); the values they produce are checked in the tests against a scipy
- * fixture and the project's reference table, not against the paper itself.
+ * fixture and REFERENCES.md §2, not against the paper itself.
  */
 export interface GloverParams {
   /** Shape of the positive lobe (dimensionless). __Default value:__ 6 */

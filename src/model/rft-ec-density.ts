@@ -9,7 +9,7 @@ const L = 4 * Math.LN2;
 
 /**
  * Euler-characteristic densities rho_0..rho_3 of a unit-variance Gaussian (z) or Student t random
- * field, per resel (Worsley KJ et al. 1996, Hum Brain Mapp 4:58-73; formulas from memory, checked against the values in shared references section 8). With L = 4 ln 2:
+ * field, per resel (Worsley KJ et al. 1996, Hum Brain Mapp 4:58-73; formulas from memory, checked against the values in REFERENCES.md §8). With L = 4 ln 2:
  *
  * z:  rho0 = 1 - Phi(u);  rho1 = sqrt(L) e^{-u^2/2} / (2 pi);  rho2 = L u e^{-u^2/2} / (2 pi)^{3/2};
  *     rho3 = L^{3/2} (u^2 - 1) e^{-u^2/2} / (2 pi)^2.

@@ -16,7 +16,7 @@ export function fwhmFromDerivativeVariance(lambda: number): number {
  * @param fwhm - FWHM (same unit as dx)
  * @param dx - lag (voxel size)
  * @returns rho(dx)
- * @example lag1FromFwhm(8, 2) // 0.9170040 (shared references section 7)
+ * @example lag1FromFwhm(8, 2) // 0.9170040 (REFERENCES.md §7)
  */
 export function lag1FromFwhm(fwhm: number, dx: number): number {
   return Math.exp((-2 * Math.LN2 * dx * dx) / (fwhm * fwhm));

@@ -1,7 +1,7 @@
 import { invertAffine, type Affine } from '../core/affine.js';
 import { fail } from '../core/fail.js';
 
-/** FWHM = 2 sqrt(2 ln 2) sigma for a Gaussian (references §1). */
+/** FWHM = 2 sqrt(2 ln 2) sigma for a Gaussian (REFERENCES.md §1). */
 const FWHM_PER_SIGMA = 2 * Math.sqrt(2 * Math.LN2);
 
 /**

@@ -12,7 +12,7 @@ export interface MethodsText {
 
 /**
  * Published sources the generated text cites, as "Authors (year) Venue". Volume and page numbers
- * marked [M] in the project's reference list are from memory; they are quoted as the references
+ * marked [M] in REFERENCES.md are from memory; they are quoted as that
  * file gives them.
  */
 export const METHOD_REFERENCES = {

@@ -7,7 +7,8 @@ import type { SweepResult } from './runner.js';
  * @param parts - shard results (any order)
  * @param options - allowPartial: accept missing cells (default false)
  * @returns the merged result (shard null)
- * @throws BoldsweepError INVALID_ARGUMENT when the parts come from different sweeps, overlap, or (unless
+ * @throws BoldsweepError SHARD_SWEEP_MISMATCH when the parts come from different sweeps (sweep keys differ);
+ *   INVALID_ARGUMENT when they overlap, or (unless
  *   allowPartial) leave cells missing
  * @example const whole = gatherResults(shardFolders.map((f) => f.result))
  */
@@ -15,7 +16,7 @@ export function gatherResults(parts: SweepResult[], options: { allowPartial?: bo
   if (parts.length === 0) fail('INVALID_ARGUMENT', 'nothing to gather: give at least one sweep folder');
   const first = parts[0];
   for (const p of parts) {
-    if (p.scorecard.sweepKey !== first.scorecard.sweepKey) fail('INVALID_ARGUMENT', `the folders come from different sweeps (sweep keys ${first.scorecard.sweepKey.slice(0, 12)}... and ${p.scorecard.sweepKey.slice(0, 12)}...): same run, spec and masks are needed`);
+    if (p.scorecard.sweepKey !== first.scorecard.sweepKey) fail('SHARD_SWEEP_MISMATCH', `the folders come from different sweeps (sweep keys ${first.scorecard.sweepKey.slice(0, 12)}... and ${p.scorecard.sweepKey.slice(0, 12)}...): same run, spec and masks are needed`);
   }
   const byCell = new Map<number, { part: SweepResult; i: number }>();
   for (const p of parts) {

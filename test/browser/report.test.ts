@@ -8,45 +8,47 @@ import { runFacts } from '../../src/report/run-facts.js';
 import { writeSweepFolder } from '../../src/report/sweep-folder.js';
 import { writeReport } from '../../src/report/write-report.js';
 import { runSweep } from '../../src/sweep/runner.js';
+import { findTool } from '../find-tool.js';
 import { smallPhantom } from '../sweep/sweep-test-runs.js';
 
 // The HTML report in a real browser: Debian's headless Chromium driven by playwright-core.
+const CHROMIUM = findTool('chromium');
 const outDir = join(process.cwd(), 'test', 'output');
 let browser: BrowserContext;
 let userDataDir: string;
 let reportPath: string;
 
-beforeAll(async () => {
-  const run = smallPhantom();
-  const result = await runSweep(run, {
-    recipe: [{ step: 'drop-initial-volumes', params: { count: 3 } }, { step: 'smooth', params: { fwhmMm: 0 } }],
-    vary: { 'smooth.fwhmMm': [0, 5, 10] },
-    plant: { sizesFwhmMm: [10], amplitudesPct: [3], count: 3 },
-    repeats: 3, threshold: { kind: 'fwe-rft' }, seed: 9,
-  }, { workers: 2, placementMask: run.greyMatter });
-  const dir = join(outDir, 'browser-report');
-  // the test's own folder, made afresh (a folder from before output markers would be refused)
-  rmSync(dir, { recursive: true, force: true });
-  mkdirSync(dir, { recursive: true });
-  const folder = { result, run: runFacts({ volume: run.volume, sidecar: run.sidecar }), masks: { brain: { kind: 'otsu-mean' as const }, placement: { kind: 'brain' as const }, exclude: null } };
-  await writeSweepFolder(dir, folder);
-  reportPath = (await writeReport(dir, folder)).files.report;
-  userDataDir = mkdtempSync(join(tmpdir(), 'boldsweep-chromium-'));
-  // a fresh profile per run (playwright takes the user-data dir as an argument, not a flag)
-  browser = await chromium.launchPersistentContext(userDataDir, {
-    executablePath: '/usr/bin/chromium',
-    headless: true,
-    viewport: { width: 1200, height: 900 },
-    args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+describe.skipIf(!CHROMIUM.path)('HTML report in headless Chromium', () => {
+  beforeAll(async () => {
+    const run = smallPhantom();
+    const result = await runSweep(run, {
+      recipe: [{ step: 'drop-initial-volumes', params: { count: 3 } }, { step: 'smooth', params: { fwhmMm: 0 } }],
+      vary: { 'smooth.fwhmMm': [0, 5, 10] },
+      plant: { sizesFwhmMm: [10], amplitudesPct: [3], count: 3 },
+      repeats: 3, threshold: { kind: 'fwe-rft' }, seed: 9,
+    }, { workers: 2, placementMask: run.greyMatter });
+    const dir = join(outDir, 'browser-report');
+    // the test's own folder, made afresh (a folder from before output markers would be refused)
+    rmSync(dir, { recursive: true, force: true });
+    mkdirSync(dir, { recursive: true });
+    const folder = { result, run: runFacts({ volume: run.volume, sidecar: run.sidecar }), masks: { brain: { kind: 'otsu-mean' as const }, placement: { kind: 'brain' as const }, exclude: null } };
+    await writeSweepFolder(dir, folder);
+    reportPath = (await writeReport(dir, folder)).files.report;
+    userDataDir = mkdtempSync(join(tmpdir(), 'boldsweep-chromium-'));
+    // a fresh profile per run (playwright takes the user-data dir as an argument, not a flag)
+    browser = await chromium.launchPersistentContext(userDataDir, {
+      executablePath: CHROMIUM.path ?? undefined,
+      headless: true,
+      viewport: { width: 1200, height: 900 },
+      args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+    });
   });
-});
 
-afterAll(async () => {
-  await browser?.close();
-  if (userDataDir) rmSync(userDataDir, { recursive: true, force: true });
-});
+  afterAll(async () => {
+    await browser?.close();
+    if (userDataDir) rmSync(userDataDir, { recursive: true, force: true });
+  });
 
-describe('HTML report in headless Chromium', () => {
   it('draws every chart, shows the recommendation and the caution, and is saved as a screenshot', async () => {
     const page = await browser.newPage();
     const requests: string[] = [];

@@ -13,7 +13,7 @@ function rot(axis: 'x' | 'z', deg: number, t: [number, number, number]) {
   return affineFromRows(r.map((row, i) => [...row, t[i]]));
 }
 
-describe('affine composition (shared/references.md section 14, computed with numpy [C])', () => {
+describe('affine composition (REFERENCES.md §14, computed with numpy [C])', () => {
   const A = rot('z', 90, [1, 2, 3]);
   const B = rot('x', 90, [0, 0, 10]);
   it('"A then B" is B A', () => {

@@ -33,7 +33,7 @@ function profileVariance(p: ArrayLike<number>): number {
 }
 
 describe('Gaussian kernel', () => {
-  it('FWHM = 2 sqrt(2 ln 2) sigma (references section 1, computed with scipy 1.10)', () => {
+  it('FWHM = 2 sqrt(2 ln 2) sigma (REFERENCES.md §1, computed with scipy 1.10)', () => {
     // tolerance: two roundings of the same closed form
     expect(Math.abs(FWHM_PER_SIGMA - 2.3548200450309493)).toBeLessThan(1e-15);
     expect(fwhmToSigma(8)).toBeCloseTo(3.3972872, 7);
@@ -112,7 +112,7 @@ describe('smoothing invariants', () => {
     [px, py, pz].forEach((p, a) => {
       const measured = Math.sqrt(profileVariance(p)) * FWHM_PER_SIGMA * spacing[a];
       // tolerance 0.5 %: sampling a Gaussian at integer voxels and cutting it at 4 sigma shifts the
-      // second moment slightly (6.2481 vs 6.25 voxel^2 for sigma 2 then 1.5: references section 1);
+      // second moment slightly (6.2481 vs 6.25 voxel^2 for sigma 2 then 1.5: REFERENCES.md §1);
       // Float32 storage of tails adds < 1e-6
       expect(Math.abs(measured - fwhm) / fwhm, `axis ${a}: measured ${measured} mm`).toBeLessThan(0.005);
     });
@@ -129,7 +129,7 @@ describe('smoothing invariants', () => {
       expect(Math.abs(sOut - sIn) / sIn, mode).toBeLessThan(1e-6);
     }
   });
-  it('two 1-D passes (sigma 2 then 1.5) on an impulse give variance 6.2481 (references section 1, scipy)', () => {
+  it('two 1-D passes (sigma 2 then 1.5) on an impulse give variance 6.2481 (REFERENCES.md §1, scipy)', () => {
     const n = 101;
     const data = new Float32Array(n);
     data[50] = 1;

@@ -3,7 +3,7 @@
  * check that the scores move with the smoothing width as the matched-filter principle says.
  *
  * Matched filter (Rosenfeld A & Kak AC 1982, Digital Picture Processing; Worsley KJ et al. 1996,
- * Hum Brain Mapp 4:74-90; references §12): a Gaussian signal of width s_s in white noise, smoothed by
+ * Hum Brain Mapp 4:74-90; REFERENCES.md §12): a Gaussian signal of width s_s in white noise, smoothed by
  * a Gaussian of width s_k, keeps SNR/SNR_max = (2 s_k s_s / (s_k^2 + s_s^2))^(3/2) in 3D, largest
  * at s_k = s_s. For the 6 mm blobs planted here that is 0.887 at 4 mm, 0.941 at 8 mm and 0.533 at
  * 16 mm; with no smoothing the only averaging is the 3.5 mm voxel itself. So we expect:
@@ -259,7 +259,7 @@ describe('matched filter on the demo run (plant -> smooth -> GLM -> threshold ->
 
 describe('matched filter on a white-noise phantom run: the optimum sits at the blob size', () => {
   // Same pipeline; the noise is thermal only, the case the theory describes. The continuous 3D
-  // formula (references §12) keeps (2 k 6 / (k^2 + 36))^(3/2) of the best SNR with a k mm kernel:
+  // formula (REFERENCES.md §12) keeps (2 k 6 / (k^2 + 36))^(3/2) of the best SNR with a k mm kernel:
   // 0.887 at 4 mm, 1 at 6 mm, 0.941 at 8 mm, 0.533 at 16 mm.
   const kernels = [0, 4, 6, 8, 16] as const;
   const theory = (k: number) => ((2 * k * 6) / (k * k + 36)) ** 1.5;

@@ -149,3 +149,16 @@ describe.skipIf(!HAVE_NIFTI_TOOL)('datatype and unit names agree with nifti_tool
     });
   }
 });
+
+describe('sharedMemory: the run read straight into a SharedArrayBuffer', () => {
+  // the same bytes as the ordinary read: plain float32 (read in place), converted int16, gzip, NIfTI-2 big-endian
+  for (const file of ['dt_float32_le.nii', 'dt_int16_be.nii', 'dt_int16_be.nii.gz', 'n2_float64_be.nii.gz']) {
+    it(`${file}: identical values, on shared memory`, async () => {
+      const plain = await readNifti(join(REF_DIR, 'nifti', file));
+      const shared = await readNifti(join(REF_DIR, 'nifti', file), { sharedMemory: true });
+      expect(shared.volume.data.buffer).toBeInstanceOf(SharedArrayBuffer);
+      expect(plain.volume.data.buffer).not.toBeInstanceOf(SharedArrayBuffer);
+      expect(Buffer.from(shared.volume.data.buffer).equals(Buffer.from(plain.volume.data.buffer))).toBe(true);
+    });
+  }
+});

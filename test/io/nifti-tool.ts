@@ -2,14 +2,15 @@
 import { spawnSync } from 'node:child_process';
 import { readFileSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
+import { findTool } from '../find-tool.js';
 
-/** Whether nifti_tool is installed; tests that need it are skipped (with a message) when it is not. */
-export const HAVE_NIFTI_TOOL = spawnSync('nifti_tool', ['-ver'], { encoding: 'utf8' }).status === 0;
-if (!HAVE_NIFTI_TOOL) console.warn('nifti_tool (Debian package nifti-bin) is not installed: skipping the checks that compare with it');
+const NIFTI_TOOL = findTool('nifti_tool');
+/** Whether nifti_tool is usable; tests that need it skip (the reason is printed) when it is not. */
+export const HAVE_NIFTI_TOOL = NIFTI_TOOL.path !== null;
 
 /** Run nifti_tool and return stdout+stderr; throws on a non-zero exit. */
 export function niftiTool(args: string[]): string {
-  const r = spawnSync('nifti_tool', args, { encoding: 'utf8' });
+  const r = spawnSync(NIFTI_TOOL.path ?? 'nifti_tool', args, { encoding: 'utf8' });
   if (r.status !== 0) throw new Error(`nifti_tool ${args.join(' ')} failed: ${r.stdout}${r.stderr}`);
   return r.stdout + r.stderr;
 }

@@ -8,7 +8,7 @@ import { trimmedDvars } from '../../src/look/trimmed-dvars.js';
 describe('DVARS', () => {
   it('matches the worked example from the published definition', () => {
     // Smyser et al. 2010 Cereb Cortex 20:2852; Power et al. 2012 NeuroImage 59:2142: DVARS_i =
-    // sqrt(mean over voxels (I_i - I_{i-1})^2); references §4: [100,200,300,400] -> [101,198,303,400]
+    // sqrt(mean over voxels (I_i - I_{i-1})^2); REFERENCES.md §4: [100,200,300,400] -> [101,198,303,400]
     // gives differences 1, -2, 3, 0 -> sqrt(14/4) = sqrt(3.5) = 1.8708287.
     const data = new Float32Array([100, 200, 300, 400, 101, 198, 303, 400]);
     const run = makeVolume({ dims: [4, 1, 1, 2], spacingMm: [1, 1, 1], trSec: 2, affine: diagonalAffine([1, 1, 1]), data });
@@ -22,7 +22,7 @@ describe('DVARS', () => {
 
   it('standardises by the Afyouni & Nichols (2018) null expectation', () => {
     // Afyouni S & Nichols TE (2018) NeuroImage 172:291-312: E[DVARS^2] = mean_i 2 sigma_i^2 (1 - rho_i);
-    // references §4: sigma (10, 20), rho (0.5, 0.8) -> (100 + 160) / 2 = 130; 17.1 / sqrt(130) = 1.49977.
+    // REFERENCES.md §4: sigma (10, 20), rho (0.5, 0.8) -> (100 + 160) / 2 = 130; 17.1 / sqrt(130) = 1.49977.
     const e = dvarsNullExpectation([10, 20], [0.5, 0.8]);
     expect(e).toBeCloseTo(130, 12);
     expect(standardisedDvars([NaN, 17.1], e)[1]).toBeCloseTo(1.49977, 5);

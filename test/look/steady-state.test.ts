@@ -7,7 +7,7 @@ import { createRng } from '../../src/core/random.js';
 import { syntheticRun } from './synthetic-run.js';
 
 // Ernst RR & Anderson WA (1966) Rev Sci Instrum 37:93-102 closed form; check values computed with
-// numpy in references §6: TR 2 s, T1 1.33 s, flip 77 deg -> excess 22.153 %, 1.1078 %, 0.05539 %.
+// numpy in REFERENCES.md §6: TR 2 s, T1 1.33 s, flip 77 deg -> excess 22.153 %, 1.1078 %, 0.05539 %.
 const gm = { trSec: 2, flipAngleDeg: 77, t1Sec: 1.33 };
 
 describe('approach to steady state (spoiled gradient echo)', () => {
@@ -17,7 +17,7 @@ describe('approach to steady state (spoiled gradient echo)', () => {
     expect(steadyStateExcess(3, gm) * 100).toBeCloseTo(0.05539, 5);
   });
 
-  it('counts volumes above 1 % as in references §6 (first within 1 %: vol 3; T1 0.832 -> 2, 1.82 -> 3, 4.2 -> 4)', () => {
+  it('counts volumes above 1 % as in REFERENCES.md §6 (first within 1 %: vol 3; T1 0.832 -> 2, 1.82 -> 3, 4.2 -> 4)', () => {
     expect(steadyStateModelCount(gm, 0.01)).toBe(2);
     expect(steadyStateModelCount({ ...gm, t1Sec: 0.832 }, 0.01)).toBe(1);
     expect(steadyStateModelCount({ ...gm, t1Sec: 1.82 }, 0.01)).toBe(2);

@@ -14,8 +14,8 @@ function series(values: number[][]) {
 }
 
 describe('tSNR maps', () => {
-  it('matches the definition mean / SD on the references check (ddof 1 with no detrending)', () => {
-    // references §5: [100,102,98,101,99] -> 63.245553 (ddof 1); definition of the sample SD
+  it('matches the definition mean / SD on the REFERENCES.md §5 check (ddof 1 with no detrending)', () => {
+    // REFERENCES.md §5: [100,102,98,101,99] -> 63.245553 (ddof 1); definition of the sample SD
     const s = voxelTimeStats(series([[100, 102, 98, 101, 99]]), { detrendOrder: 0 });
     expect(s.ddof).toBe(1);
     expect(s.tsnr[0]).toBeCloseTo(63.245553, 4); // Float32 map: 4 decimals is within its precision at 63
@@ -38,8 +38,8 @@ describe('tSNR maps', () => {
   });
 
   it('follows Krüger & Glover (2001) tSNR = SNR0 / sqrt(1 + lambda^2 SNR0^2) with a physiological component', () => {
-    // Krüger G & Glover GH (2001) Magn Reson Med 46:631-637 [formula from memory, references §5];
-    // lambda 0.01: SNR0 = 50, 100, 400 -> 44.72136, 70.71068, 97.01425 (computed with numpy, references §5).
+    // Krüger G & Glover GH (2001) Magn Reson Med 46:631-637 [formula from memory, REFERENCES.md §5];
+    // lambda 0.01: SNR0 = 50, 100, 400 -> 44.72136, 70.71068, 97.01425 (computed with numpy, REFERENCES.md §5).
     // Signal S = 1000; thermal SD = S / SNR0; physiological SD = lambda * S (proportional to signal).
     const expected: Array<[number, number]> = [[50, 44.72136], [100, 70.71068], [400, 97.01425]];
     for (const [snr0, tsnr] of expected) {

@@ -30,12 +30,12 @@ function caseDesign(c: (typeof fx.cases)[number]): DesignMatrix {
 }
 
 describe('AR(1) estimators', () => {
-  it('raw lag-1 autocorrelation of [1,-.5,.25,.75,-1,-.5] is -0.22 (references §13, Bullmore et al. 1996)', () => {
+  it('raw lag-1 autocorrelation of [1,-.5,.25,.75,-1,-.5] is -0.22 (REFERENCES.md §13, Bullmore et al. 1996)', () => {
     // exact arithmetic: -0.6875 / 3.125 = -0.22; rounding only
     expect(Math.abs(lag1Autocorrelation([1, -0.5, 0.25, 0.75, -1, -0.5]) - -0.22)).toBeLessThan(1e-15);
   });
 
-  it('Prais-Winsten prewhitening of [1,2,3] with rho 0.5 is [0.8660254, 1.5, 2] (references §13)', () => {
+  it('Prais-Winsten prewhitening of [1,2,3] with rho 0.5 is [0.8660254, 1.5, 2] (REFERENCES.md §13)', () => {
     const y = [1, 2, 3];
     const w = prewhitenAr1(y, 0.5);
     // reference quoted to 7 decimals
@@ -65,7 +65,7 @@ describe('AR(1) estimators', () => {
     }
   });
 
-  it('Monte Carlo (T 100, X = [1, trend, boxcar]): corrected means near -.003/.193/.381 (references §13)', () => {
+  it('Monte Carlo (T 100, X = [1, trend, boxcar]): corrected means near -.003/.193/.381 (REFERENCES.md §13)', () => {
     const nt = 100;
     const x = makeDesignMatrix(['intercept', 'trend', 'box'], [Array(nt).fill(1), Array.from({ length: nt }, (_, t) => t), Array.from({ length: nt }, (_, t) => (t % 10 < 5 ? 1 : 0))]);
     const m = ar1BiasTraces(x);
@@ -125,7 +125,7 @@ describe('fitGlmAr1', () => {
   it('OLS t-tests are inflated by AR(1) noise (rho 0.4); prewhitened ones are near the nominal 5 %', () => {
     const nvox = 4000;
     const run = noiseRun(nvox, nt, 0.4, 20240606);
-    const crit = 1.6448536; // norm.isf(.05) (references, Reference functions): one-sided z threshold
+    const crit = 1.6448536; // norm.isf(.05) (REFERENCES.md §R): one-sided z threshold
     const rate = (z: Float32Array) => z.reduce((acc, v) => acc + (v > crit ? 1 : 0), 0) / nvox;
     const ols = rate(contrastMaps(fitGlm(run, design), { task: 1 }).z.data);
     const ar1Fit = fitGlmAr1(run, design);

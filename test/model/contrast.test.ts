@@ -37,7 +37,7 @@ describe('tToZ against scipy.stats (sign(t) norm.isf(t.sf(|t|)))', () => {
   it('reproduces the reference-table quantiles: t.isf(.001, 20) = 3.5518083 maps to norm.isf(.001) = 3.0902323', () => {
     // norm.isf(.001) = 3.090232306 (from memory; standard normal table); t input has 8 digits -> ~1e-7
     expect(Math.abs(tToZ(3.5518083, 20) - 3.0902323)).toBeLessThan(2e-7);
-    // huge dof: t is normal, norm.isf(.05) = 1.6448536 (references, Reference functions)
+    // huge dof: t is normal, norm.isf(.05) = 1.6448536 (REFERENCES.md §R)
     expect(Math.abs(tToZ(1.6448536, 1e9) - 1.6448536)).toBeLessThan(1e-7);
   });
 
@@ -50,7 +50,7 @@ describe('tToZ against scipy.stats (sign(t) norm.isf(t.sf(|t|)))', () => {
 });
 
 describe('contrastMaps', () => {
-  it('p map holds t.sf: t.sf(2,10) = 0.036694017, t.sf(3,20) = 0.0035379494 (references, scipy)', () => {
+  it('p map holds t.sf: t.sf(2,10) = 0.036694017, t.sf(3,20) = 0.0035379494 (REFERENCES.md §R)', () => {
     const a = contrastMaps(tinyFit([2], [1], 10), [1]);
     const b = contrastMaps(tinyFit([3], [1], 20), [1]);
     expect(a.t.data[0]).toBe(2);

@@ -12,7 +12,7 @@ const fx = JSON.parse(readFileSync(new URL('../reference/fdr_fixture.json', impo
 const code = (f: () => unknown): string | undefined => { try { f(); } catch (e) { return isBoldsweepError(e) ? e.code : 'other'; } return undefined; };
 
 describe('Benjamini-Hochberg (1995, J R Stat Soc B 57:289-300)', () => {
-  it('worked example of shared references section 9: k = 2 and the adjusted p-values', () => {
+  it('worked example of REFERENCES.md §9: k = 2 and the adjusted p-values', () => {
     const p = [0.001, 0.008, 0.039, 0.041, 0.042, 0.06, 0.074, 0.205, 0.212, 0.216];
     expect(fdrBhCutoff(p, 0.05)).toEqual({ k: 2, pCutoff: 0.008, m: 10 });
     const expected = [0.01, 0.04, 0.084, 0.084, 0.084, 0.1, 0.1057143, 0.216, 0.216, 0.216];

@@ -37,13 +37,13 @@ function extremum(f: (t: number) => number, a: number, b: number, sign: 1 | -1):
 describe('hrfValues, Glover (1999) NeuroImage 9(4):416-429 form (parameters from memory)', () => {
   const h = (t: number) => hrfValues([t])[0];
 
-  it('matches the reference-table values h(2,4,5,6,8,10,15,20) (references.md §2, scipy-computed)', () => {
+  it('matches the reference-table values h(2,4,5,6,8,10,15,20) (REFERENCES.md §2, scipy-computed)', () => {
     // table gives 6 decimals: tolerance is half a unit in the last place
     expectClose(hrfValues([2, 4, 5, 6, 8, 10, 15, 20]),
       [0.112836, 0.778191, 0.961477, 0.903418, 0.373844, -0.094912, -0.158870, -0.020463], 5e-7);
   });
 
-  it('peaks at 0.968613 at 5.2400 s and dips to -0.249447 at 12.2553 s (references.md §2)', () => {
+  it('peaks at 0.968613 at 5.2400 s and dips to -0.249447 at 12.2553 s (REFERENCES.md §2)', () => {
     const tp = extremum(h, 2, 8, 1);
     const tm = extremum(h, 9, 20, -1);
     // the table's last decimal: values 6 decimals, times 4 decimals
@@ -76,13 +76,13 @@ describe('hrfValues, gamma-difference form Gamma_pdf(t;6,1) - Gamma_pdf(t;16,1)/
   const opts = { shape: 'gamma-difference' as const };
   const h = (t: number) => hrfValues([t], opts)[0];
 
-  it('matches the reference-table raw values at t = 0,2,4,5,6,8,10,15,20 (references.md §2)', () => {
+  it('matches the reference-table raw values at t = 0,2,4,5,6,8,10,15,20 (REFERENCES.md §2)', () => {
     // the coarsest quoted entries have 6 decimals: half a unit there is 5e-7
     expectClose(hrfValues([0, 2, 4, 5, 6, 8, 10, 15, 20], opts),
       [0, 0.0360894, 0.156291, 0.175441, 0.160475, 0.0900993, 0.0320469, -0.0151369, -0.00855318], 5e-7);
   });
 
-  it('peaks at 4.99851 s (0.1754412), dips at 15.7488 s (-0.0155986), crosses zero at 12.0655 s (references.md §2)', () => {
+  it('peaks at 4.99851 s (0.1754412), dips at 15.7488 s (-0.0155986), crosses zero at 12.0655 s (REFERENCES.md §2)', () => {
     const tp = extremum(h, 2, 8, 1);
     const tm = extremum(h, 9, 25, -1);
     // tolerance: half a unit in the last quoted digit

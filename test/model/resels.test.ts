@@ -31,7 +31,7 @@ describe('Euler characteristic of the lattice (topology: components - tunnels + 
 });
 
 describe('resel counts (Worsley KJ et al. 1996 lattice formulas)', () => {
-  it('a 1e6 mm^3 cube at FWHM 10 mm has R3 = 1000 (shared references section 8) and the box intrinsic volumes', () => {
+  it('a 1e6 mm^3 cube at FWHM 10 mm has R3 = 1000 (REFERENCES.md §8) and the box intrinsic volumes', () => {
     // 51^3 voxels of 2 mm: the lattice cube spans 50 x 2 = 100 mm per side, so V = 1e6 mm^3.
     // Box of side a: R1 = 3a/F = 30, R2 = 3a^2/F^2 = 300 (intrinsic volumes of a box); exact integers here.
     const d = [53, 53, 53];

@@ -19,7 +19,7 @@ function relClose(actual: number, expected: number, rel: number, what: string): 
 }
 
 describe('Euler-characteristic densities (Worsley KJ et al. 1996, Hum Brain Mapp 4:58-73)', () => {
-  it('Gaussian field at u = 4 matches shared references section 8 [C]', () => {
+  it('Gaussian field at u = 4 matches REFERENCES.md §8 [C]', () => {
     const rho = ecDensities(4, { kind: 'z' });
     const expected = [3.167124e-5, 8.890107e-5, 2.362217e-4, 5.884422e-4];
     // 7 significant digits are quoted, so 1e-6 relative covers their rounding.
@@ -45,7 +45,7 @@ describe('Euler-characteristic densities (Worsley KJ et al. 1996, Hum Brain Mapp
 });
 
 describe('RFT family-wise critical values', () => {
-  it('reproduce shared references section 8 [C] to the quoted 5 decimals', () => {
+  it('reproduce REFERENCES.md §8 [C] to the quoted 5 decimals', () => {
     const sphere = (r: number, F: number): Resels => [1, (4 * r) / F, (2 * Math.PI * r * r) / F ** 2, (4 * Math.PI * r ** 3) / (3 * F ** 3)];
     const cases: Array<[Resels, StatisticKind, number]> = [
       [[0, 0, 0, 1000], { kind: 'z' }, 4.64345],
@@ -71,7 +71,7 @@ describe('RFT family-wise critical values', () => {
     }
   });
   it('a search region of one voxel gives the single-test critical value', () => {
-    // one voxel: R = (1, 0, 0, 0), so E[EC] = P(Z >= u) and u = norm.isf(0.05) = 1.6448536 (scipy, shared references)
+    // one voxel: R = (1, 0, 0, 0), so E[EC] = P(Z >= u) and u = norm.isf(0.05) = 1.6448536 (scipy, REFERENCES.md §R)
     expect(rftCriticalValue([1, 0, 0, 0], 0.05, { kind: 'z' }).threshold).toBeCloseTo(1.6448536, 6);
   });
   it('refuses alpha outside (0, 1), t maps with dof <= 3 and negative resels', () => {

@@ -40,7 +40,7 @@ function expectWithin4Se(values: number[], expected: number, what: string): void
   expect(Math.abs(mean - expected), `${what}: mean ${mean} vs expected ${expected}, 4 SE = ${4 * se}`).toBeLessThanOrEqual(4 * se);
 }
 
-describe('smoothness formulas (shared references section 7)', () => {
+describe('smoothness formulas (REFERENCES.md §7)', () => {
   it('Forman et al. 1995: FWHM 8, dx 2 -> rho 0.9170040, variance ratio 0.1659919, and back to 8', () => {
     const rho = lag1FromFwhm(8, 2);
     expect(Math.abs(rho - 0.917004)).toBeLessThan(5e-8); // quoted to 7 decimals

@@ -12,7 +12,7 @@ const fx = JSON.parse(readFileSync(new URL('../reference/rft_fixture.json', impo
 };
 const code = (f: () => unknown): string | undefined => { try { f(); } catch (e) { return isBoldsweepError(e) ? e.code : 'other'; } return undefined; };
 
-describe('tail probabilities and critical values (scipy values in shared references, Reference functions)', () => {
+describe('tail probabilities and critical values (scipy values, REFERENCES.md §R)', () => {
   it('norm.isf(.05), t.isf(.001, 20), t.sf(2, 10), t.sf(3, 20)', () => {
     // quoted to 8 significant digits
     expect(Math.abs(upperCriticalValue(0.05, { kind: 'z' }) - 1.6448536)).toBeLessThan(1e-7);

@@ -95,7 +95,7 @@ describe('plantActivations', () => {
   });
 
   it('marks as truth the voxels within half the FWHM of a centre (half maximum)', () => {
-    // Gaussian: weight exp(-r^2/(2 sigma^2)) = 1/2 at r = FWHM/2 (definition of FWHM, references §1)
+    // Gaussian: weight exp(-r^2/(2 sigma^2)) = 1/2 at r = FWHM/2 (definition of FWHM, REFERENCES.md §1)
     expect(blobWeight({ shape: 'gaussian', fwhmMm: 6 }, 3)).toBeCloseTo(0.5, 15);
     const { truth } = plantActivations(syntheticRun(), base({ fwhmMm: 9 }));
     let truthCount = 0;

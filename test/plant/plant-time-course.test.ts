@@ -7,7 +7,7 @@ const ev = (onsetSec: number, durationSec: number, trialType = 'flicker'): BoldE
 
 describe('plantTimeCourse', () => {
   it('is the HRF of an impulse divided by its largest sample', () => {
-    // Glover (1999) NeuroImage 9:416-429 form, values [C] from references §2:
+    // Glover (1999) NeuroImage 9:416-429 form, values [C] from REFERENCES.md §2:
     // h(2,4,5,6,8,10,15,20) = .112836, .778191, .961477, .903418, .373844, -.094912, -.158870, -.020463.
     // An impulse at 0 s sampled at whole seconds (TR 1 s, sample time 0) peaks among the samples at 5 s,
     // so the time course is h(t) / h(5). Tolerance 2e-6: the reference values carry 6 digits.

@@ -4,7 +4,7 @@ cluster-extent code, computed with Debian's python3-scipy / numpy.
 Run: /usr/bin/python3 test/reference/make_rft_fixture.py  (writes rft_fixture.json beside it)
 
 Formulas (Worsley KJ et al. 1996, Hum Brain Mapp 4:58-73; from memory, checked against the values in
-shared references section 8), L = 4 ln 2:
+REFERENCES.md §8), L = 4 ln 2:
   z:  rho0 = norm.sf(u); rho1 = sqrt(L) e^{-u^2/2}/(2 pi); rho2 = L u e^{-u^2/2}/(2 pi)^{3/2};
       rho3 = L^{3/2}(u^2 - 1) e^{-u^2/2}/(2 pi)^2
   t:  g = (1 + u^2/nu)^{-(nu-1)/2}; rho0 = t.sf(u, nu); rho1 = sqrt(L) g/(2 pi);

@@ -8,7 +8,7 @@ import { PROTON_HZ_PER_TESLA, sphereFieldMapHz } from '../../src/simulate/sphere
 import { simulatePhantomRun } from '../../src/simulate/simulate-phantom-run.js';
 import { quietSpec } from './phantom-helpers.js';
 
-describe('field-map shift (Jezzard P & Balaban RS (1995) Magn Reson Med 34:65-73; reference section 11)', () => {
+describe('field-map shift (Jezzard P & Balaban RS (1995) Magn Reson Med 34:65-73; REFERENCES.md §11)', () => {
   it('50 Hz, 0.5 ms effective echo spacing, 64 lines -> 1.575 voxels = 4.725 mm at 3 mm', () => {
     const trt = totalReadoutTimeSec(0.0005, 64);
     // exact decimal arithmetic up to binary rounding
@@ -44,7 +44,7 @@ describe('field-map shift (Jezzard P & Balaban RS (1995) Magn Reson Med 34:65-73
     const shift = Float32Array.from({ length: 40 }, (_, j) => -0.2 * (j - 20));
     const out = distortAlongAxis(img, shift, dims, 1);
     // a line compressed by 0.8 carries 1/0.8 = 1.25 times the intensity (Chang & Fitzpatrick 1992,
-    // reference section 11: I = 100, d' = -0.2 -> 125); away from the edges, within 1 %
+    // REFERENCES.md §11: I = 100, d' = -0.2 -> 125); away from the edges, within 1 %
     expect(Math.abs(out[20] / 125 - 1)).toBeLessThan(0.01);
   });
 
@@ -69,7 +69,7 @@ describe('field-map shift (Jezzard P & Balaban RS (1995) Magn Reson Med 34:65-73
 });
 
 describe('sinus field map and dephasing', () => {
-  it('1 ppm at 3 T is 127.73 Hz (reference section 11)', () => {
+  it('1 ppm at 3 T is 127.73 Hz (REFERENCES.md §11)', () => {
     // 0.005 Hz: half a unit in the last printed digit
     expect(Math.abs(PROTON_HZ_PER_TESLA * 3 * 1e-6 - 127.73)).toBeLessThan(0.005);
   });

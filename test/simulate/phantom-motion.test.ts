@@ -8,7 +8,7 @@ import { demoPhantomSpec } from '../../src/simulate/phantom-spec.js';
 import { centreOfMass, quietSpec } from './phantom-helpers.js';
 
 describe('rigid motion convention', () => {
-  it('R = Rz Ry Rx matches scipy Rotation.from_euler("xyz", (10, 20, 30), degrees=True) (reference section 14)', () => {
+  it('R = Rz Ry Rx matches scipy Rotation.from_euler("xyz", (10, 20, 30), degrees=True) (REFERENCES.md §14)', () => {
     const m = rigidMotionAffine({ shiftXMm: 0, shiftYMm: 0, shiftZMm: 0, rotXDeg: 10, rotYDeg: 20, rotZDeg: 30 }, [0, 0, 0]);
     // check values printed to 6 decimals: half a unit in the last place
     [0.813798, -0.440970, 0.378522].forEach((v, c) => expect(Math.abs(m[c] - v)).toBeLessThan(5e-7));

@@ -92,8 +92,8 @@ describe('smooth Gaussian random field', () => {
     const sd = Math.sqrt(sq / n - (s / n) ** 2);
     // about n / (8 pi^(3/2) sigma^3) ~ 2500 independent values: SD error ~ 1.5 %, 6 % is 4 SE
     expect(Math.abs(sd - 1)).toBeLessThan(0.06);
-    // a Gaussian of variance sigma^2 convolved with itself has variance 2 sigma^2 (section 1 of the
-    // references: variances add), so neighbours correlate exp(-1/(4 sigma^2)) = 0.9394 at sigma 2
+    // a Gaussian of variance sigma^2 convolved with itself has variance 2 sigma^2 (REFERENCES.md §1:
+    // variances add), so neighbours correlate exp(-1/(4 sigma^2)) = 0.9394 at sigma 2
     expect(Math.abs(lag / sq - Math.exp(-1 / 16))).toBeLessThan(0.02);
   });
   it('rejects a non-positive FWHM', () => {

@@ -7,7 +7,7 @@ import { quietSpec } from './phantom-helpers.js';
 // Closed form: Ernst RR & Anderson WA (1966) Rev Sci Instrum 37:93-102; Haacke EM et al. (1999)
 // Magnetic Resonance Imaging: Physical Principles and Sequence Design. E1 = exp(-TR/T1),
 // q = E1 cos(a), Mss = M0 (1 - E1)/(1 - q), Mz(n) = Mss + (M0 - Mss) q^(n-1).
-// Check values computed with Debian numpy (project references, section 6).
+// Check values computed with Debian numpy (REFERENCES.md §6).
 describe('spoiled gradient echo: closed form against the reference check values', () => {
   const timing = { trSec: 2, teSec: 0, flipAngleDeg: 77 };
   const g = spoiledGreSignal(1.33, 1, timing);
@@ -88,7 +88,7 @@ describe('the phantom approaches steady state as the closed form says', () => {
   });
 
   it('the steady-state count follows the 1 % rule: T1 0.832 s -> volume 2, 1.331 s -> 3, 4.2 s -> 4', () => {
-    // reference check values (section 6): T1 0.832 s -> vol 2; 1.33 s -> vol 3; 4.2 s -> vol 4
+    // reference check values (REFERENCES.md §6): T1 0.832 s -> vol 2; 1.33 s -> vol 3; 4.2 s -> vol 4
     expect(truth.steadyState.perTissue['white-matter'].firstSteadyVolume).toBe(2);
     expect(truth.steadyState.perTissue['grey-matter'].firstSteadyVolume).toBe(3);
     expect(truth.steadyState.perTissue.csf.firstSteadyVolume).toBe(4);
