@@ -46,6 +46,7 @@ function cellSpec(repeats: number, workers: number): SweepSpec {
     recipe: [{ step: 'drop-initial-volumes', params: { count: 3 } }, { step: 'smooth', params: { fwhmMm: 6, mode: 'reflect', withinMask: false } }],
     vary: { 'smooth.fwhmMm': [6] },
     plant: { shape: 'gaussian', sizesFwhmMm: [8], amplitudesPct: [1], count: 6, marginMm: null, separation: 2 },
+    acquisition: { sliceTiming: 'sidecar' },
     repeats,
     threshold: { kind: 'fwe-rft', alpha: 0.05, q: 0.05, clusterFormingP: 0.001 },
     model: { ar1: true, ar1SmoothFwhmMm: 15, highpassCutoffSec: 128, trialType: null, censorVolumes: [] },

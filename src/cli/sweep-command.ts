@@ -17,6 +17,9 @@ import { readSweepSpec } from '../sweep/read-sweep-spec.js';
 import { runSweep } from '../sweep/runner.js';
 import { shareVolume } from '../sweep/shared-volume.js';
 import { terminalProgress } from '../sweep/terminal-progress.js';
+import { readMotionTable } from '../io/motion-table-tsv.js';
+import { readNifti } from '../io/nifti-read.js';
+import { assertSameGrid, voxelsPerVolume } from '../core/volume.js';
 import { FORCE_HELP, numberList, positiveInt, withExitCodes } from './cli-common.js';
 
 interface SweepCliOptions {
@@ -36,6 +39,8 @@ interface SweepCliOptions {
   look?: string;
   events?: string;
   sidecar?: string;
+  motionTable?: string;
+  fieldMap?: string;
   force?: boolean;
 }
 
@@ -55,6 +60,8 @@ export function registerSweepCommand(program: Command): Command {
     .option('--look <dir>', 'look folder of this run ("boldsweep look"): its bright first volumes are dropped and abrupt changes censored where the spec leaves them open')
     .option('--events <file>', 'events TSV (onset, duration, trial_type) when it is not beside the run as <name>_events.tsv')
     .option('--sidecar <file>', 'BIDS sidecar JSON when it is not beside the run as <name>.json')
+    .option('--motion-table <file>', 'the head\'s position at each volume (TSV: shiftXMm shiftYMm shiftZMm rotXDeg rotYDeg rotZDeg, one row per volume): planted activations move with the head')
+    .option('--field-map <file>', 'B0 field map in Hz on the run\'s grid: planted activations are displaced along phase encode (needs PhaseEncodingDirection and TotalReadoutTime or EffectiveEchoSpacing in the sidecar)')
     .option('--workers <n>', 'worker threads (default: the spec\'s workers)', positiveInt)
     .option('--shard <i/N>', 'run only shard i of N (1-based), e.g. one task of a cluster job array; merge with "boldsweep gather"')
     .option('--cache <dir>', 'stage cache folder; an interrupted sweep resumes from it (default: <out>/cache)')
@@ -74,7 +81,7 @@ Example:
   boldsweep sweep sub-01_task-motor_bold.nii.gz --spec smoothing.yaml --look look-sub-01 --out sweep-sub-01
   boldsweep report sweep-sub-01      (next: the recommendation and the report)`)
     .action(async (runPath: string, o: SweepCliOptions) => {
-      const inputs = [runPath, o.mask, o.placement, o.exclude, o.events, o.sidecar, o.look];
+      const inputs = [runPath, o.mask, o.placement, o.exclude, o.events, o.sidecar, o.look, o.motionTable, o.fieldMap];
       checkOutputFolder(o.out, { force: o.force, inputs });
       let spec = readSweepSpec(o.spec);
       let run = await openRun(runPath, { sharedMemory: true, ...(o.events ? { events: o.events } : {}), ...(o.sidecar ? { sidecar: o.sidecar } : {}) });
@@ -102,6 +109,13 @@ Example:
         placement: o.placement ? await maskFromFile(o.placement, { values: o.placementValues }) : { kind: 'brain' },
         exclude: o.exclude ? await maskFromFile(o.exclude, { above: o.excludeAbove ?? 0, growVoxels: o.excludeGrow }) : null,
       };
+      const motionTable = o.motionTable ? await readMotionTable(o.motionTable) : null;
+      let fieldMapHz: Float32Array | null = null;
+      if (o.fieldMap) {
+        const field = (await readNifti(o.fieldMap)).volume;
+        assertSameGrid(field, run.volume, ['field map', 'run']);
+        fieldMapHz = field.data.subarray(0, voxelsPerVolume(field));
+      }
       const brainMask = await buildMask(masks.brain, run.volume);
       const placementMask = await buildMask(masks.placement, run.volume, { brain: brainMask });
       const excludeMask = masks.exclude ? await buildMask(masks.exclude, run.volume) : undefined;
@@ -113,7 +127,7 @@ Example:
       const bar = o.progress ? terminalProgress() : null;
       let result;
       try {
-        result = await runSweep(run, spec, { workers: o.workers, shard: o.shard ?? null, cacheDir, brainMask, placementMask, excludeMask, onProgress: bar?.update });
+        result = await runSweep(run, spec, { workers: o.workers, shard: o.shard ?? null, cacheDir, brainMask, placementMask, excludeMask, motionTable, fieldMapHz, onProgress: bar?.update });
       } finally {
         bar?.stop();
       }

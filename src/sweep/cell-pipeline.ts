@@ -7,7 +7,8 @@ import { fitGlmAr1 } from '../model/glm-ar1.js';
 import { fitGlm } from '../model/glm-ols.js';
 import { estimateSmoothness } from '../model/smoothness.js';
 import { plantActivations, type PlantTruth } from '../plant/plant-activations.js';
-import { plantTimeCourse } from '../plant/plant-time-course.js';
+import { plantTimeCourses } from '../plant/plant-time-courses.js';
+import { acquisitionModel, type AcquisitionModel } from '../acquire/acquisition-model.js';
 import type { StepContext, StepNote } from '../steps/step-types.js';
 import type { Frame } from '../core/grid-frame.js';
 import { affineSpacing } from '../core/affine.js';
@@ -112,6 +113,20 @@ function emptyTruth(v: Volume, seed: number, nt: number): PlantTruth {
   };
 }
 
+/**
+ * The acquisition model planting follows (poses from the sweep's motion table, the field map, the
+ * sidecar's slice times unless the spec says 'none'), or null when it has none of them: planting then
+ * takes the plain path, with the same bytes as before acquisition models existed.
+ */
+function sweepAcquisitionModel(ctx: SweepContext, raw: Volume): AcquisitionModel | null {
+  const a = ctx.acquisition;
+  const model = acquisitionModel({ volume: raw, sidecar: ctx.sidecar }, {
+    motionTable: a.motionTable, fieldMapHz: a.fieldMapHz, ...(a.rotationCentreMm ? { rotationCentreMm: a.rotationCentreMm } : {}),
+    sliceTimesSec: a.sliceTiming === 'sidecar' ? 'sidecar' : null,
+  });
+  return model.poses || model.b0 || model.sliceTimesSec ? model : null;
+}
+
 /** The task events of a group: the run's own, or this repeat's random null design. */
 function groupEvents(ctx: SweepContext, group: CellGroup): BoldEvent[] {
   if (group.events.kind === 'run') return ctx.events;
@@ -141,12 +156,14 @@ async function computeGroupStage(ctx: SweepContext, group: CellGroup, trialType:
   let volume: Volume;
   let truth: PlantTruth;
   if (group.plant.count > 0) {
-    const timeCourse = plantTimeCourse(events, nt, raw.trSec, { condition: trialType });
+    const acquisition = sweepAcquisitionModel(ctx, raw);
+    const { timeCourse, sliceTimeCourses } = plantTimeCourses(events, nt, raw.trSec, { condition: trialType, sliceTimesSec: acquisition?.sliceTimesSec ?? null });
     const size = group.plant.shape === 'gaussian' ? { fwhmMm: group.plant.sizeMm } : { radiusMm: group.plant.sizeMm / 2 };
     ({ volume, truth } = plantActivations(raw, {
       count: group.plant.count, shape: group.plant.shape, ...size, amplitudePct: group.plant.amplitudePct,
       timeCourse, placementMask: ctx.placementMask, seed: group.plantSeed, separation: group.plant.separation,
       ...(group.plant.marginMm === null ? {} : { marginMm: group.plant.marginMm }),
+      ...(acquisition ? { acquisition, sliceTimeCourses } : {}),
     }));
   } else {
     volume = raw;

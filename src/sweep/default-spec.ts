@@ -45,6 +45,7 @@ export function defaultSmoothingSpec(o: DefaultSmoothingOptions = {}): SweepSpec
     ],
     vary: { 'smooth.fwhmMm': fwhms },
     plant: { shape: 'gaussian', sizesFwhmMm: o.sizesFwhmMm ?? [8], amplitudesPct: [o.amplitudePct ?? 1], count: o.count ?? 6, marginMm: o.marginMm ?? null, separation: 2 },
+    acquisition: { sliceTiming: 'sidecar' },
     repeats: o.repeats ?? 20,
     threshold: { kind: 'fwe-rft', alpha: 0.05, q: 0.05, clusterFormingP: 0.001 },
     model: { ar1: true, ar1SmoothFwhmMm: DEFAULT_AR1_SMOOTH_FWHM_MM, highpassCutoffSec: 128, trialType: null, censorVolumes: o.censorVolumes ?? [] },

@@ -16,6 +16,9 @@ import type { SweepProgress } from './progress.js';
 import type { Scorecard, ScorecardRow } from './scorecard.js';
 import { parseShard, shardCells, type Shard } from './shard.js';
 import { sharedBytes } from './shared-volume.js';
+import { acquisitionModel } from '../acquire/acquisition-model.js';
+import type { MotionRow } from '../acquire/rigid-motion-affine.js';
+import type { Vec3 } from '../core/affine.js';
 import { parseSweepSpec } from './parse-sweep-spec.js';
 import type { SweepSpec, SweepSpecInput } from './spec.js';
 import { stableHash } from './stable-hash.js';
@@ -68,6 +71,20 @@ export interface SweepOptions {
    * in the model and in the threshold's search region. __Default value:__ none
    */
   excludeMask?: Uint8Array;
+  /**
+   * The head's position at each volume of the run (x/y/z shift mm, x/y/z rotation degrees, relative
+   * to the reference position), so planted activations move with the head.
+   * __Default value:__ none (the head stays in its reference position)
+   */
+  motionTable?: MotionRow[] | null;
+  /** World point (mm) the motion table's rotations turn about. __Default value:__ the grid's centre */
+  rotationCentreMm?: Vec3 | null;
+  /**
+   * B0 field map in Hz on the run's grid (head in its reference position), so planted activations are
+   * displaced along phase encode as the run's signal is (needs the sidecar's PhaseEncodingDirection
+   * and TotalReadoutTime or EffectiveEchoSpacing). __Default value:__ none
+   */
+  fieldMapHz?: Float32Array | null;
   /** Called as cells finish. */
   onProgress?: (p: SweepProgress) => void;
   /** Keep group stages on disk after their cells are done. __Default value:__ false */
@@ -103,6 +120,13 @@ export interface SweepResult {
   inputs: { runHash: string; contextHash: string };
   shard: Shard | null;
   stats: SweepStats;
+}
+
+/** A copy of a float array in shared memory (read by every worker thread). */
+function sharedFloats(a: Float32Array): Float32Array {
+  const out = new Float32Array(new SharedArrayBuffer(a.byteLength));
+  out.set(a);
+  return out;
 }
 
 /** mask AND NOT exclude (a copy), or the mask itself when nothing is excluded. */
@@ -173,7 +197,14 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
   const scoreMask = without(brainMask, exclude);
   const runHash = volumeHash(volume);
   const sha = (a: Uint8Array) => createHash('sha256').update(a).digest('hex');
-  const contextHash = stableHash({ brain: sha(brainMask), placement: sha(placementMask), score: sha(scoreMask), events });
+  const fieldMapHz = options.fieldMapHz ?? null;
+  if (fieldMapHz && fieldMapHz.length !== n) fail('GRID_MISMATCH', `field map has ${fieldMapHz.length} voxels, the run has ${n} per volume`);
+  const motionTable = options.motionTable ?? null;
+  // the model is built once here so bad input (a table of another length, a missing readout time)
+  // stops the sweep before any work; workers build the same model again from the same inputs
+  acquisitionModel({ volume, sidecar: run.sidecar }, { motionTable, fieldMapHz, ...(options.rotationCentreMm ? { rotationCentreMm: options.rotationCentreMm } : {}), sliceTimesSec: spec.acquisition.sliceTiming === 'sidecar' ? 'sidecar' : null });
+  const acquisitionKey = motionTable || fieldMapHz ? { motion: motionTable, centre: options.rotationCentreMm ?? null, field: fieldMapHz ? sha(new Uint8Array(fieldMapHz.buffer, fieldMapHz.byteOffset, fieldMapHz.byteLength)) : null } : null;
+  const contextHash = stableHash({ brain: sha(brainMask), placement: sha(placementMask), score: sha(scoreMask), events, ...(acquisitionKey ? { acquisition: acquisitionKey } : {}) });
 
   // 3. estimates, plan and shard
   // worker threads import the modules that register the recipe's user steps; a user step registered
@@ -185,9 +216,11 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
   const cacheDir = options.cacheDir ?? null;
   // masks go to worker threads in shared memory (made once, shared by every task)
   const masks = options.inThisThread ? { brainMask, placementMask, scoreMask } : { brainMask: sharedBytes(brainMask), placementMask: sharedBytes(placementMask), scoreMask: sharedBytes(scoreMask) };
+  const sharedField = fieldMapHz && !options.inThisThread ? sharedFloats(fieldMapHz) : fieldMapHz;
   const baseContext = (stageMode: SweepContext['stageMode'], progress: Int32Array | null): SweepContext => ({
     run: { dims: [...volume.dims], spacingMm: [...volume.spacingMm], trSec: volume.trSec, affine: Array.from(volume.affine), data: volume.data },
     ...masks,
+    acquisition: { motionTable, rotationCentreMm: options.rotationCentreMm ?? null, fieldMapHz: sharedField, sliceTiming: spec.acquisition.sliceTiming },
     events, sidecar: run.sidecar, threshold: spec.threshold, cacheDir, stageMode, progress, stepModules: modules, estimates,
   });
   const estimatePlans = planSweep(spec, inputs).estimates;

@@ -36,6 +36,21 @@ export interface PlantSpec {
   separation: number;
 }
 
+/**
+ * How planted activations follow the run's acquisition. Head poses (a motion table) and a B0 field
+ * map are inputs of the sweep (runSweep options `motionTable`, `fieldMapHz`; CLI `--motion-table`,
+ * `--field-map`), not part of the spec.
+ */
+export interface AcquisitionSpec {
+  /**
+   * 'sidecar': each slice's planted time course is the task regressor sampled at that slice's
+   * acquisition time (the sidecar's SliceTiming), as a real response is; 'none': every slice follows
+   * the regressor sampled at the model's sample time (mid-volume). A run without SliceTiming plants
+   * as 'none'. __Default value:__ 'sidecar'
+   */
+  sliceTiming: 'sidecar' | 'none';
+}
+
 /** How a statistic map is thresholded before scoring. */
 export interface ThresholdRule {
   /** 'fwe-rft' random-field family-wise, 'fdr' Benjamini-Hochberg, 'uncorrected', 'bonferroni', 'cluster' extent. */
@@ -88,6 +103,8 @@ export interface SweepSpec {
   vary: Record<string, Array<number | string | boolean | null>>;
   /** What to plant. */
   plant: PlantSpec;
+  /** How planted activations follow the acquisition (see {@link AcquisitionSpec}). */
+  acquisition: AcquisitionSpec;
   /** Repeated plantings (new positions, same sizes) per setting. */
   repeats: number;
   /** The false-alarm control used to call detections. */
@@ -130,6 +147,9 @@ export const sweepSpecSchema = z.object({
     highpassCutoffSec: z.number().positive().nullable().default(128),
     trialType: z.string().nullable().default(null),
     censorVolumes: z.array(z.number().int().nonnegative()).default([]),
+  }).strict().default({}),
+  acquisition: z.object({
+    sliceTiming: z.enum(['sidecar', 'none']).default('sidecar'),
   }).strict().default({}),
   events: z.discriminatedUnion('kind', [
     z.object({ kind: z.literal('run') }).strict(),

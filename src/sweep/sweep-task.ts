@@ -1,3 +1,5 @@
+import type { Vec3 } from '../core/affine.js';
+import type { MotionRow } from '../acquire/rigid-motion-affine.js';
 import type { StepNote } from '../steps/step-types.js';
 import type { BoldEvent, Sidecar } from '../io/run-types.js';
 import type { CellGroup, CellPlan } from './plan.js';
@@ -14,8 +16,25 @@ export interface SharedRun {
 }
 
 /** What every task of a sweep shares. */
+/**
+ * What a sweep knows of the run's acquisition beyond its sidecar, for planting that follows it
+ * (src/acquire): head poses from a motion table, a B0 field map, and whether slices are timed.
+ */
+export interface SweepAcquisition {
+  /** One row per volume of the run as opened, or null: the head stays in its reference position. */
+  motionTable: MotionRow[] | null;
+  /** World point the motion table's rotations turn about; null: the grid's centre. */
+  rotationCentreMm: Vec3 | null;
+  /** B0 field map, Hz, on the run's grid in the reference position (shared memory with workers), or null. */
+  fieldMapHz: Float32Array | null;
+  /** Plant each slice at its own acquisition time (the sidecar's SliceTiming). */
+  sliceTiming: 'sidecar' | 'none';
+}
+
 export interface SweepContext {
   run: SharedRun;
+  /** How planting follows the acquisition. */
+  acquisition: SweepAcquisition;
   /** Brain mask (1 = in), one byte per voxel: scoring and statistics are inside it. */
   brainMask: Uint8Array;
   /** Where planted blobs may be centred (1 = allowed). */
