@@ -65,6 +65,80 @@ export function prefilterLine(line: Float64Array, mode: 'mirror' | 'reflect' | '
   }
 }
 
+let scratchYp = new Float64Array(0);
+let scratchYm = new Float64Array(0);
+
+/** Starting sums of the two recursions as index/weight lists (norm included), for lines of length n. */
+interface InitTaps { causalIdx: Int32Array; causalW: Float64Array; antiIdx: Int32Array; antiW: Float64Array }
+
+function initTaps(n: number, mode: 'mirror' | 'reflect' | 'wrap'): InitTaps {
+  const z = CUBIC_BSPLINE_POLE;
+  const period = mode === 'mirror' ? 2 * n - 2 : mode === 'reflect' ? 2 * n : n;
+  const terms = Math.min(period, HORIZON);
+  const norm = period <= HORIZON ? 1 / (1 - Math.pow(z, period)) : 1;
+  const t: InitTaps = { causalIdx: new Int32Array(terms), causalW: new Float64Array(terms), antiIdx: new Int32Array(terms), antiW: new Float64Array(terms) };
+  let zj = norm;
+  for (let j = 0; j < terms; j++, zj *= z) {
+    t.causalIdx[j] = boundaryIndex(-j, n, mode); t.causalW[j] = zj;
+    t.antiIdx[j] = boundaryIndex(n - 1 + j, n, mode); t.antiW[j] = zj;
+  }
+  return t;
+}
+
+/**
+ * Prefilter B lines at once: line b, sample k is at c[o + b + k * stride] (B contiguous lines, as
+ * the y and z passes of an x-fastest volume are), so every inner loop runs over contiguous memory.
+ */
+function prefilterBatch(c: Float64Array, o: number, lines: number, n: number, stride: number, t: InitTaps, yp: Float64Array, ym: Float64Array): void {
+  const z = CUBIC_BSPLINE_POLE;
+  const alpha = (-6 * z) / (1 - z * z);
+  for (let b = 0; b < lines; b++) yp[b] = 0;
+  for (let j = 0; j < t.causalIdx.length; j++) {
+    const w = t.causalW[j], q = o + t.causalIdx[j] * stride;
+    for (let b = 0; b < lines; b++) yp[b] += w * c[q + b];
+  }
+  for (let k = 1; k < n; k++) {
+    const q = o + k * stride, r = k * lines;
+    for (let b = 0; b < lines; b++) yp[r + b] = c[q + b] + z * yp[r - lines + b];
+  }
+  for (let b = 0; b < lines; b++) ym[b] = 0;
+  for (let j = 0; j < t.antiIdx.length; j++) {
+    const w = t.antiW[j], q = o + t.antiIdx[j] * stride;
+    for (let b = 0; b < lines; b++) ym[b] += w * c[q + b];
+  }
+  {
+    const q = o + (n - 1) * stride, r = (n - 1) * lines;
+    for (let b = 0; b < lines; b++) c[q + b] = alpha * (yp[r + b] + ym[b] - c[q + b]);
+  }
+  for (let k = n - 2; k >= 0; k--) {
+    const q = o + k * stride, r = k * lines;
+    for (let b = 0; b < lines; b++) {
+      const s = c[q + b];
+      const m = s + z * ym[b];
+      ym[b] = m;
+      c[q + b] = alpha * (yp[r + b] + m - s);
+    }
+  }
+}
+
+/** Prefilter one line in place at c[o + k] (the x pass: samples contiguous). */
+function prefilterRow(c: Float64Array, o: number, n: number, t: InitTaps, yp: Float64Array): void {
+  const z = CUBIC_BSPLINE_POLE;
+  const alpha = (-6 * z) / (1 - z * z);
+  let sum = 0;
+  for (let j = 0; j < t.causalIdx.length; j++) sum += t.causalW[j] * c[o + t.causalIdx[j]];
+  yp[0] = sum;
+  for (let k = 1; k < n; k++) yp[k] = c[o + k] + z * yp[k - 1];
+  let ym = 0;
+  for (let j = 0; j < t.antiIdx.length; j++) ym += t.antiW[j] * c[o + t.antiIdx[j]];
+  c[o + n - 1] = alpha * (yp[n - 1] + ym - c[o + n - 1]);
+  for (let k = n - 2; k >= 0; k--) {
+    const s = c[o + k];
+    ym = s + z * ym;
+    c[o + k] = alpha * (yp[k] + ym - s);
+  }
+}
+
 /**
  * Cubic B-spline coefficients of a 3D image (Unser 1999), separable along x, y, z, for
  * interpolation under a boundary mode with scipy.ndimage's (1.10) meaning: `mirror`, `reflect` and
@@ -97,22 +171,20 @@ export function cubicBSplinePrefilter(data: ArrayLike<number>, dims: readonly [n
     }
   }
   const lineMode: 'mirror' | 'reflect' | 'wrap' = mode === 'wrap' ? 'wrap' : mode === 'reflect' || mode === 'nearest' ? 'reflect' : 'mirror';
-  const longest = Math.max(nx, ny, nz);
-  const line = new Float64Array(longest), scratch = new Float64Array(longest);
-  const axes: [number, number, number][] = [[nx, 1, 0], [ny, nx, 1], [nz, nx * ny, 2]];
-  for (const [n, stride, axis] of axes) {
-    if (n === 1) continue;
-    const l = line.subarray(0, n);
-    // every line along this axis: start offsets over the other two axes
-    const [na, sa, nb, sb] = axis === 0 ? [ny, nx, nz, nx * ny] : axis === 1 ? [nx, 1, nz, nx * ny] : [nx, 1, ny, nx];
-    for (let b = 0; b < nb; b++) {
-      for (let a = 0; a < na; a++) {
-        const start = a * sa + b * sb;
-        for (let m = 0, q = start; m < n; m++, q += stride) l[m] = c[q];
-        prefilterLine(l, lineMode, scratch);
-        for (let m = 0, q = start; m < n; m++, q += stride) c[q] = l[m];
-      }
-    }
+  const sxy = nx * ny;
+  // scratch for the causal pass of a batch (the z pass holds a whole volume of it), kept between calls
+  const need = Math.max(nx, ny * nx, nz * sxy);
+  if (scratchYp.length < need) scratchYp = new Float64Array(need);
+  if (scratchYm.length < Math.max(nx, sxy)) scratchYm = new Float64Array(Math.max(nx, sxy));
+  const yp = scratchYp, ym = scratchYm;
+  if (nx > 1) {
+    const t = initTaps(nx, lineMode);
+    for (let o = 0; o < total; o += nx) prefilterRow(c, o, nx, t, yp);
   }
+  if (ny > 1) {
+    const t = initTaps(ny, lineMode);
+    for (let k = 0; k < nz; k++) prefilterBatch(c, k * sxy, nx, ny, nx, t, yp, ym);
+  }
+  if (nz > 1) prefilterBatch(c, 0, sxy, nz, sxy, initTaps(nz, lineMode), yp, ym);
   return { coefficients: c, dims: [nx, ny, nz], pad };
 }

@@ -94,39 +94,106 @@ function axisTaps(x: number, n: number, stride: number, kernel: InterpolationKer
  * @example resampleVoxels({ source: img, sourceDims: [64, 64, 36], pad: 0, srcFromOut, outDims: [64, 64, 36], kernel: 'linear', mode: 'constant', cval: 0 }, out)
  */
 export function resampleVoxels(input: ResampleVoxelsInput, out: Float32Array): Float32Array {
-  const { source, sourceDims, pad, srcFromOut: m, outDims, kernel, mode, cval } = input;
-  const disp = input.displacementVox ?? null;
-  const [nx, ny, nz] = sourceDims;
-  const sxy = nx * ny;
-  const taps = kernelTaps(kernel);
-  const [ox, oy, oz] = outDims;
-  let p = 0;
+  const { kernel } = input;
+  // one row routine per kernel keeps each loop monomorphic (linear reads Float32 voxels, cubic
+  // Float64 coefficients) and lets the interior of the grid skip the boundary handling
+  const row = kernel === 'linear' ? rowLinear : kernel === 'cubic' ? rowCubic : rowGeneric;
+  const m = input.srcFromOut, pad = input.pad;
+  const [ox, oy, oz] = input.outDims;
   for (let k = 0; k < oz; k++) {
     for (let j = 0; j < oy; j++) {
       // position of (0, j, k) in padded source voxels; stepping i adds the first column
-      let x = m[1] * j + m[2] * k + m[3] + pad;
-      let y = m[5] * j + m[6] * k + m[7] + pad;
-      let z = m[9] * j + m[10] * k + m[11] + pad;
-      for (let i = 0; i < ox; i++, p++, x += m[0], y += m[4], z += m[8]) {
-        let px = x, py = y, pz = z;
-        if (disp !== null) { px += disp[3 * p]; py += disp[3 * p + 1]; pz += disp[3 * p + 2]; }
-        if (!axisTaps(px, nx, 1, kernel, mode, offX, wX) || !axisTaps(py, ny, nx, kernel, mode, offY, wY) || !axisTaps(pz, nz, sxy, kernel, mode, offZ, wZ)) {
-          out[p] = cval;
-          continue;
-        }
-        let s = 0;
-        for (let c = 0; c < taps; c++) {
-          const oz2 = offZ[c], wz = wZ[c];
-          for (let b = 0; b < taps; b++) {
-            const o = oz2 + offY[b], wzy = wz * wY[b];
-            let r = 0;
-            for (let a = 0; a < taps; a++) r += wX[a] * source[o + offX[a]];
-            s += wzy * r;
-          }
-        }
-        out[p] = s;
-      }
+      const x = m[1] * j + m[2] * k + m[3] + pad;
+      const y = m[5] * j + m[6] * k + m[7] + pad;
+      const z = m[9] * j + m[10] * k + m[11] + pad;
+      row(input, out, ox * (j + oy * k), ox, x, y, z);
     }
   }
   return out;
 }
+
+/** One output voxel by the generic tap tables (any kernel, any position). */
+function generic(input: ResampleVoxelsInput, px: number, py: number, pz: number): number {
+  const { source, sourceDims, kernel, mode } = input;
+  const nx = sourceDims[0], ny = sourceDims[1], nz = sourceDims[2];
+  if (!axisTaps(px, nx, 1, kernel, mode, offX, wX) || !axisTaps(py, ny, nx, kernel, mode, offY, wY) || !axisTaps(pz, nz, nx * ny, kernel, mode, offZ, wZ)) return input.cval;
+  const taps = kernelTaps(kernel);
+  let s = 0;
+  for (let c = 0; c < taps; c++) {
+    const oz2 = offZ[c], wz = wZ[c];
+    for (let b = 0; b < taps; b++) {
+      const o = oz2 + offY[b], wzy = wz * wY[b];
+      let r = 0;
+      for (let a = 0; a < taps; a++) r += wX[a] * source[o + offX[a]];
+      s += wzy * r;
+    }
+  }
+  return s;
+}
+
+type Row = (input: ResampleVoxelsInput, out: Float32Array, p0: number, count: number, x: number, y: number, z: number) => void;
+
+const rowGeneric: Row = (input, out, p0, count, x, y, z) => {
+  const m = input.srcFromOut, disp = input.displacementVox ?? null;
+  for (let i = 0, p = p0; i < count; i++, p++, x += m[0], y += m[4], z += m[8]) {
+    let px = x, py = y, pz = z;
+    if (disp !== null) { px += disp[3 * p]; py += disp[3 * p + 1]; pz += disp[3 * p + 2]; }
+    out[p] = generic(input, px, py, pz);
+  }
+};
+
+const rowLinear: Row = (input, out, p0, count, x, y, z) => {
+  const m = input.srcFromOut, disp = input.displacementVox ?? null, src = input.source;
+  const nx = input.sourceDims[0], ny = input.sourceDims[1], nz = input.sourceDims[2], sxy = nx * ny;
+  const hx = nx - 1, hy = ny - 1, hz = nz - 1;
+  for (let i = 0, p = p0; i < count; i++, p++, x += m[0], y += m[4], z += m[8]) {
+    let px = x, py = y, pz = z;
+    if (disp !== null) { px += disp[3 * p]; py += disp[3 * p + 1]; pz += disp[3 * p + 2]; }
+    // interior: both taps of every axis inside the grid (positions >= 0, so truncation is floor)
+    if (px >= 0 && px < hx && py >= 0 && py < hy && pz >= 0 && pz < hz) {
+      const i0 = px | 0, j0 = py | 0, k0 = pz | 0;
+      const fx = px - i0, fy = py - j0, fz = pz - k0;
+      const q = i0 + nx * j0 + sxy * k0;
+      const a = src[q], b = src[q + 1], c = src[q + nx], d = src[q + nx + 1];
+      const e = src[q + sxy], f = src[q + sxy + 1], g = src[q + sxy + nx], h = src[q + sxy + nx + 1];
+      const ab = a + fx * (b - a), cd = c + fx * (d - c), ef = e + fx * (f - e), gh = g + fx * (h - g);
+      const lo = ab + fy * (cd - ab), hi = ef + fy * (gh - ef);
+      out[p] = lo + fz * (hi - lo);
+    } else {
+      out[p] = generic(input, px, py, pz);
+    }
+  }
+};
+
+const rowCubic: Row = (input, out, p0, count, x, y, z) => {
+  const m = input.srcFromOut, disp = input.displacementVox ?? null, src = input.source;
+  const nx = input.sourceDims[0], ny = input.sourceDims[1], nz = input.sourceDims[2], sxy = nx * ny;
+  for (let i = 0, p = p0; i < count; i++, p++, x += m[0], y += m[4], z += m[8]) {
+    let px = x, py = y, pz = z;
+    if (disp !== null) { px += disp[3 * p]; py += disp[3 * p + 1]; pz += disp[3 * p + 2]; }
+    // interior: all four taps of every axis inside the grid
+    if (px >= 1 && px < nx - 2 && py >= 1 && py < ny - 2 && pz >= 1 && pz < nz - 2) {
+      const i0 = px | 0, j0 = py | 0, k0 = pz | 0;
+      const tx = px - i0, ty = py - j0, tz = pz - k0;
+      const ux = 1 - tx, uy = 1 - ty, uz = 1 - tz;
+      const tx2 = tx * tx, ty2 = ty * ty, tz2 = tz * tz;
+      const x0 = (ux * ux * ux) / 6, x1 = (4 - 6 * tx2 + 3 * tx2 * tx) / 6, x2 = (1 + 3 * tx + 3 * tx2 - 3 * tx2 * tx) / 6, x3 = (tx2 * tx) / 6;
+      wY[0] = (uy * uy * uy) / 6; wY[1] = (4 - 6 * ty2 + 3 * ty2 * ty) / 6; wY[2] = (1 + 3 * ty + 3 * ty2 - 3 * ty2 * ty) / 6; wY[3] = (ty2 * ty) / 6;
+      wZ[0] = (uz * uz * uz) / 6; wZ[1] = (4 - 6 * tz2 + 3 * tz2 * tz) / 6; wZ[2] = (1 + 3 * tz + 3 * tz2 - 3 * tz2 * tz) / 6; wZ[3] = (tz2 * tz) / 6;
+      const base = i0 - 1 + nx * (j0 - 1) + sxy * (k0 - 1);
+      let s = 0;
+      for (let c = 0; c < 4; c++) {
+        const qz = base + c * sxy;
+        let sz = 0;
+        for (let b = 0; b < 4; b++) {
+          const q = qz + b * nx;
+          sz += wY[b] * (x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3]);
+        }
+        s += wZ[c] * sz;
+      }
+      out[p] = s;
+    } else {
+      out[p] = generic(input, px, py, pz);
+    }
+  }
+};
