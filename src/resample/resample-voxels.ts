@@ -3,7 +3,6 @@ import type { BoundaryMode } from '../core/boundary-mode.js';
 import { extendIndex } from './extend-index.js';
 import { foldCoordinate } from './fold-coordinate.js';
 import { kernelTaps, LANCZOS_RADIUS, type InterpolationKernel } from './interpolation-kernel.js';
-import { lanczosWeight } from './lanczos-weight.js';
 
 /** What {@link resampleVoxels} reads and writes (plain data: it also travels to worker threads). */
 export interface ResampleVoxelsInput {
@@ -30,6 +29,9 @@ export interface ResampleVoxelsInput {
   /** Value written for positions outside the grid in `constant` mode. */
   cval: number;
 }
+
+const COS_THIRDS = Float64Array.from({ length: 6 }, (_, m) => Math.cos((m * Math.PI) / 3));
+const SIN_THIRDS = Float64Array.from({ length: 6 }, (_, m) => Math.sin((m * Math.PI) / 3));
 
 // per-axis taps: source offsets (index times stride) and weights, reused across calls
 const offX = new Int32Array(8), offY = new Int32Array(8), offZ = new Int32Array(8);
@@ -70,13 +72,25 @@ function axisTaps(x: number, n: number, stride: number, kernel: InterpolationKer
       return true;
     }
     case 'lanczos3': {
-      const i0 = Math.floor(f), start = i0 - LANCZOS_RADIUS + 1;
-      let sum = 0;
-      for (let m = 0; m < 2 * LANCZOS_RADIUS; m++) {
-        off[m] = extendIndex(start + m, n, mode) * stride;
-        sum += (w[m] = lanczosWeight(f - (start + m), LANCZOS_RADIUS));
+      // L(d) = 3 sin(pi d) sin(pi d / 3) / (pi d)^2 at d = t + 2 - m, m = 0..5: sin(pi d) =
+      // (-1)^m sin(pi t) and sin(pi d / 3) = sin(a - m pi / 3) with a = pi (t + 2) / 3, so two
+      // sines and a cosine serve all six taps
+      const i0 = Math.floor(f), t = f - i0, start = i0 - LANCZOS_RADIUS + 1;
+      for (let m = 0; m < 6; m++) off[m] = extendIndex(start + m, n, mode) * stride;
+      if (t === 0) {
+        for (let m = 0; m < 6; m++) w[m] = m === 2 ? 1 : 0;
+        return true;
       }
-      for (let m = 0; m < 2 * LANCZOS_RADIUS; m++) w[m] /= sum;
+      const spt = Math.sin(Math.PI * t), a = (Math.PI * (t + 2)) / 3, sa = Math.sin(a), ca = Math.cos(a);
+      let sum = 0;
+      for (let m = 0; m < 6; m++) {
+        const d = t + 2 - m;
+        const sd3 = sa * COS_THIRDS[m] - ca * SIN_THIRDS[m];
+        const v = (3 * (m & 1 ? -spt : spt) * sd3) / (Math.PI * Math.PI * d * d);
+        w[m] = v;
+        sum += v;
+      }
+      for (let m = 0; m < 6; m++) w[m] /= sum;
       return true;
     }
   }
