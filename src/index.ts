@@ -33,6 +33,11 @@ export {
   registerStep, getStep, listSteps, parseStepParams, applyStep, describeStep,
 } from './steps/index.js';
 export { smoothRun, smoothVolume3d } from './filter/index.js';
+export {
+  type InterpolationKernel, INTERPOLATION_KERNELS, type ResampleOptions, type ResampleRunOptions, type DisplacementField,
+  type TargetGridOptions, resampleVolume, resampleRun, targetGrid, cubicBSplinePrefilter,
+  repeatedResampling, type RepeatedResamplingOptions, type RepeatedResamplingResult, type RepeatedResamplingRow,
+} from './resample/index.js';
 
 // model
 export { hrfValues, buildDesign, fitGlm, fitGlmAr1, contrastMaps, estimateSmoothness } from './model/index.js';
@@ -55,7 +60,7 @@ export { summariseScorecard, recommendSetting, type Recommendation, type Setting
 export {
   RESEARCH_CAUTION, renderSvg, threePlanePng, sliceGridPng, voxelRasterSvg, lookTracesSpec, voxelTimeCourseSpec, chosenVoxels, maskCentre,
   writeLookFolder, detectionChart, falseAlarmChart, rocChart, smoothnessChart, tsnrChart, methodsText, methodsMarkdown,
-  thresholdText, runFacts, writeReport, writeSweepFolder, readDecisionRecord, recordDir, rerunRecord,
+  thresholdText, runFacts, writeReport, writeSweepFolder, readDecisionRecord, recordDir, rerunRecord, repeatedResamplingChart,
 } from './report/index.js';
 
 // the digital phantom

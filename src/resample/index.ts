@@ -19,3 +19,8 @@ export { RESAMPLE_RUN_IN_THREAD_BELOW, resampleRun } from './resample-run.js';
 export type { ResampleRunOptions } from './resample-run.js';
 export { resampleVolumesTask } from './resample-volumes-task.js';
 export type { ResampleVolumesTask } from './resample-volumes-task.js';
+export { highFrequencyEnergy } from './high-frequency-energy.js';
+export type { SpectralEnergy } from './high-frequency-energy.js';
+export { imageFwhmMm } from './image-fwhm.js';
+export { repeatedResampling } from './repeated-resampling.js';
+export type { RepeatedResamplingOptions, RepeatedResamplingResult, RepeatedResamplingRow } from './repeated-resampling.js';
