@@ -36,7 +36,7 @@ export { smoothRun, smoothVolume3d } from './filter/index.js';
 export {
   type InterpolationKernel, INTERPOLATION_KERNELS, type ResampleOptions, type ResampleRunOptions, type DisplacementField,
   type TargetGridOptions, resampleVolume, resampleRun, targetGrid, cubicBSplinePrefilter,
-  repeatedResampling, type RepeatedResamplingOptions, type RepeatedResamplingResult, type RepeatedResamplingRow,
+  repeatedResampling, type RepeatedResamplingOptions, type RepeatedResamplingResult, type RepeatedResamplingRow, imageFwhmMm, highFrequencyEnergy,
 } from './resample/index.js';
 
 // model
