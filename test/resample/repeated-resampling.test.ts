@@ -29,8 +29,8 @@ describe('repeated resampling of the demo mean image (9 degrees about z in 36 st
       expect(row('linear', 'chain').highFrequencyLost).toBeGreaterThan(row(k, 'chain').highFrequencyLost);
       expect(row('linear', 'chain').correlation).toBeLessThan(row(k, 'chain').correlation);
     }
-    // "clearly": the linear chain widens the image by more than a quarter voxel (3 mm voxels)
-    expect(row('linear', 'chain').addedFwhmMm).toBeGreaterThan(0.75);
+    // "clearly": the linear chain widens the image by more than a quarter voxel
+    expect(row('linear', 'chain').addedFwhmMm).toBeGreaterThan(run.volume.spacingMm[0] / 4);
   });
   it('one concatenated resampling beats any chain, kernel by kernel and overall', () => {
     for (const k of ['nearest', 'linear', 'cubic', 'lanczos3']) expect(row(k, 'one-step').correlation).toBeGreaterThan(row(k, 'chain').correlation);
