@@ -24,3 +24,4 @@ export type { SpectralEnergy } from './high-frequency-energy.js';
 export { imageFwhmMm } from './image-fwhm.js';
 export { repeatedResampling } from './repeated-resampling.js';
 export type { RepeatedResamplingOptions, RepeatedResamplingResult, RepeatedResamplingRow } from './repeated-resampling.js';
+export { extendCoefficients } from './extend-coefficients.js';

@@ -1,6 +1,7 @@
 import type { Affine } from '../core/affine.js';
 import type { BoundaryMode } from '../core/boundary-mode.js';
 import { cubicBSplinePrefilter } from './cubic-bspline-prefilter.js';
+import { extendCoefficients } from './extend-coefficients.js';
 import type { InterpolationKernel } from './interpolation-kernel.js';
 import { resampleVoxels } from './resample-voxels.js';
 
@@ -26,6 +27,10 @@ export interface ResampleVolumesTask {
 }
 
 let coefficientScratch: Float64Array | undefined;
+let extendedScratch: Float64Array | undefined;
+
+/** Planes of extended coefficients each side for the cubic kernel: positions up to the grid's edge then read them directly. */
+const CUBIC_MARGIN = 2;
 
 /**
  * Run a {@link ResampleVolumesTask}: per volume, the cubic prefilter (into a scratch kept between
@@ -42,14 +47,16 @@ export function resampleVolumesTask(task: ResampleVolumesTask): number {
     const volume = task.input.subarray(n * t, n * (t + 1));
     let source: Float32Array | Float64Array = volume;
     let sourceDims: readonly [number, number, number] = task.sourceDims;
-    let pad = 0;
+    let pad = 0, margin = 0;
     if (task.kernel === 'cubic') {
       const c = cubicBSplinePrefilter(volume, task.sourceDims, task.mode, coefficientScratch);
       coefficientScratch = c.coefficients;
-      source = c.coefficients; sourceDims = c.dims; pad = c.pad;
+      const x = extendCoefficients(c.coefficients, c.dims, task.mode, CUBIC_MARGIN, extendedScratch);
+      extendedScratch = x.values;
+      source = x.values; sourceDims = x.dims; pad = c.pad; margin = CUBIC_MARGIN;
     }
     const map = task.srcFromOut.length === 1 ? task.srcFromOut[0] : task.srcFromOut[t];
-    resampleVoxels({ source, sourceDims, pad, srcFromOut: map, displacementVox: task.displacementVox, outDims: task.outDims, kernel: task.kernel, mode: task.mode, cval: task.cval }, task.output.subarray(m * t, m * (t + 1)));
+    resampleVoxels({ source, sourceDims, pad, margin, srcFromOut: map, displacementVox: task.displacementVox, outDims: task.outDims, kernel: task.kernel, mode: task.mode, cval: task.cval }, task.output.subarray(m * t, m * (t + 1)));
   }
   return task.tEnd - task.tStart;
 }

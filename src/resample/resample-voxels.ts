@@ -15,6 +15,11 @@ export interface ResampleVoxelsInput {
   sourceDims: readonly [number, number, number];
   /** Voxels of padding each side of `source` (cubic `nearest` only; else 0). */
   pad: number;
+  /**
+   * Planes of mode-extended values each side of `source` beyond `pad` (extendCoefficients), so that
+   * positions near the edges read them directly. __Default value:__ 0
+   */
+  margin?: number;
   /** Row-major 4x4: output voxel index -> source voxel index (unpadded). */
   srcFromOut: Affine;
   /**
@@ -41,29 +46,29 @@ const wX = new Float64Array(8), wY = new Float64Array(8), wZ = new Float64Array(
  * Taps of one axis at position x: fills offsets (index times stride) and weights.
  * @returns false when the position is outside the line in `constant` mode
  */
-function axisTaps(x: number, n: number, stride: number, kernel: InterpolationKernel, mode: BoundaryMode, off: Int32Array, w: Float64Array): boolean {
+function axisTaps(x: number, n: number, stride: number, shift: number, kernel: InterpolationKernel, mode: BoundaryMode, off: Int32Array, w: Float64Array): boolean {
   const f = foldCoordinate(x, n, mode);
   if (f !== f) return false;
   switch (kernel) {
     case 'nearest': {
-      off[0] = extendIndex(Math.floor(f + 0.5), n, mode) * stride;
+      off[0] = (extendIndex(Math.floor(f + 0.5), n, mode) + shift) * stride;
       w[0] = 1;
       return true;
     }
     case 'linear': {
       const i0 = Math.floor(f), t = f - i0;
-      off[0] = extendIndex(i0, n, mode) * stride;
-      off[1] = extendIndex(i0 + 1, n, mode) * stride;
+      off[0] = (extendIndex(i0, n, mode) + shift) * stride;
+      off[1] = (extendIndex(i0 + 1, n, mode) + shift) * stride;
       w[0] = 1 - t; w[1] = t;
       return true;
     }
     case 'cubic': {
       const i0 = Math.floor(f), t = f - i0, u = 1 - t, t2 = t * t, t3 = t2 * t;
       if (i0 >= 1 && i0 + 2 < n) {
-        const o = (i0 - 1) * stride;
+        const o = (i0 - 1 + shift) * stride;
         off[0] = o; off[1] = o + stride; off[2] = o + 2 * stride; off[3] = o + 3 * stride;
       } else {
-        for (let m = 0; m < 4; m++) off[m] = extendIndex(i0 - 1 + m, n, mode) * stride;
+        for (let m = 0; m < 4; m++) off[m] = (extendIndex(i0 - 1 + m, n, mode) + shift) * stride;
       }
       w[0] = (u * u * u) / 6;
       w[1] = (4 - 6 * t2 + 3 * t3) / 6;
@@ -76,7 +81,7 @@ function axisTaps(x: number, n: number, stride: number, kernel: InterpolationKer
       // (-1)^m sin(pi t) and sin(pi d / 3) = sin(a - m pi / 3) with a = pi (t + 2) / 3, so two
       // sines and a cosine serve all six taps
       const i0 = Math.floor(f), t = f - i0, start = i0 - LANCZOS_RADIUS + 1;
-      for (let m = 0; m < 6; m++) off[m] = extendIndex(start + m, n, mode) * stride;
+      for (let m = 0; m < 6; m++) off[m] = (extendIndex(start + m, n, mode) + shift) * stride;
       if (t === 0) {
         for (let m = 0; m < 6; m++) w[m] = m === 2 ? 1 : 0;
         return true;
@@ -112,11 +117,11 @@ export function resampleVoxels(input: ResampleVoxelsInput, out: Float32Array): F
   // one row routine per kernel keeps each loop monomorphic (linear reads Float32 voxels, cubic
   // Float64 coefficients) and lets the interior of the grid skip the boundary handling
   const row = kernel === 'linear' ? rowLinear : kernel === 'cubic' ? rowCubic : rowGeneric;
-  const m = input.srcFromOut, pad = input.pad;
+  const m = input.srcFromOut, pad = input.pad + (input.margin ?? 0);
   const [ox, oy, oz] = input.outDims;
   for (let k = 0; k < oz; k++) {
     for (let j = 0; j < oy; j++) {
-      // position of (0, j, k) in padded source voxels; stepping i adds the first column
+      // position of (0, j, k) in the source array's voxels (past pad and margin); stepping i adds the first column
       const x = m[1] * j + m[2] * k + m[3] + pad;
       const y = m[5] * j + m[6] * k + m[7] + pad;
       const z = m[9] * j + m[10] * k + m[11] + pad;
@@ -126,11 +131,14 @@ export function resampleVoxels(input: ResampleVoxelsInput, out: Float32Array): F
   return out;
 }
 
-/** One output voxel by the generic tap tables (any kernel, any position). */
+/** One output voxel by the generic tap tables (any kernel, any position in the source array's voxels). */
 function generic(input: ResampleVoxelsInput, px: number, py: number, pz: number): number {
   const { source, sourceDims, kernel, mode } = input;
-  const nx = sourceDims[0], ny = sourceDims[1], nz = sourceDims[2];
-  if (!axisTaps(px, nx, 1, kernel, mode, offX, wX) || !axisTaps(py, ny, nx, kernel, mode, offY, wY) || !axisTaps(pz, nz, nx * ny, kernel, mode, offZ, wZ)) return input.cval;
+  const e = input.margin ?? 0;
+  const sx = sourceDims[0], sxy = sx * sourceDims[1];
+  // fold and extend on the array without its margin, then read through the margin's offsets
+  const nx = sx - 2 * e, ny = sourceDims[1] - 2 * e, nz = sourceDims[2] - 2 * e;
+  if (!axisTaps(px - e, nx, 1, e, kernel, mode, offX, wX) || !axisTaps(py - e, ny, sx, e, kernel, mode, offY, wY) || !axisTaps(pz - e, nz, sxy, e, kernel, mode, offZ, wZ)) return input.cval;
   const taps = kernelTaps(kernel);
   let s = 0;
   for (let c = 0; c < taps; c++) {
@@ -182,11 +190,16 @@ const rowLinear: Row = (input, out, p0, count, x, y, z) => {
 const rowCubic: Row = (input, out, p0, count, x, y, z) => {
   const m = input.srcFromOut, disp = input.displacementVox ?? null, src = input.source;
   const nx = input.sourceDims[0], ny = input.sourceDims[1], nz = input.sourceDims[2], sxy = nx * ny;
+  // in constant mode a position outside the grid proper (without margin) gets cval, and in nearest
+  // mode it is clamped first: both leave such positions to the generic path
+  const e = input.margin ?? 0, constant = input.mode === 'constant' || input.mode === 'nearest';
+  const lo = e, hx = nx - 1 - e, hy = ny - 1 - e, hz = nz - 1 - e;
   for (let i = 0, p = p0; i < count; i++, p++, x += m[0], y += m[4], z += m[8]) {
     let px = x, py = y, pz = z;
     if (disp !== null) { px += disp[3 * p]; py += disp[3 * p + 1]; pz += disp[3 * p + 2]; }
-    // interior: all four taps of every axis inside the grid
-    if (px >= 1 && px < nx - 2 && py >= 1 && py < ny - 2 && pz >= 1 && pz < nz - 2) {
+    // interior: all four taps of every axis inside the array (margin included)
+    if (px >= 1 && px < nx - 2 && py >= 1 && py < ny - 2 && pz >= 1 && pz < nz - 2 &&
+        (!constant || (px >= lo && px <= hx && py >= lo && py <= hy && pz >= lo && pz <= hz))) {
       const i0 = px | 0, j0 = py | 0, k0 = pz | 0;
       const tx = px - i0, ty = py - j0, tz = pz - k0;
       const ux = 1 - tx, uy = 1 - ty, uz = 1 - tz;
