@@ -50,7 +50,13 @@ export interface ResamplePlan {
   displacementVox: Float32Array | null;
 }
 
-/** Whether two grids are the same (dims equal, affines within 1e-6 mm). */
+/**
+ * Whether two grids are the same: dims equal, affines within 1e-6 mm.
+ * @param a - first grid
+ * @param b - second grid
+ * @returns true when they match
+ * @example sameGridWithin(field.grid, target) // false for a field on another grid
+ */
 export function sameGridWithin(a: Grid, b: Grid): boolean {
   return a.dims.every((d, i) => d === b.dims[i]) && Array.from(a.affine).every((v, i) => Math.abs(v - b.affine[i]) <= 1e-6);
 }

@@ -29,6 +29,7 @@ export function checkFiniteRun(volume: Volume): void {
  * @param like - the source run
  * @param data - output values
  * @returns the volume
+ * @example const out = volumeOnTarget(plan, run.volume, values)
  */
 export function volumeOnTarget(plan: ResamplePlan, like: Volume, data: Float32Array): Volume {
   const s = affineSpacing(plan.grid.affine);

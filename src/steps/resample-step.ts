@@ -24,7 +24,12 @@ export interface ResampleStepParams {
   mode?: BoundaryMode;
 }
 
-/** Simplicity order of the kernels: nearest < linear < cubic < lanczos3 (fewer taps, less arithmetic). */
+/**
+ * Simplicity order of the kernels: nearest < linear < cubic < lanczos3 (fewer taps, less arithmetic).
+ * @param kernel - the kernel
+ * @returns 0, 1, 2 or 3
+ * @example kernelSimplicity('cubic') // 2
+ */
 export function kernelSimplicity(kernel: InterpolationKernel): number {
   return INTERPOLATION_KERNELS.indexOf(kernel);
 }
