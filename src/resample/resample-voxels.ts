@@ -205,19 +205,30 @@ const rowCubic: Row = (input, out, p0, count, x, y, z) => {
       const ux = 1 - tx, uy = 1 - ty, uz = 1 - tz;
       const tx2 = tx * tx, ty2 = ty * ty, tz2 = tz * tz;
       const x0 = (ux * ux * ux) / 6, x1 = (4 - 6 * tx2 + 3 * tx2 * tx) / 6, x2 = (1 + 3 * tx + 3 * tx2 - 3 * tx2 * tx) / 6, x3 = (tx2 * tx) / 6;
-      wY[0] = (uy * uy * uy) / 6; wY[1] = (4 - 6 * ty2 + 3 * ty2 * ty) / 6; wY[2] = (1 + 3 * ty + 3 * ty2 - 3 * ty2 * ty) / 6; wY[3] = (ty2 * ty) / 6;
-      wZ[0] = (uz * uz * uz) / 6; wZ[1] = (4 - 6 * tz2 + 3 * tz2 * tz) / 6; wZ[2] = (1 + 3 * tz + 3 * tz2 - 3 * tz2 * tz) / 6; wZ[3] = (tz2 * tz) / 6;
-      const base = i0 - 1 + nx * (j0 - 1) + sxy * (k0 - 1);
-      let s = 0;
-      for (let c = 0; c < 4; c++) {
-        const qz = base + c * sxy;
-        let sz = 0;
-        for (let b = 0; b < 4; b++) {
-          const q = qz + b * nx;
-          sz += wY[b] * (x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3]);
-        }
-        s += wZ[c] * sz;
-      }
+      const y0 = (uy * uy * uy) / 6, y1 = (4 - 6 * ty2 + 3 * ty2 * ty) / 6, y2 = (1 + 3 * ty + 3 * ty2 - 3 * ty2 * ty) / 6, y3 = (ty2 * ty) / 6;
+      const z0 = (uz * uz * uz) / 6, z1 = (4 - 6 * tz2 + 3 * tz2 * tz) / 6, z2 = (1 + 3 * tz + 3 * tz2 - 3 * tz2 * tz) / 6, z3 = (tz2 * tz) / 6;
+      // 4 x 4 rows of 4 taps, written out: the small loops were not unrolled by the compiler
+      let q = i0 - 1 + nx * (j0 - 1) + sxy * (k0 - 1);
+      let r0 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3]; q += nx;
+      let r1 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3]; q += nx;
+      let r2 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3]; q += nx;
+      let r3 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3]; q += sxy - 3 * nx;
+      let s = z0 * (y0 * r0 + y1 * r1 + y2 * r2 + y3 * r3);
+      r0 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3]; q += nx;
+      r1 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3]; q += nx;
+      r2 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3]; q += nx;
+      r3 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3]; q += sxy - 3 * nx;
+      s += z1 * (y0 * r0 + y1 * r1 + y2 * r2 + y3 * r3);
+      r0 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3]; q += nx;
+      r1 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3]; q += nx;
+      r2 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3]; q += nx;
+      r3 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3]; q += sxy - 3 * nx;
+      s += z2 * (y0 * r0 + y1 * r1 + y2 * r2 + y3 * r3);
+      r0 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3]; q += nx;
+      r1 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3]; q += nx;
+      r2 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3]; q += nx;
+      r3 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3];
+      s += z3 * (y0 * r0 + y1 * r1 + y2 * r2 + y3 * r3);
       out[p] = s;
     } else {
       out[p] = generic(input, px, py, pz);
