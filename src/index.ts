@@ -41,6 +41,11 @@ export {
   registerStep, getStep, listSteps, parseStepParams, applyStep, describeStep,
 } from './steps/index.js';
 export { smoothRun, smoothVolume3d } from './filter/index.js';
+export {
+  type InterpolationKernel, INTERPOLATION_KERNELS, type ResampleOptions, type ResampleRunOptions, type DisplacementField,
+  type TargetGridOptions, resampleVolume, resampleRun, targetGrid, cubicBSplinePrefilter,
+  repeatedResampling, type RepeatedResamplingOptions, type RepeatedResamplingResult, type RepeatedResamplingRow, imageFwhmMm, highFrequencyEnergy,
+} from './resample/index.js';
 
 // model
 export { hrfValues, buildDesign, fitGlm, fitGlmAr1, contrastMaps, estimateSmoothness } from './model/index.js';
@@ -63,7 +68,7 @@ export { summariseScorecard, recommendSetting, parameterTradeoff, type Recommend
 export {
   RESEARCH_CAUTION, renderSvg, threePlaneSvg, sliceGridSvg, voxelRasterSvg, lookPageHtml, tableHtml, lookTracesSpec, voxelTimeCourseSpec, chosenVoxels, maskCentre,
   writeLookFolder, detectionChart, falseAlarmChart, rocChart, smoothnessChart, tsnrChart, methodsText, methodsMarkdown,
-  thresholdText, runFacts, writeReport, writeSweepFolder, readDecisionRecord, recordDir, rerunRecord,
+  thresholdText, runFacts, writeReport, writeSweepFolder, readDecisionRecord, recordDir, rerunRecord, repeatedResamplingChart,
   readLookFolder, starterSpecYaml,
 } from './report/index.js';
 

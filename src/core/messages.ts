@@ -42,6 +42,9 @@ export const ERROR_ADVICE = {
   UNKNOWN_PARAMETER: 'Use one of the parameter names listed in the message.',
   CONSTANT_DATA: 'The data do not vary; the requested measure is undefined for them.',
   TOO_FEW_VOLUMES: 'The run is shorter than the measure needs; use a longer run.',
+  UNKNOWN_KERNEL: 'Use one of the interpolation kernels listed in the message.',
+  TARGET_GRID_TOO_LARGE: 'The target grid would not fit in memory; check the voxel size is in mm (not m or um) and the affine is the voxel-to-world mapping you meant.',
+  SINGULAR_TRANSFORM: 'The named affine flattens space (determinant 0 or not finite) and cannot map positions back; check its 3x3 part (a zero voxel size or two equal columns).',
   RECORD_INVALID: 'The decision record is damaged or from an incompatible version.',
   // acquisition model (head motion, B0 field, slice times)
   MOTION_TABLE_LENGTH: 'A motion table needs one row per volume of the run it describes (the raw run, before any volumes are dropped); give the table of this run.',

@@ -18,6 +18,7 @@ export { writeLookFolder, lookSummaryJson, lookSeriesTsv } from './write-look-fo
 export { metricChart, type MetricChartOptions } from './chart-metric.js';
 export { detectionChart, falseAlarmChart, tsnrChart, smoothnessChart, type SweepChartOptions } from './charts-sweep.js';
 export { rocChart } from './charts-roc.js';
+export { repeatedResamplingChart, type ResamplingMeasure } from './charts-resampling.js';
 export { chartPoints, plantLabel, type ChartPoint } from './chart-data.js';
 export { metricLabel, parameterLabel, unitOf } from './chart-labels.js';
 export { CHART_CONFIG, SIZE_SCHEME, SETTING_SCHEME } from './chart-style.js';

@@ -1,3 +1,27 @@
 // resample: public exports of this module (re-exports only; src/index.ts re-exports this file).
 export { trilinearAt, trilinearResample } from './trilinear-resample.js';
 export type { TrilinearMode, TrilinearOptions } from './trilinear-resample.js';
+export { INTERPOLATION_KERNELS, LANCZOS_RADIUS, checkKernel, kernelTaps } from './interpolation-kernel.js';
+export type { InterpolationKernel } from './interpolation-kernel.js';
+export { lanczosWeight } from './lanczos-weight.js';
+export { CUBIC_BSPLINE_POLE, NEAREST_SPLINE_PAD, cubicBSplinePrefilter, prefilterLine } from './cubic-bspline-prefilter.js';
+export type { CubicCoefficients } from './cubic-bspline-prefilter.js';
+export { foldCoordinate } from './fold-coordinate.js';
+export { extendIndex } from './extend-index.js';
+export { resampleVoxels } from './resample-voxels.js';
+export type { ResampleVoxelsInput } from './resample-voxels.js';
+export { MAX_TARGET_DIM, MAX_TARGET_VOXELS, checkGridSize, checkInvertible, targetGrid } from './target-grid.js';
+export type { TargetGridOptions } from './target-grid.js';
+export { planResample, sameGridWithin } from './plan-resample.js';
+export type { DisplacementField, ResampleOptions, ResamplePlan } from './plan-resample.js';
+export { checkFiniteRun, resampleVolume, volumeOnTarget } from './resample-volume.js';
+export { RESAMPLE_RUN_IN_THREAD_BELOW, resampleRun } from './resample-run.js';
+export type { ResampleRunOptions } from './resample-run.js';
+export { resampleVolumesTask } from './resample-volumes-task.js';
+export type { ResampleVolumesTask } from './resample-volumes-task.js';
+export { highFrequencyEnergy } from './high-frequency-energy.js';
+export type { SpectralEnergy } from './high-frequency-energy.js';
+export { imageFwhmMm } from './image-fwhm.js';
+export { repeatedResampling } from './repeated-resampling.js';
+export type { RepeatedResamplingOptions, RepeatedResamplingResult, RepeatedResamplingRow } from './repeated-resampling.js';
+export { extendCoefficients } from './extend-coefficients.js';

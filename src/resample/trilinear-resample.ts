@@ -1,13 +1,18 @@
 import type { Affine } from '../core/affine.js';
+import { BOUNDARY_MODES, type BoundaryMode } from '../core/boundary-mode.js';
 import { fail } from '../core/fail.js';
+import { extendIndex } from './extend-index.js';
+import { foldCoordinate } from './fold-coordinate.js';
 
 /**
- * What a sample outside the grid gets:
+ * What a sample outside the grid gets: the shared boundary modes with scipy.ndimage.map_coordinates
+ * (order=1) meanings, e.g.
  * - `'constant'`: `cval` for any point outside [0, n-1] on some axis (no blending with `cval` at the
- *   edge), as scipy.ndimage.map_coordinates(order=1, mode='constant') does;
- * - `'nearest'`: the coordinate is clamped to [0, n-1] (edge value repeated).
+ *   edge);
+ * - `'nearest'`: the coordinate is clamped to [0, n-1] (edge value repeated);
+ * - `'reflect'`, `'mirror'`, `'wrap'` (period n): see foldCoordinate.
  */
-export type TrilinearMode = 'constant' | 'nearest';
+export type TrilinearMode = BoundaryMode;
 
 /** Options of {@link trilinearResample}. */
 export interface TrilinearOptions {
@@ -31,6 +36,7 @@ export interface TrilinearOptions {
  */
 export function trilinearAt(src: ArrayLike<number>, dims: readonly [number, number, number] | readonly number[], x: number, y: number, z: number, mode: TrilinearMode, cval: number): number {
   const nx = dims[0], ny = dims[1], nz = dims[2];
+  if (mode !== 'constant' && mode !== 'nearest') return trilinearExtended(src, nx, ny, nz, x, y, z, mode);
   if (mode === 'constant') {
     if (!(x >= 0 && x <= nx - 1 && y >= 0 && y <= ny - 1 && z >= 0 && z <= nz - 1)) return cval;
   } else {
@@ -50,6 +56,23 @@ export function trilinearAt(src: ArrayLike<number>, dims: readonly [number, numb
   const c10 = src[p + dj] + fx * (src[p + dj + di] - src[p + dj]);
   const c01 = src[p + dk] + fx * (src[p + dk + di] - src[p + dk]);
   const c11 = src[p + dk + dj] + fx * (src[p + dk + dj + di] - src[p + dk + dj]);
+  const c0 = c00 + fy * (c10 - c00);
+  const c1 = c01 + fy * (c11 - c01);
+  return c0 + fz * (c1 - c0);
+}
+
+/** Trilinear value under reflect, mirror or wrap: the position folded, then the taps extended. */
+function trilinearExtended(src: ArrayLike<number>, nx: number, ny: number, nz: number, x: number, y: number, z: number, mode: BoundaryMode): number {
+  x = foldCoordinate(x, nx, mode); y = foldCoordinate(y, ny, mode); z = foldCoordinate(z, nz, mode);
+  const i0 = Math.floor(x), j0 = Math.floor(y), k0 = Math.floor(z);
+  const fx = x - i0, fy = y - j0, fz = z - k0;
+  const ia = extendIndex(i0, nx, mode), ib = extendIndex(i0 + 1, nx, mode);
+  const ja = nx * extendIndex(j0, ny, mode), jb = nx * extendIndex(j0 + 1, ny, mode);
+  const ka = nx * ny * extendIndex(k0, nz, mode), kb = nx * ny * extendIndex(k0 + 1, nz, mode);
+  const c00 = src[ia + ja + ka] + fx * (src[ib + ja + ka] - src[ia + ja + ka]);
+  const c10 = src[ia + jb + ka] + fx * (src[ib + jb + ka] - src[ia + jb + ka]);
+  const c01 = src[ia + ja + kb] + fx * (src[ib + ja + kb] - src[ia + ja + kb]);
+  const c11 = src[ia + jb + kb] + fx * (src[ib + jb + kb] - src[ia + jb + kb]);
   const c0 = c00 + fy * (c10 - c00);
   const c1 = c01 + fy * (c11 - c01);
   return c0 + fz * (c1 - c0);
@@ -78,7 +101,7 @@ export function trilinearResample(
 ): Float32Array {
   const mode = options.mode ?? 'constant';
   const cval = options.cval ?? 0;
-  if (mode !== 'constant' && mode !== 'nearest') fail('INVALID_ARGUMENT', `mode must be 'constant' or 'nearest', got '${String(mode)}'`);
+  if (!BOUNDARY_MODES.includes(mode)) fail('INVALID_ARGUMENT', `mode must be one of ${BOUNDARY_MODES.join(', ')}, got '${String(mode)}'`);
   if (srcDims.some((d) => !Number.isInteger(d) || d < 1) || outDims.some((d) => !Number.isInteger(d) || d < 1)) fail('INVALID_ARGUMENT', `dims must be positive integers, got source [${srcDims.join(', ')}] and output [${outDims.join(', ')}]`);
   if (src.length !== srcDims[0] * srcDims[1] * srcDims[2]) fail('INVALID_ARGUMENT', `source length ${src.length} does not match dims [${srcDims.join(', ')}]`);
   if (srcFromOut.length !== 16) fail('INVALID_ARGUMENT', `srcFromOut must have 16 elements, got ${srcFromOut.length}`);

@@ -5,6 +5,8 @@ import { grandMeanScaleStep, type GrandMeanScaleParams } from './grand-mean-scal
 import { percentSignalChangeStep, type PercentSignalChangeParams } from './percent-signal-change.js';
 import type { StepDefinition } from './registry.js';
 import { MAX_FWHM_MM, smoothStep, type SmoothStepParams } from './smooth-step.js';
+import { INTERPOLATION_KERNELS, type InterpolationKernel } from '../resample/interpolation-kernel.js';
+import { kernelSimplicity, resampleOutputFrame, resampleStep, type ResampleStepParams } from './resample-step.js';
 import { detrendStep, highpassStep, type DetrendParams, type HighpassParams } from './temporal-filter.js';
 
 // Schemas check types and fixed ranges; limits that depend on the run (FOV, number of volumes)
@@ -23,6 +25,26 @@ const smooth: StepDefinition<SmoothStepParams> = {
   labels: { fwhmMm: { name: 'smoothing FWHM', unit: 'mm' }, mode: { name: 'smoothing boundary mode', unit: '' }, withinMask: { name: 'smoothing within the mask', unit: '' } },
   simplicity: (p) => p.fwhmMm,
   describe: (p) => `smooth ${p.fwhmMm} mm${p.withinMask ? ' in mask' : ''}${p.mode && p.mode !== 'reflect' ? ` (${p.mode})` : ''}`,
+};
+
+const kernels = INTERPOLATION_KERNELS as unknown as [InterpolationKernel, ...InterpolationKernel[]];
+// a voxel size from 0.1 mm (finer than any fMRI grid) to 20 mm (coarser than any)
+const voxelSize = z.number().finite().min(0.1).max(20);
+
+const resample: StepDefinition<ResampleStepParams> = {
+  schema: z.object({
+    kernel: z.enum(kernels),
+    voxelSizeMm: z.union([voxelSize, z.tuple([voxelSize, voxelSize, voxelSize])]).optional(),
+    mode: z.enum(modes).default('constant'),
+  }).strict(),
+  version: 1,
+  kind: 'geometric',
+  outputFrame: resampleOutputFrame,
+  apply: resampleStep,
+  labels: { kernel: { name: 'interpolation kernel', unit: '' }, voxelSizeMm: { name: 'target voxel size', unit: 'mm' }, mode: { name: 'resampling boundary mode', unit: '' } },
+  // nearest < linear < cubic < lanczos3 (taps per axis 1, 2, 4, 6)
+  simplicity: (p) => kernelSimplicity(p.kernel),
+  describe: (p) => `resample ${p.kernel}${p.voxelSizeMm === undefined ? '' : ` ${Array.isArray(p.voxelSizeMm) ? p.voxelSizeMm.join('x') : p.voxelSizeMm} mm`}${p.mode && p.mode !== 'constant' ? ` (${p.mode})` : ''}`,
 };
 
 const percentSignalChange: StepDefinition<PercentSignalChangeParams> = {
@@ -78,7 +100,7 @@ const dropInitialVolumes: StepDefinition<DropInitialVolumesParams> = {
 
 /**
  * Register the steps boldsweep ships with: smooth, percent-signal-change, grand-mean-scale,
- * highpass, detrend, drop-initial-volumes (called once by the registry module).
+ * highpass, detrend, drop-initial-volumes, resample (called once by the registry module).
  * @param register - the registry's registerStep
  * @returns nothing
  * @example registerBuiltinSteps(registerStep)
@@ -90,4 +112,5 @@ export function registerBuiltinSteps(register: <P>(name: string, definition: Ste
   register('highpass', highpass);
   register('detrend', detrend);
   register('drop-initial-volumes', dropInitialVolumes);
+  register('resample', resample);
 }

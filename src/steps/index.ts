@@ -8,3 +8,4 @@ export { type HighpassParams, type DetrendParams, highpassStep, detrendStep } fr
 export { type DropInitialVolumesParams, type ShiftedEvents, shiftEvents, dropInitialVolumesStep } from './drop-initial-volumes.js';
 export { requireMask } from './require-mask.js';
 export { type StepDefinition, type RegisterStepOptions, registerStep, getStep, listSteps, parseStepParams, applyStep, describeStep, stepModules, stepVersion } from './registry.js';
+export { type ResampleStepParams, kernelSimplicity, resampleOutputFrame, resampleStep, resampleTargetGrid } from './resample-step.js';

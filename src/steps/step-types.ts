@@ -1,4 +1,4 @@
-import type { Frame } from '../core/grid-frame.js';
+import type { Frame, Grid } from '../core/grid-frame.js';
 import type { Volume } from '../core/volume.js';
 import type { BoldEvent, Sidecar } from '../io/run-types.js';
 import type { NuisanceRegressor } from '../model/design.js';
@@ -52,6 +52,12 @@ export interface StepContext {
    * __Default value:__ `{ kind: 'raw' }`
    */
   frame?: Frame;
+  /**
+   * Grid of the input run (its first three dims and its affine), when the caller knows it: a
+   * geometric step's outputFrame needs it to name its target grid before it runs.
+   * __Default value:__ none (outputFrame then falls back on the input frame's grid, if any)
+   */
+  grid?: Grid;
   /**
    * Acquisition time of each slice within a volume (s from the volume's start), along the slice
    * axis, when known (sidecar SliceTiming, or handed on by an earlier step). __Default value:__ null

@@ -42,7 +42,7 @@ describe('trilinear interpolation against scipy map_coordinates(order=1)', () =>
     expect(img).toEqual(copy);
   });
   it('rejects a bad mode and mismatched lengths with INVALID_ARGUMENT', () => {
-    expect(() => trilinearResample(img, fx.dims, identityAffine(), fx.dims, undefined, { mode: 'wrap' as never })).toThrow(/mode/);
+    expect(() => trilinearResample(img, fx.dims, identityAffine(), fx.dims, undefined, { mode: 'grid-wrap' as never })).toThrow(/mode/);
     expect(() => trilinearResample(img.subarray(1), fx.dims, identityAffine(), fx.dims)).toThrow(/length/);
   });
 });

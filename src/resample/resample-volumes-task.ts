@@ -1,0 +1,62 @@
+import type { Affine } from '../core/affine.js';
+import type { BoundaryMode } from '../core/boundary-mode.js';
+import { cubicBSplinePrefilter } from './cubic-bspline-prefilter.js';
+import { extendCoefficients } from './extend-coefficients.js';
+import type { InterpolationKernel } from './interpolation-kernel.js';
+import { resampleVoxels } from './resample-voxels.js';
+
+/**
+ * Resample volumes tStart..tEnd-1 of a run: the unit of work shared by the main thread and the
+ * worker threads (same code, so both give the same bytes). Arrays may be SharedArrayBuffer views.
+ */
+export interface ResampleVolumesTask {
+  /** The whole source run, x fastest then y, z, t. Only read. */
+  input: Float32Array;
+  /** The whole output run; volumes tStart..tEnd-1 are written. */
+  output: Float32Array;
+  sourceDims: [number, number, number];
+  outDims: [number, number, number];
+  /** Target voxel -> source voxel: one map for every volume, or one per volume. */
+  srcFromOut: Affine[];
+  displacementVox: Float32Array | null;
+  kernel: InterpolationKernel;
+  mode: BoundaryMode;
+  cval: number;
+  tStart: number;
+  tEnd: number;
+}
+
+let coefficientScratch: Float64Array | undefined;
+let extendedScratch: Float64Array | undefined;
+
+/** Planes of extended coefficients each side for the cubic kernel: positions up to the grid's edge then read them directly. */
+const CUBIC_MARGIN = 2;
+
+/**
+ * Run a {@link ResampleVolumesTask}: per volume, the cubic prefilter (into a scratch kept between
+ * tasks) when the kernel needs it, then the interpolation.
+ * @param task - the task
+ * @returns number of volumes resampled
+ * @example resampleVolumesTask({ input, output, sourceDims, outDims, srcFromOut: [map], displacementVox: null, kernel: 'linear', mode: 'constant', cval: 0, tStart: 0, tEnd: nt })
+ */
+export function resampleVolumesTask(task: ResampleVolumesTask): number {
+  const [sx, sy, sz] = task.sourceDims;
+  const n = sx * sy * sz;
+  const m = task.outDims[0] * task.outDims[1] * task.outDims[2];
+  for (let t = task.tStart; t < task.tEnd; t++) {
+    const volume = task.input.subarray(n * t, n * (t + 1));
+    let source: Float32Array | Float64Array = volume;
+    let sourceDims: readonly [number, number, number] = task.sourceDims;
+    let pad = 0, margin = 0;
+    if (task.kernel === 'cubic') {
+      const c = cubicBSplinePrefilter(volume, task.sourceDims, task.mode, coefficientScratch);
+      coefficientScratch = c.coefficients;
+      const x = extendCoefficients(c.coefficients, c.dims, task.mode, CUBIC_MARGIN, extendedScratch);
+      extendedScratch = x.values;
+      source = x.values; sourceDims = x.dims; pad = c.pad; margin = CUBIC_MARGIN;
+    }
+    const map = task.srcFromOut.length === 1 ? task.srcFromOut[0] : task.srcFromOut[t];
+    resampleVoxels({ source, sourceDims, pad, margin, srcFromOut: map, displacementVox: task.displacementVox, outDims: task.outDims, kernel: task.kernel, mode: task.mode, cval: task.cval }, task.output.subarray(m * t, m * (t + 1)));
+  }
+  return task.tEnd - task.tStart;
+}

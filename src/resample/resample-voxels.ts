@@ -1,0 +1,237 @@
+import type { Affine } from '../core/affine.js';
+import type { BoundaryMode } from '../core/boundary-mode.js';
+import { extendIndex } from './extend-index.js';
+import { foldCoordinate } from './fold-coordinate.js';
+import { kernelTaps, LANCZOS_RADIUS, type InterpolationKernel } from './interpolation-kernel.js';
+
+/** What {@link resampleVoxels} reads and writes (plain data: it also travels to worker threads). */
+export interface ResampleVoxelsInput {
+  /**
+   * What is interpolated, x fastest: the source voxel values, or for `cubic` the B-spline
+   * coefficients from cubicBSplinePrefilter (possibly padded, see `pad`).
+   */
+  source: Float32Array | Float64Array;
+  /** Dimensions of `source` (including padding). */
+  sourceDims: readonly [number, number, number];
+  /** Voxels of padding each side of `source` (cubic `nearest` only; else 0). */
+  pad: number;
+  /**
+   * Planes of mode-extended values each side of `source` beyond `pad` (extendCoefficients), so that
+   * positions near the edges read them directly. __Default value:__ 0
+   */
+  margin?: number;
+  /** Row-major 4x4: output voxel index -> source voxel index (unpadded). */
+  srcFromOut: Affine;
+  /**
+   * Added to the mapped position of each output voxel, in source voxel units, three per output
+   * voxel (x, y, z interleaved), e.g. a displacement field. __Default value:__ none
+   */
+  displacementVox?: Float32Array | null;
+  /** Output dimensions. */
+  outDims: readonly [number, number, number];
+  kernel: InterpolationKernel;
+  mode: BoundaryMode;
+  /** Value written for positions outside the grid in `constant` mode. */
+  cval: number;
+}
+
+const COS_THIRDS = Float64Array.from({ length: 6 }, (_, m) => Math.cos((m * Math.PI) / 3));
+const SIN_THIRDS = Float64Array.from({ length: 6 }, (_, m) => Math.sin((m * Math.PI) / 3));
+
+// per-axis taps: source offsets (index times stride) and weights, reused across calls
+const offX = new Int32Array(8), offY = new Int32Array(8), offZ = new Int32Array(8);
+const wX = new Float64Array(8), wY = new Float64Array(8), wZ = new Float64Array(8);
+
+/**
+ * Taps of one axis at position x: fills offsets (index times stride) and weights.
+ * @returns false when the position is outside the line in `constant` mode
+ */
+function axisTaps(x: number, n: number, stride: number, shift: number, kernel: InterpolationKernel, mode: BoundaryMode, off: Int32Array, w: Float64Array): boolean {
+  const f = foldCoordinate(x, n, mode);
+  if (f !== f) return false;
+  switch (kernel) {
+    case 'nearest': {
+      off[0] = (extendIndex(Math.floor(f + 0.5), n, mode) + shift) * stride;
+      w[0] = 1;
+      return true;
+    }
+    case 'linear': {
+      const i0 = Math.floor(f), t = f - i0;
+      off[0] = (extendIndex(i0, n, mode) + shift) * stride;
+      off[1] = (extendIndex(i0 + 1, n, mode) + shift) * stride;
+      w[0] = 1 - t; w[1] = t;
+      return true;
+    }
+    case 'cubic': {
+      const i0 = Math.floor(f), t = f - i0, u = 1 - t, t2 = t * t, t3 = t2 * t;
+      if (i0 >= 1 && i0 + 2 < n) {
+        const o = (i0 - 1 + shift) * stride;
+        off[0] = o; off[1] = o + stride; off[2] = o + 2 * stride; off[3] = o + 3 * stride;
+      } else {
+        for (let m = 0; m < 4; m++) off[m] = (extendIndex(i0 - 1 + m, n, mode) + shift) * stride;
+      }
+      w[0] = (u * u * u) / 6;
+      w[1] = (4 - 6 * t2 + 3 * t3) / 6;
+      w[2] = (1 + 3 * t + 3 * t2 - 3 * t3) / 6;
+      w[3] = t3 / 6;
+      return true;
+    }
+    case 'lanczos3': {
+      // L(d) = 3 sin(pi d) sin(pi d / 3) / (pi d)^2 at d = t + 2 - m, m = 0..5: sin(pi d) =
+      // (-1)^m sin(pi t) and sin(pi d / 3) = sin(a - m pi / 3) with a = pi (t + 2) / 3, so two
+      // sines and a cosine serve all six taps
+      const i0 = Math.floor(f), t = f - i0, start = i0 - LANCZOS_RADIUS + 1;
+      for (let m = 0; m < 6; m++) off[m] = (extendIndex(start + m, n, mode) + shift) * stride;
+      if (t === 0) {
+        for (let m = 0; m < 6; m++) w[m] = m === 2 ? 1 : 0;
+        return true;
+      }
+      const spt = Math.sin(Math.PI * t), a = (Math.PI * (t + 2)) / 3, sa = Math.sin(a), ca = Math.cos(a);
+      let sum = 0;
+      for (let m = 0; m < 6; m++) {
+        const d = t + 2 - m;
+        const sd3 = sa * COS_THIRDS[m] - ca * SIN_THIRDS[m];
+        const v = (3 * (m & 1 ? -spt : spt) * sd3) / (Math.PI * Math.PI * d * d);
+        w[m] = v;
+        sum += v;
+      }
+      for (let m = 0; m < 6; m++) w[m] /= sum;
+      return true;
+    }
+  }
+}
+
+/**
+ * Resample a 3D image: output voxel (i, j, k) takes the kernel's value of the source at
+ * srcFromOut [i, j, k, 1] (plus its displacement). Positions and taps follow scipy.ndimage 1.10
+ * (map_coordinates): the position is folded by the boundary mode, the nearest kernel rounds half up,
+ * taps outside the grid read the mode's extension, and `constant` writes cval for a position outside
+ * [0, n-1] on any axis. Float64 sums, Float32 out.
+ * @param input - source (values or cubic coefficients), maps, kernel, mode, cval
+ * @param out - where to write, length of outDims' product
+ * @returns `out`
+ * @example resampleVoxels({ source: img, sourceDims: [64, 64, 36], pad: 0, srcFromOut, outDims: [64, 64, 36], kernel: 'linear', mode: 'constant', cval: 0 }, out)
+ */
+export function resampleVoxels(input: ResampleVoxelsInput, out: Float32Array): Float32Array {
+  const { kernel } = input;
+  // one row routine per kernel keeps each loop monomorphic (linear reads Float32 voxels, cubic
+  // Float64 coefficients) and lets the interior of the grid skip the boundary handling
+  const row = kernel === 'linear' ? rowLinear : kernel === 'cubic' ? rowCubic : rowGeneric;
+  const m = input.srcFromOut, pad = input.pad + (input.margin ?? 0);
+  const [ox, oy, oz] = input.outDims;
+  for (let k = 0; k < oz; k++) {
+    for (let j = 0; j < oy; j++) {
+      // position of (0, j, k) in the source array's voxels (past pad and margin); stepping i adds the first column
+      const x = m[1] * j + m[2] * k + m[3] + pad;
+      const y = m[5] * j + m[6] * k + m[7] + pad;
+      const z = m[9] * j + m[10] * k + m[11] + pad;
+      row(input, out, ox * (j + oy * k), ox, x, y, z);
+    }
+  }
+  return out;
+}
+
+/** One output voxel by the generic tap tables (any kernel, any position in the source array's voxels). */
+function generic(input: ResampleVoxelsInput, px: number, py: number, pz: number): number {
+  const { source, sourceDims, kernel, mode } = input;
+  const e = input.margin ?? 0;
+  const sx = sourceDims[0], sxy = sx * sourceDims[1];
+  // fold and extend on the array without its margin, then read through the margin's offsets
+  const nx = sx - 2 * e, ny = sourceDims[1] - 2 * e, nz = sourceDims[2] - 2 * e;
+  if (!axisTaps(px - e, nx, 1, e, kernel, mode, offX, wX) || !axisTaps(py - e, ny, sx, e, kernel, mode, offY, wY) || !axisTaps(pz - e, nz, sxy, e, kernel, mode, offZ, wZ)) return input.cval;
+  const taps = kernelTaps(kernel);
+  let s = 0;
+  for (let c = 0; c < taps; c++) {
+    const oz2 = offZ[c], wz = wZ[c];
+    for (let b = 0; b < taps; b++) {
+      const o = oz2 + offY[b], wzy = wz * wY[b];
+      let r = 0;
+      for (let a = 0; a < taps; a++) r += wX[a] * source[o + offX[a]];
+      s += wzy * r;
+    }
+  }
+  return s;
+}
+
+type Row = (input: ResampleVoxelsInput, out: Float32Array, p0: number, count: number, x: number, y: number, z: number) => void;
+
+const rowGeneric: Row = (input, out, p0, count, x, y, z) => {
+  const m = input.srcFromOut, disp = input.displacementVox ?? null;
+  for (let i = 0, p = p0; i < count; i++, p++, x += m[0], y += m[4], z += m[8]) {
+    let px = x, py = y, pz = z;
+    if (disp !== null) { px += disp[3 * p]; py += disp[3 * p + 1]; pz += disp[3 * p + 2]; }
+    out[p] = generic(input, px, py, pz);
+  }
+};
+
+const rowLinear: Row = (input, out, p0, count, x, y, z) => {
+  const m = input.srcFromOut, disp = input.displacementVox ?? null, src = input.source;
+  const nx = input.sourceDims[0], ny = input.sourceDims[1], nz = input.sourceDims[2], sxy = nx * ny;
+  const hx = nx - 1, hy = ny - 1, hz = nz - 1;
+  for (let i = 0, p = p0; i < count; i++, p++, x += m[0], y += m[4], z += m[8]) {
+    let px = x, py = y, pz = z;
+    if (disp !== null) { px += disp[3 * p]; py += disp[3 * p + 1]; pz += disp[3 * p + 2]; }
+    // interior: both taps of every axis inside the grid (positions >= 0, so truncation is floor)
+    if (px >= 0 && px < hx && py >= 0 && py < hy && pz >= 0 && pz < hz) {
+      const i0 = px | 0, j0 = py | 0, k0 = pz | 0;
+      const fx = px - i0, fy = py - j0, fz = pz - k0;
+      const q = i0 + nx * j0 + sxy * k0;
+      const a = src[q], b = src[q + 1], c = src[q + nx], d = src[q + nx + 1];
+      const e = src[q + sxy], f = src[q + sxy + 1], g = src[q + sxy + nx], h = src[q + sxy + nx + 1];
+      const ab = a + fx * (b - a), cd = c + fx * (d - c), ef = e + fx * (f - e), gh = g + fx * (h - g);
+      const lo = ab + fy * (cd - ab), hi = ef + fy * (gh - ef);
+      out[p] = lo + fz * (hi - lo);
+    } else {
+      out[p] = generic(input, px, py, pz);
+    }
+  }
+};
+
+const rowCubic: Row = (input, out, p0, count, x, y, z) => {
+  const m = input.srcFromOut, disp = input.displacementVox ?? null, src = input.source;
+  const nx = input.sourceDims[0], ny = input.sourceDims[1], nz = input.sourceDims[2], sxy = nx * ny;
+  // in constant mode a position outside the grid proper (without margin) gets cval, and in nearest
+  // mode it is clamped first: both leave such positions to the generic path
+  const e = input.margin ?? 0, constant = input.mode === 'constant' || input.mode === 'nearest';
+  const lo = e, hx = nx - 1 - e, hy = ny - 1 - e, hz = nz - 1 - e;
+  for (let i = 0, p = p0; i < count; i++, p++, x += m[0], y += m[4], z += m[8]) {
+    let px = x, py = y, pz = z;
+    if (disp !== null) { px += disp[3 * p]; py += disp[3 * p + 1]; pz += disp[3 * p + 2]; }
+    // interior: all four taps of every axis inside the array (margin included)
+    if (px >= 1 && px < nx - 2 && py >= 1 && py < ny - 2 && pz >= 1 && pz < nz - 2 &&
+        (!constant || (px >= lo && px <= hx && py >= lo && py <= hy && pz >= lo && pz <= hz))) {
+      const i0 = px | 0, j0 = py | 0, k0 = pz | 0;
+      const tx = px - i0, ty = py - j0, tz = pz - k0;
+      const ux = 1 - tx, uy = 1 - ty, uz = 1 - tz;
+      const tx2 = tx * tx, ty2 = ty * ty, tz2 = tz * tz;
+      const x0 = (ux * ux * ux) / 6, x1 = (4 - 6 * tx2 + 3 * tx2 * tx) / 6, x2 = (1 + 3 * tx + 3 * tx2 - 3 * tx2 * tx) / 6, x3 = (tx2 * tx) / 6;
+      const y0 = (uy * uy * uy) / 6, y1 = (4 - 6 * ty2 + 3 * ty2 * ty) / 6, y2 = (1 + 3 * ty + 3 * ty2 - 3 * ty2 * ty) / 6, y3 = (ty2 * ty) / 6;
+      const z0 = (uz * uz * uz) / 6, z1 = (4 - 6 * tz2 + 3 * tz2 * tz) / 6, z2 = (1 + 3 * tz + 3 * tz2 - 3 * tz2 * tz) / 6, z3 = (tz2 * tz) / 6;
+      // 4 x 4 rows of 4 taps, written out: the small loops were not unrolled by the compiler
+      let q = i0 - 1 + nx * (j0 - 1) + sxy * (k0 - 1);
+      let r0 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3]; q += nx;
+      let r1 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3]; q += nx;
+      let r2 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3]; q += nx;
+      let r3 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3]; q += sxy - 3 * nx;
+      let s = z0 * (y0 * r0 + y1 * r1 + y2 * r2 + y3 * r3);
+      r0 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3]; q += nx;
+      r1 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3]; q += nx;
+      r2 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3]; q += nx;
+      r3 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3]; q += sxy - 3 * nx;
+      s += z1 * (y0 * r0 + y1 * r1 + y2 * r2 + y3 * r3);
+      r0 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3]; q += nx;
+      r1 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3]; q += nx;
+      r2 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3]; q += nx;
+      r3 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3]; q += sxy - 3 * nx;
+      s += z2 * (y0 * r0 + y1 * r1 + y2 * r2 + y3 * r3);
+      r0 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3]; q += nx;
+      r1 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3]; q += nx;
+      r2 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3]; q += nx;
+      r3 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3];
+      s += z3 * (y0 * r0 + y1 * r1 + y2 * r2 + y3 * r3);
+      out[p] = s;
+    } else {
+      out[p] = generic(input, px, py, pz);
+    }
+  }
+};
