@@ -43,6 +43,20 @@ function thresholdSentence(r: DecisionRecord, cite: (ref: string) => string): st
   }
 }
 
+/** Where blobs were centred and which voxels were left out, in words, from the record's masks. */
+function placementText(r: DecisionRecord): string {
+  const m = r.masks;
+  if (r.sweepSpec.plant.count === 0) return '';
+  const where = m.placement.kind === 'file'
+    ? `, centred within the voxels of ${m.placement.file.path.split('/').pop()}${m.placement.values ? ` labelled ${m.placement.values.join(' or ')}` : m.placement.above !== undefined ? ` above ${m.placement.above}` : ''}`
+    : ', centred within the brain mask (the automatic mask of the mean image)';
+  const margin = r.sweepSpec.plant.marginMm === null ? ' at least half a blob width inside its edge' : ` at least ${r.sweepSpec.plant.marginMm} mm inside its edge`;
+  const excl = m.exclude?.kind === 'file'
+    ? `; voxels of ${m.exclude.file.path.split('/').pop()}${m.exclude.above !== undefined ? ` above ${m.exclude.above}` : ''}${m.exclude.growVoxels ? ` grown by ${m.exclude.growVoxels} voxels` : ''} were excluded from planting and scoring because they may respond to the task already`
+    : '';
+  return `${where}${margin}${excl}`;
+}
+
 /**
  * The in-text form of a reference written "Surname AB, Surname CD (year) Venue": "Surname year",
  * "Surname & Surname year" or "Surname et al. year".
@@ -86,7 +100,7 @@ export function methodsText(r: DecisionRecord): MethodsText {
   // 2. model and threshold (citations numbered in the order they appear)
   const cond = spec.model.trialType ? `the '${spec.model.trialType}' events` : 'the task events';
   const drift = spec.model.highpassCutoffSec ? `, discrete cosine drift regressors with a ${spec.model.highpassCutoffSec} s cutoff` : '';
-  const censored = spec.model.censorVolumes.length ? `, one indicator regressor for each of the ${spec.model.censorVolumes.length} censored volumes (${spec.model.censorVolumes.join(', ')})` : '';
+  const censored = spec.model.censorVolumes.length ? `, one indicator regressor for each of the ${spec.model.censorVolumes.length} censored volumes, numbered from 0 in the run as acquired: ${spec.model.censorVolumes.join(', ')}` : '';
   const glm = `Each voxel inside the brain mask was fitted with a general linear model (${cite(METHOD_REFERENCES.glm)}) whose regressor of interest was ${cond} convolved with a canonical double-gamma haemodynamic response (${cite(METHOD_REFERENCES.hrf)})${drift}${censored} and an intercept.`;
   // the chosen value when the sweep varied it; a record from before the option existed was unsmoothed
   const arFwhm = Number(choice.setting['model.ar1SmoothFwhmMm'] ?? spec.model.ar1SmoothFwhmMm ?? 0);
@@ -109,14 +123,29 @@ export function methodsText(r: DecisionRecord): MethodsText {
   if (atChoice?.metrics.falseClusters) extras.push(`${num(atChoice.metrics.falseClusters.mean)} false clusters per run`);
   if (atChoice?.metrics.tsnrMedian) extras.push(`a median tSNR of ${num(atChoice.metrics.tsnrMedian.mean, 1)}`);
   if (atChoice?.metrics.smoothnessFwhmMm) extras.push(`an estimated smoothness of ${num(atChoice.metrics.smoothnessFwhmMm.mean, 1)} mm FWHM`);
-  paragraphs.push(
-    `The ${varied.length ? varied.map(parameterName).join(' and ') : 'recipe'} was chosen by simulation on this run with boldsweep ${r.software.boldsweep} (seed ${r.seed}). In each of ${spec.repeats} repeats, ${plant}; every candidate setting (${candidates || 'one'}) was then applied, the model fitted and thresholded, and the detections compared with the planted truth.${ref} `
-    + `By the one-standard-error rule (${cite(METHOD_REFERENCES.oneSe)}), ${chosenWhat} was chosen: the ${choice.prefer} setting whose mean ${metricWords(choice.metric)} across repeats was within one standard error of the best mean. `
-    + (sameAsBest
-      ? `Here the best setting was also the ${choice.prefer} qualifying one (mean ${num(ch.mean, 3)}; 95 % t-interval ${num(ch.low, 3)} to ${num(ch.high, 3)}, ${cite(METHOD_REFERENCES.student)}; SE ${num(choice.best.se, 3)}).`
-      : `Its mean was ${num(ch.mean, 3)} (95 % t-interval ${num(ch.low, 3)} to ${num(ch.high, 3)}, ${cite(METHOD_REFERENCES.student)}), against ${num(choice.best.mean, 3)} (SE ${num(choice.best.se, 3)}) at the best setting, ${settingText(choice.best.setting)}.`)
-    + (extras.length ? ` At this setting the simulation found ${extras.join(', ')}.` : ''),
-  );
+  const interval = ch.low !== null && ch.high !== null && Number.isFinite(ch.low) && Number.isFinite(ch.high) && ch.high > ch.low
+    ? `; 95 % t-interval ${num(ch.low, 3)} to ${num(ch.high, 3)}, ${cite(METHOD_REFERENCES.student)}`
+    : '';
+  const status = choice.status ?? 'chosen';
+  const requested = choice.fallback?.from ?? choice.metric;
+  const how = `In each of ${spec.repeats} repeats, ${plant}${placementText(r)}; every candidate setting (${candidates || 'one'}) was then applied, the model fitted and thresholded, and the detections compared with the planted truth (a planted voxel is one where the planted signal is at least half its peak).${ref}`;
+  let decision: string;
+  if (status === 'no-detection') {
+    decision = `No setting detected the planted activations: the best mean ${metricWords(choice.metric)} across repeats was ${num(choice.best.mean, 3)}, at ${settingText(choice.best.setting)}, so the simulation gives no basis for a choice at this amplitude and no setting is recommended.`;
+  } else if (status === 'saturated') {
+    decision = choice.fallback
+      ? `The ${metricWords(requested)} reached its ceiling at several settings and could not separate them, so the choice was made on the ${metricWords(choice.metric)}, which still did: by the one-standard-error rule (${cite(METHOD_REFERENCES.oneSe)}), ${chosenWhat} was taken, the ${choice.prefer} setting within one standard error of the best mean (mean ${num(ch.mean, 2)} against ${num(choice.best.mean, 2)} at ${settingText(choice.best.setting)}).`
+      : `The ${metricWords(requested)} reached its ceiling at several settings and could not separate them; no setting is recommended.`;
+  } else if (status === 'tied') {
+    decision = `No setting separated from the others: every mean ${metricWords(choice.metric)} lay within one standard error of the best (${num(choice.best.mean, 3)}, SE ${num(choice.best.se, 3)}, at ${settingText(choice.best.setting)}), so the data do not favour ${chosenWhat} over the rest.`;
+  } else {
+    decision = `By the one-standard-error rule (${cite(METHOD_REFERENCES.oneSe)}), ${chosenWhat} was chosen: the ${choice.prefer} setting whose mean ${metricWords(choice.metric)} across repeats was within one standard error of the best mean. `
+      + (sameAsBest
+        ? `Here the best setting was also the ${choice.prefer} qualifying one (mean ${num(ch.mean, 3)}${interval}; standard error ${num(choice.best.se, 3)}).`
+        : `Its mean was ${num(ch.mean, 3)}${interval ? ` (${interval.slice(2)})` : ''}, against ${num(choice.best.mean, 3)} (standard error ${num(choice.best.se, 3)}) at the best setting, ${settingText(choice.best.setting)}.`)
+      + (extras.length ? ` At this setting the simulation found ${extras.join(', ')}.` : '');
+  }
+  paragraphs.push(`The ${varied.length ? varied.map(parameterName).join(' and ') : 'recipe'} was ${status === 'chosen' || status === 'saturated' ? 'chosen' : 'compared'} by simulation on this run with boldsweep ${r.software.boldsweep} (seed ${r.seed}). ${how} ${decision}`);
 
   // 4. limits
   paragraphs.push(`These figures are estimates from one run; the simulation assumes activations of the planted shape and the modelled haemodynamic response, and real fMRI noise has non-Gaussian spatial autocorrelation (${cite(METHOD_REFERENCES.autocorrelation)}). The decision record (input hashes, software versions, sweep specification, seed and scorecard summary) allows the simulation to be repeated exactly.`);
