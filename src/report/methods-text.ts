@@ -28,6 +28,8 @@ export const METHOD_REFERENCES = {
   matchedFilter: 'Rosenfeld A, Kak AC (1982) Digital Picture Processing, 2nd ed. Academic Press',
   autocorrelation: 'Eklund A, Nichols TE, Knutsson H (2016) PNAS 113(28):7900-7905',
   student: 'Student (1908) Biometrika 6(1):1-25',
+  lesserOf: 'Nichols T, Hayasaka S (2003) Stat Methods Med Res 12(5):419-446',
+  permutation: 'Nichols TE, Holmes AP (2002) Hum Brain Mapp 15(1):1-25',
 } as const;
 
 const num = (x: number | null | undefined, d = 2) => (x === null || x === undefined || !Number.isFinite(x) ? 'n/a' : x.toFixed(d));
@@ -35,7 +37,7 @@ const num = (x: number | null | undefined, d = 2) => (x === null || x === undefi
 function thresholdSentence(r: DecisionRecord, cite: (ref: string) => string): string {
   const t = r.sweepSpec.threshold;
   switch (t.kind) {
-    case 'fwe-rft': return `Voxels were declared active at a family-wise error rate of ${t.alpha} by random field theory (${cite(METHOD_REFERENCES.rft)}), with the smoothness estimated from the standardised residuals (${cite(METHOD_REFERENCES.smoothness)}).`;
+    case 'fwe-rft': return `Voxels were declared active at a family-wise error rate of ${t.alpha}, at the lower of the random-field threshold (${cite(METHOD_REFERENCES.rft)}), with the smoothness estimated from the standardised residuals (${cite(METHOD_REFERENCES.smoothness)}), and the Bonferroni threshold over the voxels of the brain mask, as both hold the rate (${cite(METHOD_REFERENCES.lesserOf)}).`;
     case 'fdr': return `Voxels were declared active at a false discovery rate of ${t.q} by the Benjamini-Hochberg procedure (${cite(METHOD_REFERENCES.fdr)}; ${cite(METHOD_REFERENCES.fdrImaging)}).`;
     case 'bonferroni': return `Voxels were declared active at a family-wise error rate of ${t.alpha} by the Bonferroni correction over the voxels of the brain mask.`;
     case 'uncorrected': return `Voxels were declared active at an uncorrected one-sided p < ${t.alpha}.`;

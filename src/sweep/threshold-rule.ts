@@ -2,7 +2,7 @@ import { thresholdBonferroni } from '../model/threshold-bonferroni.js';
 import { thresholdClusterExtent } from '../model/threshold-cluster.js';
 import { thresholdFdr } from '../model/threshold-fdr.js';
 import type { StatMap } from '../model/threshold-input.js';
-import { thresholdRft } from '../model/threshold-rft.js';
+import { thresholdRftBonferroni } from '../model/threshold-rft-bonferroni.js';
 import type { StatisticKind } from '../model/threshold-statistic.js';
 import { thresholdUncorrected } from '../model/threshold-uncorrected.js';
 import type { ThresholdRule } from './spec.js';
@@ -21,7 +21,8 @@ import type { ThresholdRule } from './spec.js';
  */
 export function applyThresholdRule(map: StatMap, mask: Uint8Array, dims: readonly number[], rule: ThresholdRule, stat: StatisticKind, fwhmMm: readonly number[], spacingMm: readonly number[]): { rule: string; threshold: number; survivors: Uint8Array } {
   switch (rule.kind) {
-    case 'fwe-rft': return thresholdRft(map, mask, dims, { alpha: rule.alpha, stat, fwhmMm, spacingMm });
+    // the lesser of the random-field and Bonferroni values (Nichols & Hayasaka 2003): both hold alpha
+    case 'fwe-rft': return thresholdRftBonferroni(map, mask, dims, { alpha: rule.alpha, stat, fwhmMm, spacingMm });
     case 'fdr': return thresholdFdr(map, mask, { q: rule.q, stat });
     case 'bonferroni': return thresholdBonferroni(map, mask, { alpha: rule.alpha, stat });
     case 'uncorrected': return thresholdUncorrected(map, mask, { alpha: rule.alpha, stat });
