@@ -6,7 +6,10 @@ import type { BoldEvent, Sidecar } from '../io/run-types.js';
 import { brainMaskFromMean } from '../look/brain-mask.js';
 import { meanImage } from '../look/mean-image.js';
 import type { StepNote } from '../steps/step-types.js';
-import { runSweepTask, runTsnrTask } from './cell-pipeline.js';
+import { runNullTask, runSweepTask, runTsnrTask } from './cell-pipeline.js';
+import { calibratedCriticalValue } from '../model/threshold-calibrated.js';
+import { childSeed } from '../core/random.js';
+import { NULL_DESIGN, nullDesignCount } from './spec.js';
 import { collectGarbage } from './collect-garbage.js';
 import { SCORECARD_METRICS } from './cell-metrics.js';
 import { DEFAULT_FPR_GRID, type CurveTable } from '../score/curve-table.js';
@@ -20,7 +23,7 @@ import type { SweepSpec, SweepSpecInput } from './spec.js';
 import { stableHash } from './stable-hash.js';
 import { readCachedCell, readCachedTsnr, removeGroupStage } from './stage-cache.js';
 import { releaseWorkBuffer } from './work-buffer.js';
-import type { CellResult, SweepContext, SweepJob, SweepTask, TsnrResult, TsnrTask } from './sweep-task.js';
+import type { CellResult, NullResult, NullTask, SweepContext, SweepJob, SweepTask, TsnrResult, TsnrTask } from './sweep-task.js';
 
 /*
  * A sweep, phase by phase:
@@ -98,6 +101,32 @@ export interface SweepResult {
   inputs: { runHash: string; contextHash: string };
   shard: Shard | null;
   stats: SweepStats;
+  /** Per setting of this shard: the null designs' outcome (absent when the rule fitted none). */
+  nullCalibration?: NullCalibration[];
+}
+
+/**
+ * The family-wise false-alarm rate of a setting measured on K null designs (random blocks, nothing
+ * planted) fitted to the unplanted run after the setting's recipe.
+ */
+export interface NullCalibration {
+  settingIndex: number;
+  /** K. */
+  designs: number;
+  /** The nominal family-wise rate (the spec's alpha). */
+  alpha: number;
+  /** The threshold 'fwe-calibrated' uses (the order statistic of the maxima); null for other rules. */
+  calibratedThreshold: number | null;
+  /** Designs whose maximum reached the calibrated threshold (at most alpha x (K + 1) by construction). */
+  calibratedExceed: number | null;
+  /** The lesser of the random-field and Bonferroni thresholds (first design's smoothness). */
+  rftBonferroniThreshold: number;
+  /** Designs whose maximum reached it: the measured family-wise rate of 'fwe-rft' is this / K. */
+  rftBonferroniExceed: number;
+  /** Residual smoothness of the first design, geometric mean FWHM (mm). */
+  smoothnessFwhmMm: number;
+  /** Maximum t of each design. */
+  maxima: number[];
 }
 
 /** mask AND NOT exclude (a copy), or the mask itself when nothing is excluded. */
@@ -218,8 +247,11 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
   // cells run in worker threads even for one worker: there, steps run in their calling thread and the
   // memory of one cell is released before the next (see cell-pipeline.ts)
   const useThreads = !options.inThisThread && taskCells.length + tsnrTodo.size > 0;
+  // null designs per setting of this shard (see nullDesignCount), run before the cells that may need them
+  const mySettingCount = new Set(mine.map((i) => plan.cells[i].settingIndex)).size;
+  const nullJobs = nullDesignCount(spec.threshold) > 0 ? mySettingCount : 0;
   const progress = new Int32Array(useThreads ? new SharedArrayBuffer(4 * Math.max(1, taskCells.length)) : new ArrayBuffer(4 * Math.max(1, taskCells.length)));
-  const jobCount = taskCells.length + tsnrTodo.size;
+  const jobCount = taskCells.length + tsnrTodo.size + nullJobs;
   const baseContext = (stageMode: SweepContext['stageMode']): SweepContext => ({
     run: { dims: [...volume.dims], spacingMm: [...volume.spacingMm], trSec: volume.trSec, affine: Array.from(volume.affine), data: volume.data },
     brainMask: useThreads ? sharedBytes(brainMask) : brainMask,
@@ -231,6 +263,23 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
   const ctxPlain = baseContext(reuse ? 'memory' : 'none');
   const ctxDisk: SweepContext = { ...ctxPlain, stageMode: 'disk' };
   const tsnrTasks: TsnrTask[] = [...tsnrTodo.values()].map((t, i) => ({ kind: 'tsnr', index: taskCells.length + i, key: t.key, steps: t.steps, context: ctxPlain }));
+  const designCount = nullDesignCount(spec.threshold);
+  const designSeeds = Array.from({ length: designCount }, (_, k) => childSeed(spec.seed, 'null-design', k));
+  const nullDesign = spec.events.kind === 'random-blocks' ? { onSec: spec.events.onSec, offMinSec: spec.events.offMinSec, offMaxSec: spec.events.offMaxSec, trialType: spec.events.trialType } : { ...NULL_DESIGN };
+  const needsNull = designCount > 0;
+  const nullTasks: NullTask[] = needsNull ? [...mySettings].sort((a, b) => a - b).map((settingIndex, i) => {
+    const model = { ...spec.model };
+    for (const [k, v] of Object.entries(plan.settings[settingIndex])) if (k.startsWith('model.')) (model as Record<string, unknown>)[k.slice(6)] = v;
+    return { kind: 'null', index: taskCells.length + tsnrTasks.length + i, settingIndex, steps: plan.tsnr[settingIndex].steps, model, designSeeds, design: nullDesign, context: ctxPlain };
+  }) : [];
+  const nullResults: NullResult[] = [];
+  const useNull = (): void => {
+    if (!nullTasks.length) return;
+    const maxima: Record<number, number[]> = {};
+    for (const r of nullResults) maxima[r.settingIndex] = r.maxima;
+    ctxPlain.nullMaxima = maxima;
+    ctxDisk.nullMaxima = maxima;
+  };
   const tasks: SweepTask[] = taskCells.map((t, i) => ({
     kind: 'cells', index: i, group: plan.groups[t.group], cells: t.cells,
     // a group stage goes to disk when other tasks (or a resumed sweep) can reuse it (cell-pipeline.ts
@@ -265,6 +314,8 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
   if (!useThreads) {
     try {
       for (const t of tsnrTasks) tsnrByKey.set(t.key, await runTsnrTask(t));
+      for (const t of nullTasks) nullResults.push(await runNullTask(t));
+      useNull();
       for (const t of tasks) {
         keep(await runSweepTask(t, () => report()), t);
         finishGroup(t);
@@ -275,12 +326,15 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
   } else {
     // a sweep worker's data are typed arrays outside the JavaScript heap: a small young generation
     // (4 MB instead of V8's default) lowers its resident memory without slowing it measurably
-    const pool = createWorkerPool<SweepJob, CellResult[] | TsnrResult>(new URL('./sweep-worker.js', import.meta.url), { size: Math.min(workers, jobCount), resourceLimits: { maxYoungGenerationSizeMb: 4 } });
+    const pool = createWorkerPool<SweepJob, CellResult[] | TsnrResult | NullResult>(new URL('./sweep-worker.js', import.meta.url), { size: Math.min(workers, jobCount), resourceLimits: { maxYoungGenerationSizeMb: 4 } });
     const timer = setInterval(report, 250);
     try {
-      // the short tSNR jobs first, then the groups
+      // the null designs first (a calibrated threshold needs them before any cell), with the tSNR jobs
+      const tsnrDone = tsnrTasks.map((t) => pool.run(t).then((out) => { tsnrByKey.set(t.key, out as TsnrResult); }));
+      await Promise.all(nullTasks.map((t) => pool.run(t).then((out) => { nullResults.push(out as NullResult); })));
+      useNull();
       await Promise.all([
-        ...tsnrTasks.map((t) => pool.run(t).then((out) => { tsnrByKey.set(t.key, out as TsnrResult); })),
+        ...tsnrDone,
         ...tasks.map((t) => pool.run(t).then((out) => { keep(out as CellResult[], t); finishGroup(t); report(); })),
       ]);
     } finally {
@@ -314,6 +368,17 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
     spec, plan: { settings: plan.settings, plants: plan.plants, splitAt: plan.splitAt, sweepKey: plan.sweepKey }, scorecard, curves,
     notes: [...notes.entries()].sort((a, b) => a[0] - b[0]).map(([settingIndex, ns]) => ({ settingIndex, notes: ns })),
     inputs: { runHash, contextHash }, shard,
+    ...(nullResults.length ? { nullCalibration: nullResults.sort((a, b) => a.settingIndex - b.settingIndex).map((r) => nullCalibration(r, spec)) } : {}),
     stats: { cellsInPlan: plan.cells.length, cellsRun: total, cellsComputed: computed, cellsFromCache: fromCache, tasks: jobCount, workers: useThreads ? Math.min(workers, jobCount) : jobCount ? 1 : 0, wallSeconds: (performance.now() - t0) / 1000 },
+  };
+}
+
+/** A null task's result as the sweep reports it: the calibrated threshold and the measured rates. */
+function nullCalibration(r: NullResult, spec: SweepSpec): NullCalibration {
+  const calibrated = spec.threshold.kind === 'fwe-calibrated' ? calibratedCriticalValue(r.maxima, spec.threshold.alpha).threshold : null;
+  return {
+    settingIndex: r.settingIndex, designs: r.maxima.length, alpha: spec.threshold.alpha,
+    calibratedThreshold: calibrated, calibratedExceed: calibrated === null ? null : r.maxima.filter((m) => m >= calibrated).length,
+    rftBonferroniThreshold: r.rftBonferroniThreshold, rftBonferroniExceed: r.rftBonferroniExceed, smoothnessFwhmMm: r.smoothnessFwhmMm, maxima: r.maxima,
   };
 }

@@ -36,6 +36,8 @@ export interface SweepContext {
   stageMode: 'disk' | 'memory' | 'none';
   /** Per-task progress counters (cells done), shared with the main thread; index = task index. */
   progress: Int32Array | null;
+  /** settingIndex -> maximum t of each null design at that setting (for 'fwe-calibrated'); null when none were fitted. */
+  nullMaxima?: Record<number, number[]> | null;
 }
 
 /** One task: some cells of one group (usually all of them). */
@@ -84,5 +86,39 @@ export interface TsnrResult {
   seconds: number;
 }
 
+/**
+ * The null designs of one setting: the whole recipe with that setting on the unplanted run, then K
+ * random block designs fitted to it, each giving the maximum t in the brain mask.
+ */
+export interface NullTask {
+  kind: 'null';
+  index: number;
+  settingIndex: number;
+  /** The whole recipe with the setting filled in. */
+  steps: RecipeStep[];
+  /** Model options with the setting's model values. */
+  model: SweepSpec['model'];
+  /** Seeds of the K designs (the same for every setting, so settings are compared on the same designs). */
+  designSeeds: number[];
+  /** Block and rest durations of the designs. */
+  design: { onSec: number; offMinSec: number; offMaxSec: number; trialType: string };
+  context: SweepContext;
+}
+
+/** What a null task produced. */
+export interface NullResult {
+  settingIndex: number;
+  /** Maximum t in the brain mask of each design, in design order. */
+  maxima: number[];
+  /** Threshold of the lesser of random-field and Bonferroni at alpha, from the first design's residual smoothness. */
+  rftBonferroniThreshold: number;
+  /** Designs whose maximum reached that threshold. */
+  rftBonferroniExceed: number;
+  /** Smoothness (geometric mean FWHM, mm) of the first design's residuals. */
+  smoothnessFwhmMm: number;
+  dof: number;
+  seconds: number;
+}
+
 /** Anything a sweep worker runs. */
-export type SweepJob = SweepTask | TsnrTask;
+export type SweepJob = SweepTask | TsnrTask | NullTask;
