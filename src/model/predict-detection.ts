@@ -40,13 +40,14 @@ const SIGMA_PER_FWHM = 1 / (2 * Math.sqrt(2 * Math.LN2));
  * theory for a Gaussian signal in Gaussian noise (Rosenfeld A & Kak AC 1982, Digital Picture Processing,
  * 2nd ed., Academic Press, vol. 2 ch. 9), per axis:
  * - the blob's peak falls by sigma_b / sqrt(sigma_b^2 + sigma_k^2) (two Gaussians convolve to one of summed variance);
- * - the noise, a Gaussian-smooth field of width sigma_0, keeps a variance fraction sqrt(sigma_0^2 / (sigma_0^2 + sigma_k^2))
- *   (its autocorrelation widens the same way); spatially white noise on voxels of volume v acts as sigma_0 with
- *   (4 pi sigma_0^2)^(3/2) = v, the continuous field with the same sum of squared kernel weights;
+ * - the noise is modelled as white noise on the voxel lattice convolved with a Gaussian of width sigma_n
+ *   (0 = white); a Gaussian kernel of width s keeps the fraction min(1, d / (sqrt(4 pi) s)) of white noise's
+ *   variance along an axis of spacing d (the sum of squared weights of a unit-sum sampled Gaussian, accurate to
+ *   1e-4 from s = 1 voxel), so smoothing takes the noise variance from that at sigma_n to that at
+ *   sqrt(sigma_n^2 + sigma_k^2); for smooth noise this is sigma_n / sqrt(sigma_n^2 + sigma_k^2) per axis;
  * - the statistic is the smoothed peak times sqrt(p' M p) over the smoothed noise SD.
- * With white noise the peak's signal-to-noise ratio is largest near sigma_k = sigma_b (exactly at
- * sigma_k^2 = sigma_b^2 - 2 sigma_0^2), where it reaches the matched filter's A / sigma (pi sigma_b^2)^(3/4) / sqrt(v)
- * as sigma_0 / sigma_b -> 0. The probability of detecting the centre is Phi(E[t] - u), the statistic
+ * With white noise the peak's signal-to-noise ratio is largest at sigma_k = sigma_b, where it equals the
+ * matched filter's A / sigma (pi sigma_b^2)^(3/4) / sqrt(v) (v the voxel volume). The probability of detecting the centre is Phi(E[t] - u), the statistic
  * taken as normal with unit variance (many degrees of freedom).
  * @param input - blob, kernel, noise, design and threshold
  * @returns the signal, the noise, the expected peak statistic and the probability of detection
@@ -61,16 +62,19 @@ export function predictDetection(input: DetectionTheoryInput): DetectionPredicti
   if (spacingMm.length < 3 || spacingMm.slice(0, 3).some((s) => !(s > 0))) fail('INVALID_ARGUMENT', `spacingMm must hold three positive sizes, got [${spacingMm.join(', ')}]`);
   const sb2 = (blobFwhmMm * SIGMA_PER_FWHM) ** 2;
   const sk2 = (kernelFwhmMm * SIGMA_PER_FWHM) ** 2;
+  const sn2 = (noiseFwhmMm * SIGMA_PER_FWHM) ** 2;
   let signal = amplitudePct, variance = 1;
   for (let a = 0; a < 3; a++) {
-    // a lattice is never rougher than white noise on it
-    const white2 = spacingMm[a] ** 2 / (4 * Math.PI);
-    const s02 = Math.max((noiseFwhmMm * SIGMA_PER_FWHM) ** 2, white2);
     signal *= Math.sqrt(sb2 / (sb2 + sk2));
-    variance *= Math.sqrt(s02 / (s02 + sk2));
+    variance *= whiteFraction(spacingMm[a], sn2 + sk2) / whiteFraction(spacingMm[a], sn2);
   }
   const noise = noiseSdPct * Math.sqrt(variance);
   const expectedPeakT = (signal * designNorm) / noise;
   const detectionProbability = Number.isFinite(threshold) ? normalCdf(expectedPeakT - threshold, 0, 1) : NaN;
   return { signalPct: signal, noiseSdPct: noise, expectedPeakT, detectionProbability };
+}
+
+/** Fraction of white noise's variance a Gaussian of variance s2 keeps along an axis of spacing d (at most 1). */
+function whiteFraction(d: number, s2: number): number {
+  return s2 > 0 ? Math.min(1, d / Math.sqrt(4 * Math.PI * s2)) : 1;
 }
