@@ -2,3 +2,5 @@
 export { summariseScorecard, type SettingSummary } from './summarise-scorecard.js';
 export { meanInterval, proportionInterval, type MeanInterval, type ProportionInterval } from './confidence.js';
 export { recommendSetting, metricWords, STANDING_CAVEATS, type Recommendation, type RecommendOptions, type PlantChoice, type SettingEvidence } from './recommend-setting.js';
+export { theoryBesideSimulation, type TheoryBesideSimulation, type TheoryRow } from './theory-beside-simulation.js';
+export { metricBounds, EDGE_FRACTION, type MetricBounds } from './metric-bounds.js';

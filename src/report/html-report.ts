@@ -5,6 +5,9 @@ import { RESEARCH_CAUTION } from './caution.js';
 import { escapeHtml } from './html-escape.js';
 import { metricLabel, metricRange } from './chart-labels.js';
 import type { MethodsText } from './methods-text.js';
+import type { NullCalibration } from '../sweep/runner.js';
+import type { SweepSpec } from '../sweep/spec.js';
+import { proportionInterval } from '../decide/confidence.js';
 
 /** One chart of the report: rendered SVG and a caption saying what it shows. */
 export interface ReportChart {
@@ -29,6 +32,10 @@ export interface ReportParts {
   methods: MethodsText;
   /** Lines about how the sweep ran (cells, cache hits, workers, seconds). */
   runLines: string[];
+  /** Per setting: the family-wise false-alarm rate measured on null designs (null when none were fitted). */
+  nullCalibration?: NullCalibration[] | null;
+  /** The sweep spec (threshold rule for the null-calibration table). */
+  spec?: SweepSpec;
   /** Software versions, e.g. { boldsweep: '0.1.0', node: 'v20.20.2' }. */
   software: Record<string, string>;
 }
@@ -66,6 +73,27 @@ function evidenceTable(rec: Recommendation): string {
   const rows = c.evidence.map((e) => `<tr${e === c.chosen && mark ? ' class="chosen"' : ''}><td>${escapeHtml(e.label)}</td><td>${fmt(e.detection.mean)}</td><td>${fmt(e.detection.se)}</td><td>${e.withinOneSe ? 'yes' : 'no'}</td><td>${e.falseClusters ? fmt(e.falseClusters.mean, 2) : 'n/a'}</td></tr>`);
   const metric = metricWords(c.metric);
   return `<table class="evidence"><thead><tr><th>Setting</th><th>Mean ${escapeHtml(metric)}</th><th>Standard error</th><th>Within one standard error of the best (&ge; ${fmt(c.cutoff)})</th><th>False clusters per run</th></tr></thead><tbody>${rows.join('\n')}</tbody></table>`;
+}
+
+/** The measured family-wise false-alarm rate per setting beside the nominal one. */
+function nullCalibrationSection(parts: ReportParts): string {
+  const cal = parts.nullCalibration;
+  if (!cal || !cal.length || !parts.spec) return '';
+  const kind = parts.spec.threshold.kind;
+  const label = (i: number) => settingText(parts.summaries.find((s) => s.settingIndex === i)?.setting ?? {});
+  const rate = (k: number, n: number) => {
+    const w = proportionInterval(k, n);
+    return `${fmt(w.rate, 3)} <span class="ci">[${fmt(w.low, 3)}, ${fmt(w.high, 3)}]</span>`;
+  };
+  const calibrated = kind === 'fwe-calibrated';
+  const head = ['Setting', 'Residual smoothness FWHM (mm)', 'Nominal rate', ...(calibrated ? ['Calibrated threshold (t)', 'Measured rate, calibrated'] : []), 'Random-field-or-Bonferroni threshold (t)', 'Measured rate, random-field-or-Bonferroni'];
+  const rows = cal.map((c) => `<tr><td>${escapeHtml(label(c.settingIndex))}</td><td>${fmt(c.smoothnessFwhmMm, 1)}</td><td>${c.alpha}</td>${calibrated ? `<td>${fmt(c.calibratedThreshold ?? NaN, 2)}</td><td>${rate(c.calibratedExceed ?? 0, c.designs)}</td>` : ''}<td>${fmt(c.rftBonferroniThreshold, 2)}</td><td>${rate(c.rftBonferroniExceed, c.designs)}</td></tr>`);
+  const note = calibrated
+    ? `The calibrated threshold is, for each setting, the maximum statistic that ${cal[0].designs} null designs on this run exceed in at most a fraction ${parts.spec.threshold.alpha} of cases, so its measured rate is at most nominal by construction; the random-field-or-Bonferroni column shows what the theory-based rule would have done on the same noise.`
+    : `Each setting's recipe was applied to the unplanted run and ${cal[0].designs} random block designs were fitted to it; a design counts when its largest statistic in the brain mask reaches the threshold. A measured rate far below nominal means the rule is conservative at that setting (and detects less); far above means it lets false alarms through.`;
+  return `<h2>Family-wise false alarms on this run's noise</h2>
+<p class="meta">Nominal and measured family-wise false-alarm rate per setting, with 95 % Wilson intervals. ${escapeHtml(note)}</p>
+<table class="null"><thead><tr>${head.map((h) => `<th>${escapeHtml(h)}</th>`).join('')}</tr></thead><tbody>${rows.join('\n')}</tbody></table>`;
 }
 
 /** One line on another plant condition's choice, by its status. */
@@ -145,6 +173,7 @@ ${perPlant}
 <h3>What the simulation cannot know</h3>
 <ul>${rec.caveats.map((c) => `<li>${escapeHtml(c)}</li>`).join('')}</ul>
 
+${nullCalibrationSection(parts)}
 <h2>Charts</h2>
 ${charts}
 

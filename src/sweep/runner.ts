@@ -10,6 +10,8 @@ import { runNullTask, runSweepTask, runTsnrTask } from './cell-pipeline.js';
 import { calibratedCriticalValue } from '../model/threshold-calibrated.js';
 import { childSeed } from '../core/random.js';
 import { NULL_DESIGN, nullDesignCount } from './spec.js';
+import { plantDesignNorm } from './plant-design-norm.js';
+import { randomBlockEvents } from './random-block-events.js';
 import { collectGarbage } from './collect-garbage.js';
 import { SCORECARD_METRICS } from './cell-metrics.js';
 import { DEFAULT_FPR_GRID, type CurveTable } from '../score/curve-table.js';
@@ -101,6 +103,8 @@ export interface SweepResult {
   inputs: { runHash: string; contextHash: string };
   shard: Shard | null;
   stats: SweepStats;
+  /** sqrt(p' M p) of the planted time course against the model's other regressors (for the theory's prediction); null when unknown. */
+  designNorm?: number | null;
   /** Per setting of this shard: the null designs' outcome (absent when the rule fitted none). */
   nullCalibration?: NullCalibration[];
 }
@@ -368,6 +372,7 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
     spec, plan: { settings: plan.settings, plants: plan.plants, splitAt: plan.splitAt, sweepKey: plan.sweepKey }, scorecard, curves,
     notes: [...notes.entries()].sort((a, b) => a[0] - b[0]).map(([settingIndex, ns]) => ({ settingIndex, notes: ns })),
     inputs: { runHash, contextHash }, shard,
+    designNorm: plantDesignNorm(spec.events.kind === 'run' ? events : randomBlockEvents(childSeed(spec.seed, 'events', 0), volume.dims[3] * volume.trSec, spec.events), volume.dims[3], volume.trSec, spec),
     ...(nullResults.length ? { nullCalibration: nullResults.sort((a, b) => a.settingIndex - b.settingIndex).map((r) => nullCalibration(r, spec)) } : {}),
     stats: { cellsInPlan: plan.cells.length, cellsRun: total, cellsComputed: computed, cellsFromCache: fromCache, tasks: jobCount, workers: useThreads ? Math.min(workers, jobCount) : jobCount ? 1 : 0, wallSeconds: (performance.now() - t0) / 1000 },
   };
