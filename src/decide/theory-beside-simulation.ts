@@ -37,8 +37,8 @@ export interface TheoryBesideSimulation {
 /**
  * Set the matched-filter prediction (predictDetection) beside the simulated statistic at the planted centres,
  * for a sweep of the Gaussian smoothing width with Gaussian blobs. The noise level and smoothness come from
- * the setting with the narrowest kernel (its tSNR, and its residual smoothness less the kernel in
- * quadrature), so the prediction for every other width is theory, not measurement.
+ * the setting with the narrowest kernel (its tSNR, and its residual smoothness less the kernel and the
+ * estimator's white-noise floor in quadrature), so the prediction for every other width is theory, not measurement.
  * @param card - the scorecard
  * @param spec - the sweep spec (plant shape, varied key)
  * @param designNorm - sqrt(p' M p) of the planted time course (the sweep result's designNorm)
@@ -57,7 +57,13 @@ export function theoryBesideSimulation(card: Scorecard, spec: SweepSpec, designN
   const tsnr = mean(base.map((s) => s.metrics.tsnrMedian?.mean ?? NaN));
   const fwhm0 = mean(base.map((s) => s.metrics.smoothnessFwhmMm?.mean ?? NaN));
   if (!(tsnr > 0) || !(fwhm0 > 0)) return null;
-  const noiseFwhmMm = Math.sqrt(Math.max(0, fwhm0 * fwhm0 - k0 * k0));
+  // The residual smoothness estimate (finite differences) of white noise on a lattice of spacing d is not 0
+  // but sqrt(2 ln 2) d = 1.177 d: first differences of white noise have twice its variance, so
+  // lambda = 2 / d^2 and FWHM = sqrt(4 ln 2 / lambda) (Kiebel SJ et al. 1999, NeuroImage 10:756-766 for the
+  // estimator). The smoothing beyond white noise is what is left after taking out that floor and the kernel.
+  const voxel = Math.cbrt(spacingMm[0] * spacingMm[1] * spacingMm[2]);
+  const floor = Math.sqrt(2 * Math.LN2) * voxel;
+  const noiseFwhmMm = Math.sqrt(Math.max(0, fwhm0 * fwhm0 - k0 * k0 - floor * floor));
   // the tSNR at k0 is of noise already smoothed by k0: undo that with the same model
   const unit = predictDetection({ blobFwhmMm: 1, amplitudePct: 1, kernelFwhmMm: k0, noiseSdPct: 1, noiseFwhmMm, spacingMm, designNorm, threshold: NaN });
   const noiseSdPct = 100 / tsnr / unit.noiseSdPct;

@@ -39,12 +39,13 @@ const SIGMA_PER_FWHM = 1 / (2 * Math.sqrt(2 * Math.LN2));
  * Expected statistic at the centre of a planted Gaussian blob after Gaussian smoothing, by matched-filter
  * theory for a Gaussian signal in Gaussian noise (Rosenfeld A & Kak AC 1982, Digital Picture Processing,
  * 2nd ed., Academic Press, vol. 2 ch. 9), per axis:
- * - the blob's peak falls by sigma_b / sqrt(sigma_b^2 + sigma_k^2) (two Gaussians convolve to one of summed variance);
+ * - the blob's peak falls by sigma_b / sqrt(sigma_b^2 + sigma_k^2) (two Gaussians convolve to one of summed variance),
+ *   computed on the voxel lattice (the kernel's sampled weights times the blob at those offsets, blob centre on a
+ *   voxel) so that kernels narrower than a voxel act as on the data;
  * - the noise is modelled as white noise on the voxel lattice convolved with a Gaussian of width sigma_n
- *   (0 = white); a Gaussian kernel of width s keeps the fraction min(1, d / (sqrt(4 pi) s)) of white noise's
- *   variance along an axis of spacing d (the sum of squared weights of a unit-sum sampled Gaussian, accurate to
- *   1e-4 from s = 1 voxel), so smoothing takes the noise variance from that at sigma_n to that at
- *   sqrt(sigma_n^2 + sigma_k^2); for smooth noise this is sigma_n / sqrt(sigma_n^2 + sigma_k^2) per axis;
+ *   (0 = white); a sampled unit-sum Gaussian of width s keeps the sum of its squared weights of white noise's
+ *   variance along an axis (d / (sqrt(4 pi) s) when s is a voxel or more), so smoothing takes the noise variance
+ *   from that at sigma_n to that at sqrt(sigma_n^2 + sigma_k^2); for smooth noise about sigma_n / sqrt(sigma_n^2 + sigma_k^2) per axis;
  * - the statistic is the smoothed peak times sqrt(p' M p) over the smoothed noise SD.
  * With white noise the peak's signal-to-noise ratio is largest at sigma_k = sigma_b, where it equals the
  * matched filter's A / sigma (pi sigma_b^2)^(3/4) / sqrt(v) (v the voxel volume). The probability of detecting the centre is Phi(E[t] - u), the statistic
@@ -65,8 +66,9 @@ export function predictDetection(input: DetectionTheoryInput): DetectionPredicti
   const sn2 = (noiseFwhmMm * SIGMA_PER_FWHM) ** 2;
   let signal = amplitudePct, variance = 1;
   for (let a = 0; a < 3; a++) {
-    signal *= Math.sqrt(sb2 / (sb2 + sk2));
-    variance *= whiteFraction(spacingMm[a], sn2 + sk2) / whiteFraction(spacingMm[a], sn2);
+    const d = spacingMm[a];
+    signal *= sampledPeak(d, sk2, sb2);
+    variance *= sumOfSquares(d, sn2 + sk2) / sumOfSquares(d, sn2);
   }
   const noise = noiseSdPct * Math.sqrt(variance);
   const expectedPeakT = (signal * designNorm) / noise;
@@ -74,7 +76,30 @@ export function predictDetection(input: DetectionTheoryInput): DetectionPredicti
   return { signalPct: signal, noiseSdPct: noise, expectedPeakT, detectionProbability };
 }
 
-/** Fraction of white noise's variance a Gaussian of variance s2 keeps along an axis of spacing d (at most 1). */
-function whiteFraction(d: number, s2: number): number {
-  return s2 > 0 ? Math.min(1, d / Math.sqrt(4 * Math.PI * s2)) : 1;
+/** Weights of a unit-sum Gaussian of variance s2 (mm^2) sampled at spacing d, offsets 0, +-d, ... (a delta when s2 = 0). */
+function sampledGaussian(d: number, s2: number): { offsets: number[]; weights: number[] } {
+  if (!(s2 > 0)) return { offsets: [0], weights: [1] };
+  const reach = Math.ceil((6 * Math.sqrt(s2)) / d);
+  const offsets: number[] = [], weights: number[] = [];
+  let sum = 0;
+  for (let i = -reach; i <= reach; i++) {
+    const w = Math.exp(-((i * d) ** 2) / (2 * s2));
+    offsets.push(i * d);
+    weights.push(w);
+    sum += w;
+  }
+  return { offsets, weights: weights.map((w) => w / sum) };
+}
+
+/** Sum of squared weights of the sampled unit-sum Gaussian: the fraction of white noise's variance it keeps along one axis. */
+function sumOfSquares(d: number, s2: number): number {
+  return sampledGaussian(d, s2).weights.reduce((a, w) => a + w * w, 0);
+}
+
+/** Peak of a Gaussian blob (variance sb2, centred on a voxel, peak 1) after the sampled kernel of variance sk2, along one axis. */
+function sampledPeak(d: number, sk2: number, sb2: number): number {
+  const { offsets, weights } = sampledGaussian(d, sk2);
+  let peak = 0;
+  for (let i = 0; i < offsets.length; i++) peak += weights[i] * Math.exp(-(offsets[i] ** 2) / (2 * sb2));
+  return peak;
 }

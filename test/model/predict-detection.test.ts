@@ -16,12 +16,13 @@ describe('predicted detection: a Gaussian blob in white noise (matched filter, R
   it('at the matched width the signal-to-noise ratio equals the matched-filter bound A / sigma (pi sigma_b^2)^(3/4) / sqrt(v)', () => {
     // the matched filter's output SNR is sqrt(signal energy / noise power per sample): for a Gaussian blob
     // A exp(-r^2 / (2 sigma_b^2)) sampled on voxels of volume v, the energy is A^2 (pi sigma_b^2)^(3/2) / v
-    for (const blob of [6, 12, 24]) {
+    for (const blob of [12, 24]) {
       const p = predictDetection({ ...base, blobFwhmMm: blob, kernelFwhmMm: blob });
       const sb = blob * SIGMA_PER_FWHM;
       const bound = (1 / 2) * (Math.PI * sb * sb) ** 0.75 / Math.sqrt(27);
-      // 1e-12: the same closed form reached two ways
-      expect(p.signalPct / p.noiseSdPct).toBeCloseTo(bound, 12);
+      // the prediction sums over the voxel lattice; the bound integrates. By Poisson summation they differ by
+      // about exp(-pi^2 sigma^2 / d^2), under 1e-9 for sigma_b >= 1.7 voxels (12 mm FWHM on 3 mm voxels)
+      expect(Math.abs(p.signalPct / p.noiseSdPct / bound - 1)).toBeLessThan(1e-9);
     }
   });
 
