@@ -98,13 +98,16 @@ export function methodsText(r: DecisionRecord): MethodsText {
     const text = n.methodsText.trim().replace(/\.$/, '');
     return `${text}${c}.`;
   });
-  paragraphs.push(`The functional run (${r.run.summary}) was preprocessed with ${r.stepNotes.length} step${r.stepNotes.length === 1 ? '' : 's'}, in this order. ${steps.join(' ')}`);
+  // no brackets inside brackets: the run summary's own parentheses become commas
+  const runSummary = r.run.summary.replace(/\s*\(([^()]*)\)/g, ', $1');
+  paragraphs.push(`The functional run (${runSummary}) was preprocessed with ${r.stepNotes.length} step${r.stepNotes.length === 1 ? '' : 's'}, in this order. ${steps.join(' ')}`);
 
   // 2. model and threshold (citations numbered in the order they appear)
   const cond = spec.model.trialType ? `the '${spec.model.trialType}' events` : 'the task events';
   const drift = spec.model.highpassCutoffSec ? `, discrete cosine drift regressors with a ${spec.model.highpassCutoffSec} s cutoff` : '';
-  const censored = spec.model.censorVolumes.length ? `, one indicator regressor for each of the ${spec.model.censorVolumes.length} censored volumes, numbered from 0 in the run as acquired: ${spec.model.censorVolumes.join(', ')}` : '';
-  const glm = `Each voxel inside the brain mask was fitted with a general linear model (${cite(METHOD_REFERENCES.glm)}) whose regressor of interest was ${cond} convolved with a canonical double-gamma haemodynamic response (${cite(METHOD_REFERENCES.hrf)})${drift}${censored} and an intercept.`;
+  const cv = spec.model.censorVolumes;
+  const censored = cv.length ? `, one indicator regressor for each of the ${cv.length} censored volumes (volume${cv.length === 1 ? '' : 's'} ${cv.length === 1 ? cv[0] : `${cv.slice(0, -1).join(', ')} and ${cv[cv.length - 1]}`}, numbered from 0 in the run as acquired)` : '';
+  const glm = `Each voxel inside the brain mask was fitted with a general linear model (${cite(METHOD_REFERENCES.glm)}) whose regressor of interest was ${cond} convolved with a canonical double-gamma haemodynamic response (${cite(METHOD_REFERENCES.hrf)})${drift}${censored}, and an intercept.`;
   // the chosen value when the sweep varied it; a record from before the option existed was unsmoothed
   const arFwhm = Number(choice.setting['model.ar1SmoothFwhmMm'] ?? spec.model.ar1SmoothFwhmMm ?? 0);
   const arSmooth = arFwhm > 0 ? `bias-corrected and spatially smoothed with a ${arFwhm} mm FWHM Gaussian kernel within the brain mask` : 'bias-corrected and estimated separately at each voxel';
