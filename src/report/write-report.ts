@@ -59,7 +59,7 @@ export async function sweepCharts(folder: SweepFolder, rec: Recommendation): Pro
   const turns = tsnrMeans.length > 2 && tsnrMeans.some((v, i) => i > 0 && i < tsnrMeans.length - 1 && ((v > tsnrMeans[i - 1] && v > tsnrMeans[i + 1]) || (v < tsnrMeans[i - 1] && v < tsnrMeans[i + 1])));
   const tsnrChartEntry = charts.find((c) => c.id === 'chart-tsnr');
   if (tsnrChartEntry && turns) tsnrChartEntry.caption += ' The curve turns over: smoothing raises tSNR by averaging noise, but past some width it also blends the brain edge with the background and cerebrospinal fluid, whose signal is lower or less stable, so the median tSNR in the mask falls again.';
-  if (planted && result.curves.rows.length) charts.push({ id: 'chart-roc', title: 'ROC', svg: await renderSvg(rocChart(card, result.curves)), caption: 'Voxelwise ROC curves per setting (every threshold), averaged across repeats: how well each setting separates planted from other voxels, whatever the threshold.' });
+  if (planted && result.curves.rows.length) charts.push({ id: 'chart-roc', title: 'ROC', svg: await renderSvg(rocChart(card, result.curves)), caption: 'Voxelwise ROC curves per setting (every threshold), averaged across repeats: how well each setting separates planted from other voxels, whatever the threshold. Neighbouring settings alternate solid and dashed lines.' });
   return charts;
 }
 
