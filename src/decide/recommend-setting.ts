@@ -230,7 +230,11 @@ function summaryText(c: PlantChoice, requested: string, varied: string[], prefer
   const b = c.best.detection;
   const fa = c.chosen.falseClusters;
   const plant = c.plantSizeMm > 0 ? `planted activations of ${c.plantSizeMm} mm at ${c.plantAmplitudePct} %` : 'no planted activations';
-  const interval = Number.isFinite(d.low) && d.high > d.low ? ` (95 % interval ${fmt(d.low)} to ${fmt(d.high)}, n = ${d.n})` : ` (n = ${d.n}${d.n > 1 ? ', the same in every repeat' : ''})`;
+  // the interval within the metric's possible range (a t-interval of a rate can pass 0 or 1)
+  const bounds = metricBounds(c.metric);
+  const lowCut = bounds ? Math.max(bounds.floor === 0.5 ? 0 : bounds.floor, d.low) : d.low;
+  const highCut = bounds ? Math.min(bounds.ceiling, d.high) : d.high;
+  const interval = Number.isFinite(d.low) && d.high > d.low ? ` (95 % interval ${fmt(lowCut)} to ${fmt(highCut)}, n = ${d.n})` : ` (n = ${d.n}${d.n > 1 ? ', the same in every repeat' : ''})`;
   const qualifying = c.evidence.filter((e) => e.withinOneSe).length;
   const why = qualifying === 1
     ? 'no other setting comes within one standard error of it'

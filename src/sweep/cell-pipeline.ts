@@ -389,7 +389,8 @@ export async function runTsnrTask(task: TsnrTask): Promise<TsnrResult> {
 
 /**
  * The null designs of one setting: its whole recipe on the unplanted run, then each of K random block
- * designs (nothing planted) fitted with the setting's model, giving the maximum t in the brain mask. The
+ * designs (nothing planted) fitted with the setting's model, giving the maximum t over the scored voxels
+ * (the brain mask less any voxels excluded as known to respond). The
  * maxima calibrate 'fwe-calibrated'; the first design's residual smoothness gives the random-field (or
  * Bonferroni) threshold whose exceedances measure that rule's family-wise rate on this run's noise.
  * Task timing of the run itself is not used, so a real task response in the run does not count.
@@ -423,9 +424,12 @@ export async function runNullTask(task: NullTask): Promise<NullResult> {
     const glmOptions = { mask: brain, keepResiduals: k === 0 };
     const fit = task.model.ar1 ? fitGlmAr1(v, design, { ...glmOptions, ar1SmoothFwhmMm: task.model.ar1SmoothFwhmMm }) : fitGlm(v, design, glmOptions);
     const maps = contrastMaps(fit, { [task.design.trialType]: 1 }, { name: task.design.trialType });
+    // the maximum over the scored voxels: voxels left out as known to respond to the task would make
+    // every design that resembles the task look like a false alarm
     let max = -Infinity;
     const t = maps.t.data;
-    for (let i = 0; i < brain.length; i++) if (brain[i] && t[i] > max) max = t[i];
+    const scored = ctx.scoreMask;
+    for (let i = 0; i < scored.length; i++) if (scored[i] && t[i] > max) max = t[i];
     maxima.push(max);
     if (k === 0) {
       const smooth = estimateSmoothness(fit.residuals!.data, fit.residuals!.dims, brain, v.spacingMm, { dof: fit.dof });

@@ -108,7 +108,7 @@ export interface NullTask {
 /** What a null task produced. */
 export interface NullResult {
   settingIndex: number;
-  /** Maximum t in the brain mask of each design, in design order. */
+  /** Maximum t over the scored voxels of each design, in design order. */
   maxima: number[];
   /** Threshold of the lesser of random-field and Bonferroni at alpha, from the first design's residual smoothness. */
   rftBonferroniThreshold: number;
