@@ -37,7 +37,8 @@ export async function sweepCharts(folder: SweepFolder, rec: Recommendation): Pro
   const { result } = folder;
   const card = result.scorecard;
   const key = card.varied[0];
-  const recommended = key === undefined ? undefined : rec.choice.chosen.setting[key];
+  // only a choice the sweep supports is drawn as 'recommended' (see the choice's status)
+  const recommended = key === undefined || rec.choice.status !== 'chosen' ? undefined : rec.choice.chosen.setting[key];
   const thr = thresholdText(result.spec.threshold);
   const o = { recommended, thresholdText: thr, metric: rec.metric };
   const x = key ? parameterLabel(key) : 'the recipe';

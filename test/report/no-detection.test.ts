@@ -38,6 +38,8 @@ describe('a sweep that detects nothing', () => {
     const html = readFileSync(written.files.report, 'utf8');
     expect(html).toContain('data-status="no-detection"');
     expect(html).not.toMatch(/\(recommended\)/);
+    // no chart marks a setting as recommended
+    expect(html).not.toMatch(/>recommended</);
     const methods = readFileSync(written.files.methods, 'utf8');
     expect(methods).toMatch(/no setting is recommended/);
     expect(methods).not.toMatch(/was chosen:/);
