@@ -1,3 +1,4 @@
+import { DEFAULT_NULL_DESIGNS } from '../sweep/spec.js';
 import type { DecisionRecord } from './decision-record-types.js';
 import { parameterName, settingLabel, settingText } from '../sweep/settings-grid.js';
 import { metricWords } from '../decide/recommend-setting.js';
@@ -38,7 +39,7 @@ function thresholdSentence(r: DecisionRecord, cite: (ref: string) => string): st
   const t = r.sweepSpec.threshold;
   switch (t.kind) {
     case 'fwe-rft': return `Voxels were declared active at a family-wise error rate of ${t.alpha}, at the lower of the random-field threshold (${cite(METHOD_REFERENCES.rft)}), with the smoothness estimated from the standardised residuals (${cite(METHOD_REFERENCES.smoothness)}), and the Bonferroni threshold over the voxels of the brain mask, as both hold the rate (${cite(METHOD_REFERENCES.lesserOf)}).`;
-    case 'fwe-calibrated': return `Voxels were declared active at a family-wise error rate of ${t.alpha} calibrated on this run's own noise: for each candidate setting, ${t.nullDesigns ?? 100} random block designs with nothing planted were fitted to the run after that setting's preprocessing, and the threshold was the order statistic of their maximum t values that a new null map exceeds with probability at most ${t.alpha} (${cite(METHOD_REFERENCES.permutation)}); this holds the rate whatever the spatial autocorrelation of the noise (${cite(METHOD_REFERENCES.autocorrelation)}).`;
+    case 'fwe-calibrated': return `Voxels were declared active at a family-wise error rate of ${t.alpha} calibrated on this run's own noise: for each candidate setting, ${t.nullDesigns ?? DEFAULT_NULL_DESIGNS} random block designs with nothing planted were fitted to the run after that setting's preprocessing, and the threshold was the order statistic of their maximum t values that a new null map exceeds with probability at most ${t.alpha} (${cite(METHOD_REFERENCES.permutation)}); this holds the rate whatever the spatial autocorrelation of the noise (${cite(METHOD_REFERENCES.autocorrelation)}).`;
     case 'fdr': return `Voxels were declared active at a false discovery rate of ${t.q} by the Benjamini-Hochberg procedure (${cite(METHOD_REFERENCES.fdr)}; ${cite(METHOD_REFERENCES.fdrImaging)}).`;
     case 'bonferroni': return `Voxels were declared active at a family-wise error rate of ${t.alpha} by the Bonferroni correction over the voxels of the brain mask.`;
     case 'uncorrected': return `Voxels were declared active at an uncorrected one-sided p < ${t.alpha}.`;
