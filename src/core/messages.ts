@@ -37,6 +37,7 @@ export const ERROR_ADVICE = {
   CONTRAST_LENGTH: 'A contrast needs one weight per design column.',
   PLANTING_DOES_NOT_FIT: 'Use fewer or smaller planted activations, or a larger mask.',
   SPEC_INVALID: 'Fix the listed fields of the sweep spec.',
+  NULL_DESIGNS_INVALID: 'Set threshold.nullDesigns to at least 19 for alpha 0.05 (100 or more gives a steadier threshold), or leave it out: fwe-calibrated then fits 100 and the other rules none.',
   UNKNOWN_STEP: 'Use one of the step names listed in the message.',
   STEP_MODULE_MISSING: 'Worker threads load their own steps: register the step with registerStep(name, definition, { module: import.meta.url }) in a module that registers it when imported, or run the sweep with inThisThread: true.',
   UNKNOWN_PARAMETER: 'Use one of the parameter names listed in the message.',

@@ -3,3 +3,5 @@ export { summariseScorecard, type SettingSummary } from './summarise-scorecard.j
 export { meanInterval, proportionInterval, type MeanInterval, type ProportionInterval } from './confidence.js';
 export { recommendSetting, metricWords, STANDING_CAVEATS, type Recommendation, type RecommendOptions, type PlantChoice, type SettingEvidence } from './recommend-setting.js';
 export { parameterTradeoff, type TradeoffEntry, type TradeoffGroup, type TradeoffOptions } from './parameter-tradeoff.js';
+export { theoryBesideSimulation, type TheoryBesideSimulation, type TheoryRow } from './theory-beside-simulation.js';
+export { metricBounds, EDGE_FRACTION, type MetricBounds } from './metric-bounds.js';

@@ -4,6 +4,7 @@ import type { Scorecard } from '../sweep/scorecard.js';
 import type { Setting } from '../sweep/settings-grid.js';
 import { parameterName, settingText } from '../sweep/settings-grid.js';
 import { summariseScorecard, type SettingSummary } from './summarise-scorecard.js';
+import { EDGE_FRACTION, metricBounds } from './metric-bounds.js';
 
 /** Options of {@link recommendSetting}. */
 export interface RecommendOptions {
@@ -30,10 +31,29 @@ export interface SettingEvidence {
   withinOneSe: boolean;
 }
 
+/**
+ * How much a choice can be trusted: 'chosen' (one setting stands out, or the simplest of those as
+ * good as the best does); 'no-detection' (the best mean is at the metric's floor: nothing planted was
+ * found at any setting); 'saturated' (two or more settings at the metric's ceiling, so it cannot
+ * separate them; the choice falls back to a metric that still does); 'tied' (every setting lies
+ * within one standard error of the best: the sweep does not separate them).
+ */
+export type ChoiceStatus = 'chosen' | 'no-detection' | 'saturated' | 'tied';
+
 /** The choice for one plant condition. */
 export interface PlantChoice {
   plantSizeMm: number;
   plantAmplitudePct: number;
+  /** How far the choice can be trusted (see {@link ChoiceStatus}). */
+  status: ChoiceStatus;
+  /** The metric the choice was made on: the requested one, or the fallback when it saturated. */
+  metric: string;
+  /** When the requested metric saturated: which metric took over and why. */
+  fallback: { from: string; to: string; reason: string } | null;
+  /** Settings at the requested metric's ceiling (for 'saturated'). */
+  atCeiling: string[];
+  /** What to change in the sweep when the status is not 'chosen' (empty for 'chosen'). */
+  advice: string;
   chosen: SettingEvidence;
   best: SettingEvidence;
   /** best mean - best SE: the lowest mean detection still counted as "as good as the best". */
@@ -99,7 +119,8 @@ export function recommendSetting(card: Scorecard, options: RecommendOptions = {}
   if (!card.metrics.includes(metric)) fail('INVALID_ARGUMENT', `metric "${metric}" is not a scorecard column; columns are ${card.metrics.join(', ')}`);
   const summaries = summariseScorecard(card);
   const conditions = uniquePairs(summaries);
-  const perPlant = conditions.map(([size, amp]) => choose(summaries.filter((s) => s.plantSizeMm === size && s.plantAmplitudePct === amp), card.varied, metric, prefer));
+  const fallbackMetric = FALLBACK_METRICS.find((m) => m !== metric && card.metrics.includes(m)) ?? null;
+  const perPlant = conditions.map(([size, amp]) => decide(summaries.filter((s) => s.plantSizeMm === size && s.plantAmplitudePct === amp), card.varied, metric, prefer, fallbackMetric));
   const sizes = [...new Set(conditions.map((c) => c[0]))];
   const amps = [...new Set(conditions.map((c) => c[1]))];
   const targetSize = options.targetSizeMm ?? sizes[(sizes.length - 1) >> 1];
@@ -108,7 +129,7 @@ export function recommendSetting(card: Scorecard, options: RecommendOptions = {}
   if (!choice) fail('INVALID_ARGUMENT', `no plant condition of size ${targetSize} mm and amplitude ${targetAmp} % in the scorecard; sizes are ${sizes.join(', ')} mm`);
   const thr = options.thresholdText ? ` with detections called at ${options.thresholdText}` : '';
   const rule = `Among the settings whose mean ${metricWords(metric)} across repeats${thr} lies within one standard error of the best mean, choose the ${prefer} ${card.varied.map(parameterName).join(' and ') || 'recipe'} (the one-standard-error rule: prefer the simpler setting when the difference is within noise).`;
-  return { ruleId: 'one-se-simplest', rule, metric, prefer, varied: [...card.varied], choice, perPlant, summary: summaryText(choice, metric, card.varied), caveats: [...STANDING_CAVEATS] };
+  return { ruleId: 'one-se-simplest', rule, metric, prefer, varied: [...card.varied], choice, perPlant, summary: summaryText(choice, metric, card.varied, prefer), caveats: [...STANDING_CAVEATS] };
 }
 
 function uniquePairs(summaries: SettingSummary[]): Array<[number, number]> {
@@ -127,6 +148,40 @@ function compareSettings(a: Setting, b: Setting, keys: string[]): number {
   return 0;
 }
 
+/**
+ * Metrics a saturated choice falls back to, in order: the mean statistic at the planted centres keeps
+ * growing with the matched filter's gain after every planted voxel is detected, and peaks where the
+ * kernel matches the blob (Rosenfeld A & Kak AC 1982, Digital Picture Processing, 2nd ed., vol. 2,
+ * Academic Press, ch. 9).
+ */
+const FALLBACK_METRICS = ['centreStatisticMean'];
+
+/** The one-SE choice, then its status: floor, ceiling (with the fallback metric) or tie. */
+function decide(rows: SettingSummary[], varied: string[], metric: string, prefer: 'smallest' | 'largest', fallbackMetric: string | null): PlantChoice {
+  const first = choose(rows, varied, metric, prefer);
+  const bounds = metricBounds(metric);
+  const finiteEv = first.evidence.filter((e) => Number.isFinite(e.detection.mean));
+  const amp = `${first.plantAmplitudePct} %`;
+  if (bounds) {
+    const edge = EDGE_FRACTION * (bounds.ceiling - bounds.floor);
+    if (first.best.detection.mean <= bounds.floor + edge) {
+      return { ...first, status: 'no-detection', advice: `Nothing planted was detected at any setting (best mean ${metricWords(metric)} ${fmt(first.best.detection.mean)}), so the sweep cannot rank the settings. Plant a larger amplitude (now ${amp}) or larger blobs; check that the events match the task (the planted time course follows them); drop or censor volumes the look flags; or use a less strict threshold rule.` };
+    }
+    const atCeiling = finiteEv.filter((e) => e.detection.mean >= bounds.ceiling - edge);
+    if (atCeiling.length >= 2) {
+      const labels = atCeiling.map((e) => e.label);
+      const reason = `${labels.length} settings (${labels.join(', ')}) reach the ceiling of the ${metricWords(metric)}, which therefore cannot separate them`;
+      const fb = fallbackMetric && rows.some((r) => Number.isFinite(r.metrics[fallbackMetric]?.mean)) ? choose(rows, varied, fallbackMetric, prefer) : null;
+      const base = fb ?? first;
+      return { ...base, status: 'saturated', atCeiling: labels, fallback: fb ? { from: metric, to: fallbackMetric!, reason } : null, advice: `Detection is at its ceiling: ${reason}. Plant a smaller amplitude (now ${amp}) or smaller blobs so the ${metricWords(metric)} can tell the settings apart.` };
+    }
+  }
+  if (finiteEv.length > 1 && finiteEv.every((e) => e.withinOneSe)) {
+    return { ...first, status: 'tied', advice: `No setting separates from the others: every mean ${metricWords(metric)} lies within one standard error of the best. Add repeats (now ${first.best.detection.n}) to narrow the intervals, or plant an amplitude (now ${amp}) where detection is neither rare nor certain.` };
+  }
+  return first;
+}
+
 function choose(rows: SettingSummary[], varied: string[], metric: string, prefer: 'smallest' | 'largest'): PlantChoice {
   const evidence: SettingEvidence[] = rows.map((s) => ({
     settingIndex: s.settingIndex, setting: s.setting, label: settingText(s.setting),
@@ -139,7 +194,7 @@ function choose(rows: SettingSummary[], varied: string[], metric: string, prefer
   const cutoff = best.detection.mean - (Number.isFinite(best.detection.se) ? best.detection.se : 0);
   for (const e of finite) e.withinOneSe = e.detection.mean >= cutoff;
   const order = [...finite].filter((e) => e.withinOneSe).sort((a, b) => compareSettings(a.setting, b.setting, varied) * (prefer === 'smallest' ? 1 : -1));
-  return { plantSizeMm: rows[0].plantSizeMm, plantAmplitudePct: rows[0].plantAmplitudePct, chosen: order[0], best, cutoff, evidence: evidence.sort((a, b) => compareSettings(a.setting, b.setting, varied)) };
+  return { plantSizeMm: rows[0].plantSizeMm, plantAmplitudePct: rows[0].plantAmplitudePct, status: 'chosen', metric, fallback: null, atCeiling: [], advice: '', chosen: order[0], best, cutoff, evidence: evidence.sort((a, b) => compareSettings(a.setting, b.setting, varied)) };
 }
 
 /** Metric names in words, for sentences. */
@@ -148,6 +203,7 @@ const METRIC_WORDS: Record<string, string> = {
   blobHitRate: 'fraction of planted blobs detected',
   rocAuc: 'ROC area',
   dice: 'Dice overlap',
+  centreStatisticMean: 'statistic at the planted centres',
 };
 
 /**
@@ -164,13 +220,39 @@ function fmt(x: number, digits = 3): string {
   return Number.isFinite(x) ? x.toFixed(digits) : 'n/a';
 }
 
-function summaryText(c: PlantChoice, metric: string, varied: string[]): string {
+/**
+ * The summary of a choice in words. Only a 'chosen' status reads "Use ..."; the others say what the
+ * sweep shows and what to change.
+ */
+function summaryText(c: PlantChoice, requested: string, varied: string[], prefer: 'smallest' | 'largest'): string {
   const what = varied.length ? c.chosen.label : 'the fixed recipe';
   const d = c.chosen.detection;
   const b = c.best.detection;
   const fa = c.chosen.falseClusters;
   const plant = c.plantSizeMm > 0 ? `planted activations of ${c.plantSizeMm} mm at ${c.plantAmplitudePct} %` : 'no planted activations';
-  return `Use ${what}. For ${plant}, its mean ${metricWords(metric)} was ${fmt(d.mean)} (95 % interval ${fmt(d.low)} to ${fmt(d.high)}, n = ${d.n}); `
-    + `the best setting, ${c.best.label}, reached ${fmt(b.mean)} (SE ${fmt(b.se)}), so every setting at or above ${fmt(c.cutoff)} counts as equally good and the ${c.chosen === c.best ? 'best is also the simplest' : 'simplest of them is chosen'}.`
-    + (fa ? ` False clusters per run at this setting: ${fmt(fa.mean, 2)} on average.` : '');
+  // the interval within the metric's possible range (a t-interval of a rate can pass 0 or 1)
+  const bounds = metricBounds(c.metric);
+  const lowCut = bounds ? Math.max(bounds.floor === 0.5 ? 0 : bounds.floor, d.low) : d.low;
+  const highCut = bounds ? Math.min(bounds.ceiling, d.high) : d.high;
+  const interval = Number.isFinite(d.low) && d.high > d.low ? ` (95 % interval ${fmt(lowCut)} to ${fmt(highCut)}, n = ${d.n})` : ` (n = ${d.n}${d.n > 1 ? ', the same in every repeat' : ''})`;
+  const qualifying = c.evidence.filter((e) => e.withinOneSe).length;
+  const why = qualifying === 1
+    ? 'no other setting comes within one standard error of it'
+    : c.chosen === c.best
+      ? `every setting at or above ${fmt(c.cutoff)} counts as equally good, and the best is also the ${prefer} of them`
+      : `every setting at or above ${fmt(c.cutoff)} counts as equally good, and the ${prefer} of them is chosen`;
+  const falseText = fa ? ` False clusters per run at this setting: ${fmt(fa.mean, 2)} on average.` : '';
+  switch (c.status) {
+    case 'no-detection':
+      return `No choice: for ${plant}, no setting detected the planted activations (best mean ${metricWords(requested)} ${fmt(b.mean)}, at ${c.best.label}). ${c.advice}`;
+    case 'saturated':
+      return c.fallback
+        ? `No choice by ${metricWords(requested)}: for ${plant}, ${c.fallback.reason}. By the ${metricWords(c.metric)}, which still separates them, the best setting is ${c.best.label} (${fmt(b.mean, 2)}) and the one-standard-error rule picks ${what} (${fmt(d.mean, 2)}). ${c.advice}`
+        : `No choice: for ${plant}, ${c.atCeiling.length} settings reach the ceiling of the ${metricWords(requested)}. ${c.advice}`;
+    case 'tied':
+      return `No clear choice: for ${plant}, the settings do not separate (best ${c.best.label} at ${fmt(b.mean)}, SE ${fmt(b.se)}; every setting at or above ${fmt(c.cutoff)}). The ${prefer === 'smallest' ? 'smallest' : 'largest'} setting, ${what}, is as good as any here. ${c.advice}`;
+    default:
+      return `Use ${what}. For ${plant}, its mean ${metricWords(c.metric)} was ${fmt(d.mean)}${interval}; `
+        + `the best setting, ${c.best.label}, reached ${fmt(b.mean)} (SE ${fmt(b.se)}), so ${why}.${falseText}`;
+  }
 }

@@ -29,5 +29,7 @@ export { thresholdBonferroni } from './threshold-bonferroni.js';
 export { fdrBhCutoff, fdrBhAdjust } from './fdr-bh.js';
 export { thresholdFdr, type FdrOptions, type FdrDetails } from './threshold-fdr.js';
 export { thresholdRft, type RftOptions, type RftDetails } from './threshold-rft.js';
+export { thresholdCalibrated, calibratedCriticalValue, minimumNullDesigns, type CalibratedOptions, type CalibratedDetails } from './threshold-calibrated.js';
+export { thresholdRftBonferroni, type RftBonferroniDetails } from './threshold-rft-bonferroni.js';
 export { clusterTheory, clusterFweP, minClusterVoxels, type ClusterTheory, type ClusterTheoryInput } from './cluster-extent.js';
 export { thresholdClusterExtent, type ClusterExtentOptions, type ClusterExtentDetails, type ClusterInfo } from './threshold-cluster.js';

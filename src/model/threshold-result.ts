@@ -4,7 +4,7 @@
  * cluster) and the numbers behind the cut-off.
  */
 export interface ThresholdResult<D> {
-  /** Rule identifier: 'uncorrected', 'bonferroni', 'fdr-bh', 'rft-fwe' or 'cluster-fwe'. */
+  /** Rule identifier: 'uncorrected', 'bonferroni', 'fdr-bh', 'rft-fwe', 'rft-bonferroni-fwe', 'calibrated-fwe' or 'cluster-fwe'. */
   rule: string;
   /** Cut-off on the statistic (one-sided, positive tail); Infinity when no value could survive. */
   threshold: number;

@@ -44,7 +44,12 @@ export function metricChart(card: Scorecard, metric: string, options: MetricChar
   const x = numeric
     ? { field: 'x', type: 'quantitative' as const, title: xTitle, scale: { zero: false } }
     : { field: 'x', type: 'ordinal' as const, title: xTitle, sort: { field: 'order' } };
-  const y = { field: 'mean', type: 'quantitative' as const, title: axisTitle(metricLabel(metric)), ...(options.yDomain ? { scale: { domain: options.yDomain } } : {}) };
+  // a flat metric (say no false alarm anywhere) would leave an axis with a single tick: give it a unit range
+  const ys = points.flatMap((p) => [p.mean, p.low, p.high]).filter((v): v is number => typeof v === 'number' && Number.isFinite(v));
+  const flat = !options.yDomain && ys.length > 0 && Math.max(...ys) - Math.min(...ys) < 1e-9;
+  const flatLow = flat ? Math.max(lo, ys[0] - 0.5) : 0;
+  const yDomain: [number, number] | undefined = options.yDomain ?? (flat ? [flatLow, flatLow + 1] : undefined);
+  const y = { field: 'mean', type: 'quantitative' as const, title: axisTitle(metricLabel(metric)), ...(yDomain ? { scale: { domain: yDomain } } : {}) };
   const color = { field: 'plant', type: 'ordinal' as const, title: 'Planted', sort: { field: 'plantSizeMm' }, scale: { scheme: { name: SIZE_SCHEME, extent: [0.05, 0.8] } } };
   const layers: object[] = [];
   if (numeric) layers.push({ mark: { type: 'area', opacity: 0.15, clip: true }, encoding: { x, y: { field: 'low', type: 'quantitative' }, y2: { field: 'high' }, color } });

@@ -33,7 +33,7 @@ export function rocChart(card: Scorecard, curves: CurveTable, options: { title?:
   }
   const values: object[] = [];
   for (const a of acc.values()) {
-    curves.fprGrid.forEach((f, i) => { if (a.n[i] > 0) values.push({ fpr: f, tpr: a.sums[i] / a.n[i], setting: a.setting, order: a.order, plant: a.plant, size: a.size }); });
+    curves.fprGrid.forEach((f, i) => { if (a.n[i] > 0) values.push({ fpr: f, tpr: a.sums[i] / a.n[i], setting: a.setting, order: a.order, plant: a.plant, size: a.size, parity: `${a.order % 2}` }); });
   }
   const legend = card.varied.length === 1 ? parameterLabel(card.varied[0]) : 'setting';
   const panel = {
@@ -43,6 +43,8 @@ export function rocChart(card: Scorecard, curves: CurveTable, options: { title?:
       x: { field: 'fpr', type: 'quantitative', scale: { type: 'log' }, title: 'False-positive rate (fraction of non-planted voxels, log scale)' },
       y: { field: 'tpr', type: 'quantitative', scale: { domain: [0, 1] }, title: axisTitle('True-positive rate (fraction of planted voxels)') },
       color: { field: 'setting', type: 'ordinal', sort: { field: 'order' }, title: legend, scale: { scheme: { name: SETTING_SCHEME, extent: [0, 0.85] } } },
+      // neighbouring settings sit close on a sequential scale: alternate solid and dashed lines as well
+      strokeDash: { field: 'parity', type: 'nominal', legend: null, scale: { domain: ['0', '1'], range: [[1, 0], [5, 3]] } },
       detail: { field: 'setting' },
       tooltip: [{ field: 'setting', title: legend }, { field: 'fpr', format: '.4f' }, { field: 'tpr', format: '.3f' }],
     },

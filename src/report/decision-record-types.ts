@@ -49,17 +49,29 @@ export interface DecisionRecord {
     summary: Array<{ setting: Setting; plantSizeMm: number; plantAmplitudePct: number; repeats: number; metrics: Record<string, MetricSummary> }>;
   };
   choice: {
+    /**
+     * How far the choice can be trusted: 'chosen'; 'no-detection' (the best mean at the metric's
+     * floor); 'saturated' (several settings at its ceiling; `setting` then comes from `fallback.to`);
+     * 'tied' (every setting within one standard error of the best). Only 'chosen' reads "Use ...".
+     * Absent in records written before the status existed (read as 'chosen').
+     */
+    status?: 'chosen' | 'no-detection' | 'saturated' | 'tied';
+    /** What to change in the sweep when the status is not 'chosen'. */
+    advice?: string;
+    /** When the requested metric saturated: the metric the choice fell back to, and why. */
+    fallback?: { from: string; to: string; reason: string } | null;
     setting: Setting;
     plantSizeMm: number;
     plantAmplitudePct: number;
     ruleId: string;
     rule: string;
+    /** The metric the choice was made on (the fallback's when saturated). */
     metric: string;
     prefer: 'smallest' | 'largest';
     cutoff: number;
     chosen: { setting: Setting; mean: number; se: number; low: number; high: number };
     best: { setting: Setting; mean: number; se: number };
-    perPlant: Array<{ plantSizeMm: number; plantAmplitudePct: number; setting: Setting; mean: number; bestSetting: Setting; bestMean: number }>;
+    perPlant: Array<{ plantSizeMm: number; plantAmplitudePct: number; status?: string; metric?: string; setting: Setting; mean: number; bestSetting: Setting; bestMean: number }>;
     summary: string;
   };
   caveats: string[];

@@ -1,3 +1,4 @@
+import { DEFAULT_NULL_DESIGNS } from '../sweep/spec.js';
 import type { DecisionRecord } from './decision-record-types.js';
 import { parameterName, settingLabel, settingText } from '../sweep/settings-grid.js';
 import { metricWords } from '../decide/recommend-setting.js';
@@ -28,6 +29,8 @@ export const METHOD_REFERENCES = {
   matchedFilter: 'Rosenfeld A, Kak AC (1982) Digital Picture Processing, 2nd ed. Academic Press',
   autocorrelation: 'Eklund A, Nichols TE, Knutsson H (2016) PNAS 113(28):7900-7905',
   student: 'Student (1908) Biometrika 6(1):1-25',
+  lesserOf: 'Nichols T, Hayasaka S (2003) Stat Methods Med Res 12(5):419-446',
+  permutation: 'Nichols TE, Holmes AP (2002) Hum Brain Mapp 15(1):1-25',
 } as const;
 
 const num = (x: number | null | undefined, d = 2) => (x === null || x === undefined || !Number.isFinite(x) ? 'n/a' : x.toFixed(d));
@@ -35,12 +38,27 @@ const num = (x: number | null | undefined, d = 2) => (x === null || x === undefi
 function thresholdSentence(r: DecisionRecord, cite: (ref: string) => string): string {
   const t = r.sweepSpec.threshold;
   switch (t.kind) {
-    case 'fwe-rft': return `Voxels were declared active at a family-wise error rate of ${t.alpha} by random field theory (${cite(METHOD_REFERENCES.rft)}), with the smoothness estimated from the standardised residuals (${cite(METHOD_REFERENCES.smoothness)}).`;
+    case 'fwe-rft': return `Voxels were declared active at a family-wise error rate of ${t.alpha}, at the lower of the random-field threshold (${cite(METHOD_REFERENCES.rft)}), with the smoothness estimated from the standardised residuals (${cite(METHOD_REFERENCES.smoothness)}), and the Bonferroni threshold over the voxels of the brain mask, as both hold the rate (${cite(METHOD_REFERENCES.lesserOf)}).`;
+    case 'fwe-calibrated': return `Voxels were declared active at a family-wise error rate of ${t.alpha} calibrated on this run's own noise: for each candidate setting, ${t.nullDesigns ?? DEFAULT_NULL_DESIGNS} random block designs with nothing planted were fitted to the run after that setting's preprocessing, and the threshold was the order statistic of their maximum t values that a new null map exceeds with probability at most ${t.alpha} (${cite(METHOD_REFERENCES.permutation)}); this holds the rate whatever the spatial autocorrelation of the noise (${cite(METHOD_REFERENCES.autocorrelation)}).`;
     case 'fdr': return `Voxels were declared active at a false discovery rate of ${t.q} by the Benjamini-Hochberg procedure (${cite(METHOD_REFERENCES.fdr)}; ${cite(METHOD_REFERENCES.fdrImaging)}).`;
     case 'bonferroni': return `Voxels were declared active at a family-wise error rate of ${t.alpha} by the Bonferroni correction over the voxels of the brain mask.`;
     case 'uncorrected': return `Voxels were declared active at an uncorrected one-sided p < ${t.alpha}.`;
     case 'cluster': return `Clusters were formed at one-sided p < ${t.clusterFormingP} and kept when their extent was significant at a family-wise error rate of ${t.alpha} by random field theory (${cite(METHOD_REFERENCES.cluster)}), with the smoothness estimated from the residuals (${cite(METHOD_REFERENCES.smoothness)}).`;
   }
+}
+
+/** Where blobs were centred and which voxels were left out, in words, from the record's masks. */
+function placementText(r: DecisionRecord): string {
+  const m = r.masks;
+  if (r.sweepSpec.plant.count === 0) return '';
+  const where = m.placement.kind === 'file'
+    ? `, centred within the voxels of ${m.placement.file.path.split('/').pop()}${m.placement.values ? ` labelled ${m.placement.values.join(' or ')}` : m.placement.above !== undefined ? ` above ${m.placement.above}` : ''}`
+    : ', centred within the brain mask (the automatic mask of the mean image)';
+  const margin = r.sweepSpec.plant.marginMm === null ? ' at least half a blob width inside its edge' : ` at least ${r.sweepSpec.plant.marginMm} mm inside its edge`;
+  const excl = m.exclude?.kind === 'file'
+    ? `; voxels of ${m.exclude.file.path.split('/').pop()}${m.exclude.above !== undefined ? ` above ${m.exclude.above}` : ''}${m.exclude.growVoxels ? ` grown by ${m.exclude.growVoxels} voxels` : ''} were excluded from planting and scoring because they may respond to the task already`
+    : '';
+  return `${where}${margin}${excl}`;
 }
 
 /**
@@ -81,13 +99,16 @@ export function methodsText(r: DecisionRecord): MethodsText {
     const text = n.methodsText.trim().replace(/\.$/, '');
     return `${text}${c}.`;
   });
-  paragraphs.push(`The functional run (${r.run.summary}) was preprocessed with ${r.stepNotes.length} step${r.stepNotes.length === 1 ? '' : 's'}, in this order. ${steps.join(' ')}`);
+  // no brackets inside brackets: the run summary's own parentheses become commas
+  const runSummary = r.run.summary.replace(/\s*\(([^()]*)\)/g, ', $1');
+  paragraphs.push(`The functional run (${runSummary}) was preprocessed with ${r.stepNotes.length} step${r.stepNotes.length === 1 ? '' : 's'}, in this order. ${steps.join(' ')}`);
 
   // 2. model and threshold (citations numbered in the order they appear)
   const cond = spec.model.trialType ? `the '${spec.model.trialType}' events` : 'the task events';
   const drift = spec.model.highpassCutoffSec ? `, discrete cosine drift regressors with a ${spec.model.highpassCutoffSec} s cutoff` : '';
-  const censored = spec.model.censorVolumes.length ? `, one indicator regressor for each of the ${spec.model.censorVolumes.length} censored volumes (${spec.model.censorVolumes.join(', ')})` : '';
-  const glm = `Each voxel inside the brain mask was fitted with a general linear model (${cite(METHOD_REFERENCES.glm)}) whose regressor of interest was ${cond} convolved with a canonical double-gamma haemodynamic response (${cite(METHOD_REFERENCES.hrf)})${drift}${censored} and an intercept.`;
+  const cv = spec.model.censorVolumes;
+  const censored = cv.length ? `, one indicator regressor for each of the ${cv.length} censored volumes (volume${cv.length === 1 ? '' : 's'} ${cv.length === 1 ? cv[0] : `${cv.slice(0, -1).join(', ')} and ${cv[cv.length - 1]}`}, numbered from 0 in the run as acquired)` : '';
+  const glm = `Each voxel inside the brain mask was fitted with a general linear model (${cite(METHOD_REFERENCES.glm)}) whose regressor of interest was ${cond} convolved with a canonical double-gamma haemodynamic response (${cite(METHOD_REFERENCES.hrf)})${drift}${censored}, and an intercept.`;
   // the chosen value when the sweep varied it; a record from before the option existed was unsmoothed
   const arFwhm = Number(choice.setting['model.ar1SmoothFwhmMm'] ?? spec.model.ar1SmoothFwhmMm ?? 0);
   const arSmooth = arFwhm > 0 ? `bias-corrected and spatially smoothed with a ${arFwhm} mm FWHM Gaussian kernel within the brain mask` : 'bias-corrected and estimated separately at each voxel';
@@ -109,14 +130,29 @@ export function methodsText(r: DecisionRecord): MethodsText {
   if (atChoice?.metrics.falseClusters) extras.push(`${num(atChoice.metrics.falseClusters.mean)} false clusters per run`);
   if (atChoice?.metrics.tsnrMedian) extras.push(`a median tSNR of ${num(atChoice.metrics.tsnrMedian.mean, 1)}`);
   if (atChoice?.metrics.smoothnessFwhmMm) extras.push(`an estimated smoothness of ${num(atChoice.metrics.smoothnessFwhmMm.mean, 1)} mm FWHM`);
-  paragraphs.push(
-    `The ${varied.length ? varied.map(parameterName).join(' and ') : 'recipe'} was chosen by simulation on this run with boldsweep ${r.software.boldsweep} (seed ${r.seed}). In each of ${spec.repeats} repeats, ${plant}; every candidate setting (${candidates || 'one'}) was then applied, the model fitted and thresholded, and the detections compared with the planted truth.${ref} `
-    + `By the one-standard-error rule (${cite(METHOD_REFERENCES.oneSe)}), ${chosenWhat} was chosen: the ${choice.prefer} setting whose mean ${metricWords(choice.metric)} across repeats was within one standard error of the best mean. `
-    + (sameAsBest
-      ? `Here the best setting was also the ${choice.prefer} qualifying one (mean ${num(ch.mean, 3)}; 95 % t-interval ${num(ch.low, 3)} to ${num(ch.high, 3)}, ${cite(METHOD_REFERENCES.student)}; SE ${num(choice.best.se, 3)}).`
-      : `Its mean was ${num(ch.mean, 3)} (95 % t-interval ${num(ch.low, 3)} to ${num(ch.high, 3)}, ${cite(METHOD_REFERENCES.student)}), against ${num(choice.best.mean, 3)} (SE ${num(choice.best.se, 3)}) at the best setting, ${settingText(choice.best.setting)}.`)
-    + (extras.length ? ` At this setting the simulation found ${extras.join(', ')}.` : ''),
-  );
+  const interval = ch.low !== null && ch.high !== null && Number.isFinite(ch.low) && Number.isFinite(ch.high) && ch.high > ch.low
+    ? `; 95 % t-interval ${num(ch.low, 3)} to ${num(ch.high, 3)}, ${cite(METHOD_REFERENCES.student)}`
+    : '';
+  const status = choice.status ?? 'chosen';
+  const requested = choice.fallback?.from ?? choice.metric;
+  const how = `In each of ${spec.repeats} repeats, ${plant}${placementText(r)}; every candidate setting (${candidates || 'one'}) was then applied, the model fitted and thresholded, and the detections compared with the planted truth (a planted voxel is one where the planted signal is at least half its peak).${ref}`;
+  let decision: string;
+  if (status === 'no-detection') {
+    decision = `No setting detected the planted activations: the best mean ${metricWords(choice.metric)} across repeats was ${num(choice.best.mean, 3)}, at ${settingText(choice.best.setting)}, so the simulation gives no basis for a choice at this amplitude and no setting is recommended.`;
+  } else if (status === 'saturated') {
+    decision = choice.fallback
+      ? `The ${metricWords(requested)} reached its ceiling at several settings and could not separate them, so the choice was made on the ${metricWords(choice.metric)}, which still did: by the one-standard-error rule (${cite(METHOD_REFERENCES.oneSe)}), ${chosenWhat} was taken, the ${choice.prefer} setting within one standard error of the best mean (mean ${num(ch.mean, 2)} against ${num(choice.best.mean, 2)} at ${settingText(choice.best.setting)}).`
+      : `The ${metricWords(requested)} reached its ceiling at several settings and could not separate them; no setting is recommended.`;
+  } else if (status === 'tied') {
+    decision = `No setting separated from the others: every mean ${metricWords(choice.metric)} lay within one standard error of the best (${num(choice.best.mean, 3)}, SE ${num(choice.best.se, 3)}, at ${settingText(choice.best.setting)}), so the data do not favour ${chosenWhat} over the rest.`;
+  } else {
+    decision = `By the one-standard-error rule (${cite(METHOD_REFERENCES.oneSe)}), ${chosenWhat} was chosen: the ${choice.prefer} setting whose mean ${metricWords(choice.metric)} across repeats was within one standard error of the best mean. `
+      + (sameAsBest
+        ? `Here the best setting was also the ${choice.prefer} qualifying one (mean ${num(ch.mean, 3)}${interval}; standard error ${num(choice.best.se, 3)}).`
+        : `Its mean was ${num(ch.mean, 3)}${interval ? ` (${interval.slice(2)})` : ''}, against ${num(choice.best.mean, 3)} (standard error ${num(choice.best.se, 3)}) at the best setting, ${settingText(choice.best.setting)}.`)
+      + (extras.length ? ` At this setting the simulation found ${extras.join(', ')}.` : '');
+  }
+  paragraphs.push(`The ${varied.length ? varied.map(parameterName).join(' and ') : 'recipe'} was ${status === 'chosen' || status === 'saturated' ? 'chosen' : 'compared'} by simulation on this run with boldsweep ${r.software.boldsweep} (seed ${r.seed}). ${how} ${decision}`);
 
   // 4. limits
   paragraphs.push(`These figures are estimates from one run; the simulation assumes activations of the planted shape and the modelled haemodynamic response, and real fMRI noise has non-Gaussian spatial autocorrelation (${cite(METHOD_REFERENCES.autocorrelation)}). The decision record (input hashes, software versions, sweep specification, seed and scorecard summary) allows the simulation to be repeated exactly.`);

@@ -1,3 +1,4 @@
+import { DEFAULT_NULL_DESIGNS } from '../sweep/spec.js';
 import type { ThresholdRule } from '../sweep/spec.js';
 
 /**
@@ -8,7 +9,8 @@ import type { ThresholdRule } from '../sweep/spec.js';
  */
 export function thresholdText(t: ThresholdRule): string {
   switch (t.kind) {
-    case 'fwe-rft': return `FWE p < ${t.alpha} (random-field theory)`;
+    case 'fwe-rft': return `FWE p < ${t.alpha} (random-field theory or Bonferroni, whichever is lower)`;
+    case 'fwe-calibrated': return `FWE p < ${t.alpha} (calibrated on ${t.nullDesigns ?? DEFAULT_NULL_DESIGNS} null designs per setting)`;
     case 'fdr': return `FDR q < ${t.q} (Benjamini-Hochberg)`;
     case 'bonferroni': return `FWE p < ${t.alpha} (Bonferroni)`;
     case 'uncorrected': return `uncorrected p < ${t.alpha}`;

@@ -6,6 +6,8 @@ import { parameterName, settingText, simplerEnd } from '../sweep/settings-grid.j
 import { parameterTradeoff } from '../decide/parameter-tradeoff.js';
 import { getStep, listSteps } from '../steps/registry.js';
 import { summariseScorecard } from '../decide/summarise-scorecard.js';
+import { theoryBesideSimulation } from '../decide/theory-beside-simulation.js';
+import { theoryChart } from './theory-chart.js';
 import { detectionChart, falseAlarmChart, smoothnessChart, tsnrChart } from './charts-sweep.js';
 import { rocChart } from './charts-roc.js';
 import { buildDecisionRecord } from './decision-record.js';
@@ -40,7 +42,8 @@ export async function sweepCharts(folder: SweepFolder, rec: Recommendation): Pro
   const { result } = folder;
   const card = result.scorecard;
   const key = card.varied[0];
-  const recommended = key === undefined ? undefined : rec.choice.chosen.setting[key];
+  // only a choice the sweep supports is drawn as 'recommended' (see the choice's status)
+  const recommended = key === undefined || rec.choice.status !== 'chosen' ? undefined : rec.choice.chosen.setting[key];
   const thr = thresholdText(result.spec.threshold);
   const o = { recommended, thresholdText: thr, metric: rec.metric };
   const x = key ? parameterLabel(key) : 'the recipe';
@@ -50,7 +53,19 @@ export async function sweepCharts(folder: SweepFolder, rec: Recommendation): Pro
   charts.push({ id: 'chart-false-alarms', title: 'False alarms', svg: await renderSvg(falseAlarmChart(card, o)), caption: `Clusters of detected voxels containing no planted voxel, per run, at ${thr}.` });
   charts.push({ id: 'chart-tsnr', title: 'tSNR', svg: await renderSvg(tsnrChart(card, o)), caption: `Median temporal signal-to-noise ratio inside the brain mask after the recipe, against ${x}.` });
   charts.push({ id: 'chart-smoothness', title: 'Smoothness', svg: await renderSvg(smoothnessChart(card, o)), caption: `Smoothness of the noise estimated from the model residuals (FWHM), against ${x}.` });
-  if (planted && result.curves.rows.length) charts.push({ id: 'chart-roc', title: 'ROC', svg: await renderSvg(rocChart(card, result.curves)), caption: 'Voxelwise ROC curves per setting (every threshold), averaged across repeats: how well each setting separates planted from other voxels, whatever the threshold.' });
+  const theory = planted ? theoryBesideSimulation(card, result.spec, result.designNorm, folder.run.spacingMm) : null;
+  if (theory && theory.rows.length) {
+    const off = theory.rows.filter((r) => r.disagrees);
+    const why = off.length
+      ? ` At ${off.length} of ${theory.rows.length} points the prediction lies outside the simulation's interval (${off.slice(0, 4).map((r) => `${r.plantSizeMm} mm blobs at ${r.kernelFwhmMm} mm`).join('; ')}${off.length > 4 ? '; ...' : ''}). The theory assumes Gaussian noise whose smoothness is the same everywhere and equal to the narrowest setting's, blob centres on voxel centres, and a model without AR(1) whitening; real noise that is not Gaussian, smoothness that varies across the brain, or a noise level measured with a quadratic detrend (tSNR) rather than the model can each move the simulation away from it.`
+      : ' The prediction lies within the simulation\'s interval at every point.';
+    charts.push({ id: 'chart-theory', title: 'Theory', svg: await renderSvg(theoryChart(theory)), caption: `Statistic at the planted centres against ${x}: simulated (points, 95 % t-interval) and predicted by matched-filter theory (dashed) from the run's noise level (${theory.noiseSdPct.toFixed(2)} % of baseline per volume), its smoothness beyond white noise (${theory.noiseFwhmMm.toFixed(1)} mm FWHM), the planted sizes and amplitudes.${why}` });
+  }
+  const tsnrMeans = summariseScorecard(card).filter((s) => s.plantSizeMm === card.rows[0]?.plantSizeMm && s.plantAmplitudePct === card.rows[0]?.plantAmplitudePct).map((s) => s.metrics.tsnrMedian?.mean ?? NaN);
+  const turns = tsnrMeans.length > 2 && tsnrMeans.some((v, i) => i > 0 && i < tsnrMeans.length - 1 && ((v > tsnrMeans[i - 1] && v > tsnrMeans[i + 1]) || (v < tsnrMeans[i - 1] && v < tsnrMeans[i + 1])));
+  const tsnrChartEntry = charts.find((c) => c.id === 'chart-tsnr');
+  if (tsnrChartEntry && turns) tsnrChartEntry.caption += ' The curve turns over: smoothing raises tSNR by averaging noise, but past some width it also blends the brain edge with the background and cerebrospinal fluid, whose signal is lower or less stable, so the median tSNR in the mask falls again.';
+  if (planted && result.curves.rows.length) charts.push({ id: 'chart-roc', title: 'ROC', svg: await renderSvg(rocChart(card, result.curves)), caption: 'Voxelwise ROC curves per setting (every threshold), averaged across repeats: how well each setting separates planted from other voxels, whatever the threshold. Neighbouring settings alternate solid and dashed lines.' });
   return charts;
 }
 
@@ -73,12 +88,18 @@ export async function writeReport(dir: string, folder: SweepFolder, options: Rec
   // the simpler end of the varied values comes from the steps' own simplicity orders unless given
   const prefer = options.prefer ?? simplerEnd(result.spec) ?? undefined;
   const recommendation = recommendSetting(result.scorecard, { thresholdText: thr, ...options, prefer });
+  const rough = roughSettings(folder);
+  if (rough.length && (result.spec.threshold.kind === 'fwe-rft' || result.spec.threshold.kind === 'cluster')) {
+    recommendation.caveats.push(`At ${rough.join(', ')} the estimated noise smoothness is under 3 voxels FWHM, where the random-field threshold is far more conservative than its nominal level (the lattice is too rough for the continuous theory; Nichols & Hayasaka 2003). The sweep uses the Bonferroni value there when it is lower, but the threshold still falls hardest on the narrowest settings and so biases the choice towards wider kernels; the fwe-calibrated rule measures the threshold on this run's own noise instead.`);
+  }
   const record = await buildDecisionRecord({ result, recommendation, run: folder.run, masks: folder.masks });
   const methods = methodsText(record);
   const charts = await sweepCharts(folder, recommendation);
   const spec = result.spec;
+  // the recipe as chosen: the varied parameters filled in with the chosen setting's values
+  const chosenSetting = recommendation.choice.chosen.setting;
   const sweepLines = [
-    `Recipe: ${spec.recipe.map((s) => `${s.step}(${Object.entries(s.params).map(([k, v]) => `${k}=${JSON.stringify(v)}`).join(', ')})`).join(' -> ')}`,
+    `Recipe${recommendation.choice.status === 'chosen' ? ' (with the recommended setting)' : ` (with ${settingText(chosenSetting)}, which is not a recommendation)`}: ${record.recipe.map((s) => `${s.step}(${Object.entries(s.params).map(([k, v]) => `${k}=${JSON.stringify(v)}`).join(', ')})`).join(' -> ')}`,
     ...Object.entries(spec.vary).map(([k, v]) => `Varied ${parameterLabel(k)}: ${v.join(', ')}`),
     // a varied geometric step (interpolation kernel, voxel size): which value detects best and which blurs least
     ...geometricKeys(spec.vary).flatMap((k) => parameterTradeoff(result.scorecard, k, { metric: recommendation.metric }).map((g) => `Trade-off: ${g.text}`)),
@@ -98,6 +119,7 @@ export async function writeReport(dir: string, folder: SweepFolder, options: Rec
     runSummary: `Run: ${folder.run.files.image ? basename(folder.run.files.image) : '(in memory)'}; ${folder.run.summary}.`,
     sweepLines, recommendation, charts, summaries: summariseScorecard(result.scorecard),
     tableMetrics: ['hitRate', 'falseClusters', 'rocAuc', 'dice', 'tsnrMedian', 'smoothnessFwhmMm'].filter((m) => result.scorecard.metrics.includes(m)),
+    nullCalibration: result.nullCalibration ?? null, spec,
     methods, runLines, software: { boldsweep: record.software.boldsweep, node: record.software.node, 'vega-lite': record.software.dependencies['vega-lite'] ?? '' },
   });
   const files = { report: join(dir, 'report.html'), methods: join(dir, 'methods.md'), record: join(dir, 'decision-record.json') };
@@ -113,4 +135,15 @@ function geometricKeys(vary: Record<string, unknown[]>): string[] {
     const step = k.slice(0, k.indexOf('.'));
     return step !== 'model' && listSteps().includes(step) && getStep(step).kind === 'geometric' && vary[k].some((v) => typeof v !== 'number');
   });
+}
+
+/** Settings whose mean estimated smoothness is under 3 voxels FWHM (geometric mean voxel size). */
+function roughSettings(folder: SweepFolder): string[] {
+  const voxel = Math.cbrt(folder.run.spacingMm[0] * folder.run.spacingMm[1] * folder.run.spacingMm[2]);
+  const seen = new Map<number, string>();
+  for (const s of summariseScorecard(folder.result.scorecard)) {
+    const f = s.metrics.smoothnessFwhmMm?.mean;
+    if (f !== undefined && Number.isFinite(f) && f < 3 * voxel && !seen.has(s.settingIndex)) seen.set(s.settingIndex, settingText(s.setting));
+  }
+  return [...seen.values()];
 }

@@ -70,7 +70,7 @@ export const dropInitialVolumesStep: StepFunction<DropInitialVolumesParams> = (v
   const sidecar = context.sidecar
     ? { ...context.sidecar, NumberOfVolumesDiscardedByUser: (typeof context.sidecar.NumberOfVolumesDiscardedByUser === 'number' ? context.sidecar.NumberOfVolumesDiscardedByUser : 0) + count }
     : null;
-  const eventText = shifted ? ` Event onsets were shifted by ${shiftSec} s${shifted.trimmed + shifted.removed > 0 ? ` (${shifted.trimmed} events trimmed, ${shifted.removed} removed because they began before the first kept volume)` : ''}.` : '';
+  const eventText = shifted ? ` Event onsets were moved ${shiftSec} s earlier, so that they are timed from the first kept volume${shifted.trimmed + shifted.removed > 0 ? `; ${shifted.trimmed} events were trimmed and ${shifted.removed} removed because they began before it` : ''}.` : '';
   return {
     volume: out,
     context: { ...context, events: shifted ? shifted.events : context.events, sidecar },

@@ -32,7 +32,9 @@ import { adoptWorkBuffer, currentWorkBuffer, releaseWorkBuffer, workBuffer } fro
 import { fail } from '../core/fail.js';
 import type { CellPlan, CellGroup } from './plan.js';
 import type { RecipeStep } from './spec.js';
-import type { CellResult, EstimateResult, EstimateTask, SweepContext, SweepTask, TsnrResult, TsnrTask } from './sweep-task.js';
+import type { CellResult, EstimateResult, EstimateTask, NullResult, NullTask, SweepContext, SweepTask, TsnrResult, TsnrTask } from './sweep-task.js';
+import { shiftEvents } from '../steps/drop-initial-volumes.js';
+import { thresholdRftBonferroni } from '../model/threshold-rft-bonferroni.js';
 import type { BoldEvent } from '../io/run-types.js';
 import { randomBlockEvents } from './random-block-events.js';
 
@@ -316,6 +318,25 @@ function release(): void {
 }
 
 /**
+ * The design of a cell's model: the events' regressors, drift, one indicator per censored volume.
+ * Censored volumes are indexed in the run as opened; steps may only have removed initial volumes.
+ */
+function cellDesign(events: readonly BoldEvent[], volume: Volume, ctx: SweepContext, model: CellPlan['model'], regressors: readonly NuisanceRegressor[] = [], sliceTimesSec: Float64Array | null = null): ReturnType<typeof buildDesign> {
+  const nt = volume.dims[3];
+  const offset = ctx.run.dims[3] - nt;
+  const nuisance: NuisanceRegressor[] = [...new Set(model.censorVolumes)].sort((a, b) => a - b).map((c) => c - offset).filter((c) => c >= 0 && c < nt)
+    .map((c) => ({ name: `censor_${c + offset}`, values: Float64Array.from({ length: nt }, (_, t) => (t === c ? 1 : 0)) }));
+  nuisance.push(...regressors.map((r) => stepRegressor(r, nt)));
+  // slice times aligned to one time by a step: the task regressor is sampled then (else mid-volume)
+  const sampleTimeSec = modelSampleTimeSec(sliceTimesSec, volume.trSec);
+  return buildDesign([...events], {
+    nt, trSec: volume.trSec, ...(sampleTimeSec === null ? {} : { sampleTimeSec }),
+    drift: model.highpassCutoffSec ? { kind: 'dct', cutoffSec: model.highpassCutoffSec } : { kind: 'none' },
+    nuisance,
+  });
+}
+
+/**
  * Model, threshold and score one preprocessed run.
  * @returns metrics, ROC samples
  */
@@ -333,19 +354,7 @@ function modelAndScore(holder: { volume: Volume | null }, context: StepContext, 
   const truth = truthInFrame(plantedTruth, frame);
 
   const events = context.events!;
-  const nt = volume.dims[3];
-  // censored volumes are indexed in the run as opened; steps may only have removed initial volumes
-  const offset = ctx.run.dims[3] - nt;
-  const nuisance: NuisanceRegressor[] = [...new Set(cell.model.censorVolumes)].sort((a, b) => a - b).map((c) => c - offset).filter((c) => c >= 0 && c < nt)
-    .map((c) => ({ name: `censor_${c + offset}`, values: Float64Array.from({ length: nt }, (_, t) => (t === c ? 1 : 0)) }));
-  nuisance.push(...regressors.map((r) => stepRegressor(r, nt)));
-  // slice times aligned to one time by a step: the task regressor is sampled then (else mid-volume)
-  const sampleTimeSec = modelSampleTimeSec(context.sliceTimesSec, volume.trSec);
-  const design = buildDesign(events, {
-    nt, trSec: volume.trSec, ...(sampleTimeSec === null ? {} : { sampleTimeSec }),
-    drift: cell.model.highpassCutoffSec ? { kind: 'dct', cutoffSec: cell.model.highpassCutoffSec } : { kind: 'none' },
-    nuisance,
-  });
+  const design = cellDesign(events, volume, ctx, cell.model, regressors, context.sliceTimesSec ?? null);
   // when the preprocessed run is this thread's work buffer (rebuilt by the next cell anyway), the
   // residuals overwrite it: no run-sized array of the cell's own
   const work = currentWorkBuffer();
@@ -360,7 +369,7 @@ function modelAndScore(holder: { volume: Volume | null }, context: StepContext, 
   const maps = contrastMaps(fit, { [trialType]: 1 }, { name: trialType });
   const smooth = estimateSmoothness(fit.residuals!.data, fit.residuals!.dims, brain, grid.spacingMm, { dof: fit.dof });
   fit.residuals = null;
-  const thr = applyThresholdRule(maps.t.data, brain, grid.dims, ctx.threshold, { kind: 't', dof: maps.dof }, smooth.fwhmMm, grid.spacingMm);
+  const thr = applyThresholdRule(maps.t.data, brain, grid.dims, ctx.threshold, { kind: 't', dof: maps.dof }, smooth.fwhmMm, grid.spacingMm, ctx.nullMaxima?.[cell.settingIndex]);
   // one ROC curve for both the scorecard's area and the curve table (it sorts every scored voxel)
   const curve = hasBothClasses(truth.mask, scoreMask) ? rocCurve(maps.t.data, truth.mask, scoreMask) : undefined;
   const score = scoreDetection({ statistic: maps.t, survivors: thr.survivors, truth, brainMask: scoreMask, effectPct: maps.percentSignalChange, threshold: thr.threshold, thresholdMethod: thr.rule, rocCurve: curve });
@@ -497,4 +506,66 @@ export async function runEstimateTask(task: EstimateTask): Promise<EstimateResul
   const result: EstimateResult = { key: task.key, value, hash: stableHash({ estimate: value }), seconds: (performance.now() - t0) / 1000 };
   if (ctx.cacheDir) await writeCachedEstimate(ctx.cacheDir, result);
   return result;
+}
+
+/**
+ * The null designs of one setting: its whole recipe on the unplanted run, then each of K random block
+ * designs (nothing planted) fitted with the setting's model, giving the maximum t over the scored voxels
+ * (the brain mask less any voxels excluded as known to respond). The
+ * maxima calibrate 'fwe-calibrated'; the first design's residual smoothness gives the random-field (or
+ * Bonferroni) threshold whose exceedances measure that rule's family-wise rate on this run's noise.
+ * Task timing of the run itself is not used, so a real task response in the run does not count.
+ * @param task - the setting's steps and model, the designs' seeds
+ * @returns the maxima and the measured random-field rate
+ * @example const { maxima } = await runNullTask(task)
+ */
+export async function runNullTask(task: NullTask): Promise<NullResult> {
+  const t0 = performance.now();
+  const ctx = task.context;
+  const runSec = ctx.run.dims[3] * ctx.run.trSec;
+  let volume: Volume | null = sharedRunVolume(ctx);
+  let context = initialContext(ctx, ctx.events);
+  const regressors: NuisanceRegressor[] = [];
+  for (let i = 0; i < task.steps.length; i++) {
+    const input: Float32Array = volume!.data;
+    const r = await runStepIntoWork(task.steps[i], volume!, context, estimateOf(ctx, task.estimates[i]));
+    volume = r.volume;
+    context = r.context;
+    regressors.push(...r.regressors);
+    if (!keptElsewhere(input, [ctx.run.data, volume.data])) release();
+  }
+  const v = volume!;
+  // designs are drawn on the run as opened; steps that dropped initial volumes moved time zero
+  const shiftSec = (ctx.run.dims[3] - v.dims[3]) * ctx.run.trSec;
+  const { brain, score: scored } = masksInFrame(ctx, context.frame ?? { kind: 'raw' });
+  const maxima: number[] = [];
+  let rftThreshold = NaN, smoothness = NaN, dof = NaN;
+  for (let k = 0; k < task.designSeeds.length; k++) {
+    const drawn = randomBlockEvents(task.designSeeds[k], runSec, task.design);
+    const events = shiftSec > 0 ? shiftEvents(drawn, shiftSec).events : drawn;
+    const design = cellDesign(events, v, ctx, task.model, regressors, context.sliceTimesSec ?? null);
+    const glmOptions = { mask: brain, keepResiduals: k === 0 };
+    const fit = task.model.ar1 ? fitGlmAr1(v, design, { ...glmOptions, ar1SmoothFwhmMm: task.model.ar1SmoothFwhmMm }) : fitGlm(v, design, glmOptions);
+    const maps = contrastMaps(fit, { [task.design.trialType]: 1 }, { name: task.design.trialType });
+    // the maximum over the scored voxels: voxels left out as known to respond to the task would make
+    // every design that resembles the task look like a false alarm
+    let max = -Infinity;
+    const t = maps.t.data;
+    for (let i = 0; i < scored.length; i++) if (scored[i] && t[i] > max) max = t[i];
+    maxima.push(max);
+    if (k === 0) {
+      const smooth = estimateSmoothness(fit.residuals!.data, fit.residuals!.dims, brain, v.spacingMm, { dof: fit.dof });
+      fit.residuals = null;
+      dof = maps.dof;
+      const [fx, fy, fz] = smooth.fwhmMm;
+      smoothness = Math.cbrt(fx * fy * fz);
+      rftThreshold = thresholdRftBonferroni(t, brain, [v.dims[0], v.dims[1], v.dims[2]], { alpha: ctx.threshold.alpha, stat: { kind: 't', dof: maps.dof }, fwhmMm: smooth.fwhmMm, spacingMm: v.spacingMm }).threshold;
+    }
+  }
+  volume = null;
+  return {
+    settingIndex: task.settingIndex, maxima, rftBonferroniThreshold: rftThreshold,
+    rftBonferroniExceed: maxima.filter((m) => m >= rftThreshold).length, smoothnessFwhmMm: smoothness, dof,
+    seconds: (performance.now() - t0) / 1000,
+  };
 }

@@ -38,12 +38,15 @@ export function gatherResults(parts: SweepResult[], options: { allowPartial?: bo
   const curveRows = parts.flatMap((p) => p.curves.rows).sort((a, b) => a.cell - b.cell);
   const notes = new Map<number, SweepResult['notes'][number]>();
   for (const p of parts) for (const n of p.notes) if (!notes.has(n.settingIndex)) notes.set(n.settingIndex, n);
+  const nulls = new Map<number, NonNullable<SweepResult['nullCalibration']>[number]>();
+  for (const p of parts) for (const c of p.nullCalibration ?? []) if (!nulls.has(c.settingIndex)) nulls.set(c.settingIndex, c);
   const sum = (k: 'cellsRun' | 'cellsComputed' | 'cellsFromCache' | 'estimatesComputed' | 'tasks') => parts.reduce((s, p) => s + (p.stats[k] ?? 0), 0);
   return {
     ...first,
     scorecard: { ...first.scorecard, rows, seconds },
     curves: { fprGrid: first.curves.fprGrid, rows: curveRows },
     notes: [...notes.values()].sort((a, b) => a.settingIndex - b.settingIndex),
+    ...(nulls.size ? { nullCalibration: [...nulls.values()].sort((a, b) => a.settingIndex - b.settingIndex) } : {}),
     shard: null,
     stats: {
       cellsInPlan: expected, cellsRun: sum('cellsRun'), cellsComputed: sum('cellsComputed'), cellsFromCache: sum('cellsFromCache'), estimatesComputed: sum('estimatesComputed'), tasks: sum('tasks'),

@@ -5,7 +5,7 @@ import type { RecipeStep, SweepSpec } from './spec.js';
 import { stableHash } from './stable-hash.js';
 
 /** Bump when what a cached stage or cell holds changes, so old caches are never reused. */
-export const CACHE_FORMAT = 'boldsweep-sweep-cache-4';
+export const CACHE_FORMAT = 'boldsweep-sweep-cache-5';
 
 /** One planted condition: a blob size and amplitude (count 0 = nothing planted). */
 export interface PlantCondition {

@@ -6,8 +6,13 @@ import type { BoldEvent, Sidecar } from '../io/run-types.js';
 import { brainMaskFromMean } from '../look/brain-mask.js';
 import { meanImage } from '../look/mean-image.js';
 import type { StepNote } from '../steps/step-types.js';
-import { runEstimateTask, runSweepTask, runTsnrTask } from './cell-pipeline.js';
+import { runEstimateTask, runNullTask, runSweepTask, runTsnrTask } from './cell-pipeline.js';
 import { stepModules } from '../steps/registry.js';
+import { calibratedCriticalValue } from '../model/threshold-calibrated.js';
+import { childSeed } from '../core/random.js';
+import { NULL_DESIGN, nullDesignCount } from './spec.js';
+import { plantDesignNorm } from './plant-design-norm.js';
+import { randomBlockEvents } from './random-block-events.js';
 import { collectGarbage } from './collect-garbage.js';
 import { SCORECARD_METRICS } from './cell-metrics.js';
 import { DEFAULT_FPR_GRID, type CurveTable } from '../score/curve-table.js';
@@ -24,7 +29,7 @@ import type { SweepSpec, SweepSpecInput } from './spec.js';
 import { stableHash } from './stable-hash.js';
 import { readCachedCell, readCachedEstimate, readCachedTsnr, removeGroupStage } from './stage-cache.js';
 import { releaseWorkBuffer } from './work-buffer.js';
-import type { CellResult, EstimateResult, EstimateTask, SweepContext, SweepJob, SweepTask, TsnrResult, TsnrTask } from './sweep-task.js';
+import type { CellResult, EstimateResult, EstimateTask, NullResult, NullTask, SweepContext, SweepJob, SweepTask, TsnrResult, TsnrTask } from './sweep-task.js';
 
 /*
  * A sweep, phase by phase:
@@ -120,6 +125,34 @@ export interface SweepResult {
   inputs: { runHash: string; contextHash: string };
   shard: Shard | null;
   stats: SweepStats;
+  /** sqrt(p' M p) of the planted time course against the model's other regressors (for the theory's prediction); null when unknown. */
+  designNorm?: number | null;
+  /** Per setting of this shard: the null designs' outcome (absent when the rule fitted none). */
+  nullCalibration?: NullCalibration[];
+}
+
+/**
+ * The family-wise false-alarm rate of a setting measured on K null designs (random blocks, nothing
+ * planted) fitted to the unplanted run after the setting's recipe.
+ */
+export interface NullCalibration {
+  settingIndex: number;
+  /** K. */
+  designs: number;
+  /** The nominal family-wise rate (the spec's alpha). */
+  alpha: number;
+  /** The threshold 'fwe-calibrated' uses (the order statistic of the maxima); null for other rules. */
+  calibratedThreshold: number | null;
+  /** Designs whose maximum reached the calibrated threshold (at most alpha x (K + 1) by construction). */
+  calibratedExceed: number | null;
+  /** The lesser of the random-field and Bonferroni thresholds (first design's smoothness). */
+  rftBonferroniThreshold: number;
+  /** Designs whose maximum reached it: the measured family-wise rate of 'fwe-rft' is this / K. */
+  rftBonferroniExceed: number;
+  /** Residual smoothness of the first design, geometric mean FWHM (mm). */
+  smoothnessFwhmMm: number;
+  /** Maximum t of each design. */
+  maxima: number[];
 }
 
 /** A copy of a float array in shared memory (read by every worker thread). */
@@ -292,12 +325,33 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
   // cells run in worker threads even for one worker: there, steps run in their calling thread and the
   // memory of one cell is released before the next (see cell-pipeline.ts)
   const useThreads = !options.inThisThread && taskCells.length + tsnrTodo.size > 0;
+  // null designs per setting of this shard (see nullDesignCount), run before the cells that may need them
+  const mySettingCount = new Set(mine.map((i) => plan.cells[i].settingIndex)).size;
+  const nullJobs = nullDesignCount(spec.threshold) > 0 ? mySettingCount : 0;
   const progress = new Int32Array(useThreads ? new SharedArrayBuffer(4 * Math.max(1, taskCells.length)) : new ArrayBuffer(4 * Math.max(1, taskCells.length)));
-  const jobCount = taskCells.length + tsnrTodo.size;
+  const jobCount = taskCells.length + tsnrTodo.size + nullJobs;
   const reuse = options.reuseStages ?? true;
   const ctxPlain = baseContext(reuse ? 'memory' : 'none', progress);
   const ctxDisk: SweepContext = { ...ctxPlain, stageMode: 'disk' };
   const tsnrTasks: TsnrTask[] = [...tsnrTodo.values()].map((t, i) => ({ kind: 'tsnr', index: taskCells.length + i, key: t.key, steps: t.steps, estimates: t.estimates, context: ctxPlain }));
+  const designCount = nullDesignCount(spec.threshold);
+  const designSeeds = Array.from({ length: designCount }, (_, k) => childSeed(spec.seed, 'null-design', k));
+  const nullDesign = spec.events.kind === 'random-blocks' ? { onSec: spec.events.onSec, offMinSec: spec.events.offMinSec, offMaxSec: spec.events.offMaxSec, trialType: spec.events.trialType } : { ...NULL_DESIGN };
+  const needsNull = designCount > 0;
+  const nullTasks: NullTask[] = needsNull ? [...mySettings].sort((a, b) => a - b).map((settingIndex, i) => {
+    const model = { ...spec.model };
+    for (const [k, v] of Object.entries(plan.settings[settingIndex])) if (k.startsWith('model.')) (model as Record<string, unknown>)[k.slice(6)] = v;
+    const t = plan.tsnr[settingIndex];
+    return { kind: 'null', index: taskCells.length + tsnrTasks.length + i, settingIndex, steps: t.steps, estimates: t.estimates, model, designSeeds, design: nullDesign, context: ctxPlain };
+  }) : [];
+  const nullResults: NullResult[] = [];
+  const useNull = (): void => {
+    if (!nullTasks.length) return;
+    const maxima: Record<number, number[]> = {};
+    for (const r of nullResults) maxima[r.settingIndex] = r.maxima;
+    ctxPlain.nullMaxima = maxima;
+    ctxDisk.nullMaxima = maxima;
+  };
   const tasks: SweepTask[] = taskCells.map((t, i) => ({
     kind: 'cells', index: i, group: plan.groups[t.group], cells: t.cells,
     // a group stage goes to disk when other tasks (or a resumed sweep) can reuse it (cell-pipeline.ts
@@ -332,6 +386,8 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
   if (!useThreads) {
     try {
       for (const t of tsnrTasks) tsnrByKey.set(t.key, await runTsnrTask(t));
+      for (const t of nullTasks) nullResults.push(await runNullTask(t));
+      useNull();
       for (const t of tasks) {
         keep(await runSweepTask(t, () => report()), t);
         finishGroup(t);
@@ -342,12 +398,15 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
   } else {
     // a sweep worker's data are typed arrays outside the JavaScript heap: a small young generation
     // (4 MB instead of V8's default) lowers its resident memory without slowing it measurably
-    const pool = createWorkerPool<SweepJob, CellResult[] | TsnrResult>(new URL('./sweep-worker.js', import.meta.url), { size: Math.min(workers, jobCount), resourceLimits: { maxYoungGenerationSizeMb: 4 } });
+    const pool = createWorkerPool<SweepJob, CellResult[] | TsnrResult | NullResult>(new URL('./sweep-worker.js', import.meta.url), { size: Math.min(workers, jobCount), resourceLimits: { maxYoungGenerationSizeMb: 4 } });
     const timer = setInterval(report, 250);
     try {
-      // the short tSNR jobs first, then the groups
+      // the null designs first (a calibrated threshold needs them before any cell), with the tSNR jobs
+      const tsnrDone = tsnrTasks.map((t) => pool.run(t).then((out) => { tsnrByKey.set(t.key, out as TsnrResult); }));
+      await Promise.all(nullTasks.map((t) => pool.run(t).then((out) => { nullResults.push(out as NullResult); })));
+      useNull();
       await Promise.all([
-        ...tsnrTasks.map((t) => pool.run(t).then((out) => { tsnrByKey.set(t.key, out as TsnrResult); })),
+        ...tsnrDone,
         ...tasks.map((t) => pool.run(t).then((out) => { keep(out as CellResult[], t); finishGroup(t); report(); })),
       ]);
     } finally {
@@ -381,6 +440,18 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
     spec, plan: { settings: plan.settings, plants: plan.plants, splitAt: plan.splitAt, sweepKey: plan.sweepKey }, scorecard, curves,
     notes: [...notes.entries()].sort((a, b) => a[0] - b[0]).map(([settingIndex, ns]) => ({ settingIndex, notes: ns })),
     inputs: { runHash, contextHash }, shard,
+    designNorm: plantDesignNorm(spec.events.kind === 'run' ? events : randomBlockEvents(childSeed(spec.seed, 'events', 0), volume.dims[3] * volume.trSec, spec.events), volume.dims[3], volume.trSec, spec),
+    ...(nullResults.length ? { nullCalibration: nullResults.sort((a, b) => a.settingIndex - b.settingIndex).map((r) => nullCalibration(r, spec)) } : {}),
     stats: { cellsInPlan: plan.cells.length, cellsRun: total, cellsComputed: computed, cellsFromCache: fromCache, estimatesComputed, tasks: jobCount, workers: useThreads ? Math.min(workers, jobCount) : jobCount ? 1 : 0, wallSeconds: (performance.now() - t0) / 1000 },
+  };
+}
+
+/** A null task's result as the sweep reports it: the calibrated threshold and the measured rates. */
+function nullCalibration(r: NullResult, spec: SweepSpec): NullCalibration {
+  const calibrated = spec.threshold.kind === 'fwe-calibrated' ? calibratedCriticalValue(r.maxima, spec.threshold.alpha).threshold : null;
+  return {
+    settingIndex: r.settingIndex, designs: r.maxima.length, alpha: spec.threshold.alpha,
+    calibratedThreshold: calibrated, calibratedExceed: calibrated === null ? null : r.maxima.filter((m) => m >= calibrated).length,
+    rftBonferroniThreshold: r.rftBonferroniThreshold, rftBonferroniExceed: r.rftBonferroniExceed, smoothnessFwhmMm: r.smoothnessFwhmMm, maxima: r.maxima,
   };
 }

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { fail } from '../core/fail.js';
 import { DEFAULT_AR1_SMOOTH_FWHM_MM } from '../model/glm-ar1.js';
+import { minimumNullDesigns } from '../model/threshold-calibrated.js';
 
 /**
  * A sweep spec: what to run, what to vary, what to plant and how to judge it. The same object is
@@ -53,15 +54,45 @@ export interface AcquisitionSpec {
 
 /** How a statistic map is thresholded before scoring. */
 export interface ThresholdRule {
-  /** 'fwe-rft' random-field family-wise, 'fdr' Benjamini-Hochberg, 'uncorrected', 'bonferroni', 'cluster' extent. */
-  kind: 'fwe-rft' | 'fdr' | 'uncorrected' | 'bonferroni' | 'cluster';
+  /**
+   * 'fwe-rft' family-wise by the lesser of the random-field and Bonferroni values; 'fwe-calibrated'
+   * family-wise from the maximum statistic of `nullDesigns` null fits on the unplanted run, per setting;
+   * 'fdr' Benjamini-Hochberg; 'uncorrected'; 'bonferroni'; 'cluster' extent.
+   */
+  kind: 'fwe-rft' | 'fwe-calibrated' | 'fdr' | 'uncorrected' | 'bonferroni' | 'cluster';
   /** Family-wise or voxelwise error rate (all kinds but 'fdr'). __Default value:__ 0.05 */
   alpha: number;
   /** False discovery rate for 'fdr'. __Default value:__ 0.05 */
   q: number;
   /** Voxelwise p that forms clusters for 'cluster'. __Default value:__ 0.001 */
   clusterFormingP: number;
+  /**
+   * K, the null designs (random block designs, nothing planted) fitted to the unplanted run after each
+   * setting's recipe: they calibrate 'fwe-calibrated' and measure every rule's family-wise false-alarm
+   * rate on this run's noise. null: 100 for 'fwe-calibrated', none for the other rules (no measured
+   * rate). At least 19 for alpha 0.05 with 'fwe-calibrated'. __Default value:__ null
+   */
+  nullDesigns?: number | null;
 }
+
+/** Null designs fitted when a rule leaves `nullDesigns` out: enough for a 95th percentile to within a few %. */
+export const DEFAULT_NULL_DESIGNS = 100;
+
+/**
+ * How many null designs a sweep fits per setting.
+ * @param rule - the spec's threshold rule
+ * @returns K (0 = none)
+ * @example nullDesignCount({ kind: 'fwe-calibrated', alpha: 0.05, q: 0.05, clusterFormingP: 0.001 }) // 100
+ */
+export function nullDesignCount(rule: ThresholdRule): number {
+  return rule.nullDesigns ?? (rule.kind === 'fwe-calibrated' ? DEFAULT_NULL_DESIGNS : 0);
+}
+
+/**
+ * The random block design of the null fits when the spec's own events are the run's: blocks of 20 s
+ * with rests of 10 to 40 s, periods inside a 128 s high-pass filter's pass band.
+ */
+export const NULL_DESIGN = { onSec: 20, offMinSec: 10, offMaxSec: 40, trialType: 'null-task' } as const;
 
 /** Options of the statistical model fitted in every cell. */
 export interface ModelOptions {
@@ -136,10 +167,11 @@ export const sweepSpecSchema = z.object({
   }).strict(),
   repeats: z.number().int().min(1).max(100000),
   threshold: z.object({
-    kind: z.enum(['fwe-rft', 'fdr', 'uncorrected', 'bonferroni', 'cluster']),
+    kind: z.enum(['fwe-rft', 'fwe-calibrated', 'fdr', 'uncorrected', 'bonferroni', 'cluster']),
     alpha: z.number().gt(0).lt(1).default(0.05),
     q: z.number().gt(0).lt(1).default(0.05),
     clusterFormingP: z.number().gt(0).lt(1).default(0.001),
+    nullDesigns: z.number().int().nonnegative().max(100000).nullable().default(null),
   }).strict(),
   model: z.object({
     ar1: z.boolean().default(true),
@@ -178,6 +210,11 @@ export function parseSweepSpecShape(input: unknown): SweepSpec {
   }
   const spec = r.data as SweepSpec;
   if (spec.events.kind === 'random-blocks' && spec.events.offMaxSec < spec.events.offMinSec) fail('SPEC_INVALID', `events.offMaxSec (${spec.events.offMaxSec} s) must be at least events.offMinSec (${spec.events.offMinSec} s)`, { details: { fields: ['events.offMaxSec'] } });
+  const k = spec.threshold.nullDesigns;
+  if (k === 0) fail('NULL_DESIGNS_INVALID', 'threshold.nullDesigns is 0: no null design could calibrate a threshold or measure a false-alarm rate', { details: { fields: ['threshold.nullDesigns'] } });
+  if (spec.threshold.kind === 'fwe-calibrated' && nullDesignCount(spec.threshold) < minimumNullDesigns(spec.threshold.alpha)) {
+    fail('NULL_DESIGNS_INVALID', `threshold.nullDesigns is ${k}, but a calibrated threshold at alpha ${spec.threshold.alpha} needs at least ${minimumNullDesigns(spec.threshold.alpha)}`, { details: { fields: ['threshold.nullDesigns'] } });
+  }
   for (const [key, values] of Object.entries(spec.vary)) {
     if (!/^[A-Za-z][\w-]*\.[A-Za-z]\w*$/.test(key)) fail('SPEC_INVALID', `vary key "${key}" must look like "<step>.<parameter>", e.g. "smooth.fwhmMm"`, { details: { fields: [`vary.${key}`] } });
     const seen = new Set(values.map((v) => JSON.stringify(v)));

@@ -59,6 +59,8 @@ export interface SweepContext {
   stepModules: string[];
   /** What the recipe's steps estimated from the unplanted run: estimate key -> value (see plan.ts). */
   estimates: Record<string, unknown>;
+  /** settingIndex -> maximum t of each null design at that setting (for 'fwe-calibrated'); null when none were fitted. */
+  nullMaxima?: Record<number, number[]> | null;
 }
 
 /** One task: some cells of one group (usually all of them). */
@@ -135,5 +137,41 @@ export interface EstimateResult {
   seconds: number;
 }
 
+/**
+ * The null designs of one setting: the whole recipe with that setting on the unplanted run, then K
+ * random block designs fitted to it, each giving the maximum t in the brain mask.
+ */
+export interface NullTask {
+  kind: 'null';
+  index: number;
+  settingIndex: number;
+  /** The whole recipe with the setting filled in. */
+  steps: RecipeStep[];
+  /** Per step: key of its estimate (in `context.estimates`), or null. */
+  estimates: Array<string | null>;
+  /** Model options with the setting's model values. */
+  model: SweepSpec['model'];
+  /** Seeds of the K designs (the same for every setting, so settings are compared on the same designs). */
+  designSeeds: number[];
+  /** Block and rest durations of the designs. */
+  design: { onSec: number; offMinSec: number; offMaxSec: number; trialType: string };
+  context: SweepContext;
+}
+
+/** What a null task produced. */
+export interface NullResult {
+  settingIndex: number;
+  /** Maximum t over the scored voxels of each design, in design order. */
+  maxima: number[];
+  /** Threshold of the lesser of random-field and Bonferroni at alpha, from the first design's residual smoothness. */
+  rftBonferroniThreshold: number;
+  /** Designs whose maximum reached that threshold. */
+  rftBonferroniExceed: number;
+  /** Smoothness (geometric mean FWHM, mm) of the first design's residuals. */
+  smoothnessFwhmMm: number;
+  dof: number;
+  seconds: number;
+}
+
 /** Anything a sweep worker runs. */
-export type SweepJob = SweepTask | TsnrTask | EstimateTask;
+export type SweepJob = SweepTask | TsnrTask | EstimateTask | NullTask;

@@ -62,7 +62,7 @@ describe.skipIf(!CHROMIUM.path)('HTML report in headless Chromium', () => {
       const sized = marks.filter((m) => { const b = (m as SVGGraphicsElement).getBBox(); return b.width > 0 || b.height > 0; });
       return { id: f.id, width: box?.width ?? 0, height: box?.height ?? 0, marks: marks.length, sized: sized.length };
     }));
-    expect(charts.map((c) => c.id)).toEqual(['chart-detection', 'chart-false-alarms', 'chart-tsnr', 'chart-smoothness', 'chart-roc']);
+    expect(charts.map((c) => c.id)).toEqual(['chart-detection', 'chart-false-alarms', 'chart-tsnr', 'chart-smoothness', 'chart-theory', 'chart-roc']);
     for (const c of charts) {
       expect(c.width, c.id).toBeGreaterThan(100);
       expect(c.height, c.id).toBeGreaterThan(100);

@@ -25,12 +25,20 @@ describe('sweep spec shape', () => {
   it('fills defaults', () => {
     const s = parseSweepSpecShape(base);
     expect(s.version).toBe(1);
-    expect(s.threshold).toEqual({ kind: 'fwe-rft', alpha: 0.05, q: 0.05, clusterFormingP: 0.001 });
+    expect(s.threshold).toEqual({ kind: 'fwe-rft', alpha: 0.05, q: 0.05, clusterFormingP: 0.001, nullDesigns: null });
     expect(s.model).toEqual({ ar1: true, ar1SmoothFwhmMm: 15, highpassCutoffSec: 128, trialType: null, censorVolumes: [] });
     expect(s.events).toEqual({ kind: 'run' });
     expect(s.plant.marginMm).toBeNull();
     expect(s.plant.shape).toBe('gaussian');
     expect(s.workers).toBe(2);
+  });
+
+  it('refuses 0 null designs, and fewer than a calibrated threshold needs, with NULL_DESIGNS_INVALID', () => {
+    for (const threshold of [{ kind: 'fwe-rft', nullDesigns: 0 }, { kind: 'fwe-calibrated', nullDesigns: 0 }, { kind: 'fwe-calibrated', nullDesigns: 18 }]) {
+      expect(() => parseSweepSpecShape({ ...base, threshold })).toThrow(expect.objectContaining({ code: 'NULL_DESIGNS_INVALID' }));
+    }
+    // 19 is the fewest for alpha 0.05: the 19th of 19 maxima is exceeded by a new null maximum with probability 1/20
+    expect(parseSweepSpecShape({ ...base, threshold: { kind: 'fwe-calibrated', nullDesigns: 19 } }).threshold.nullDesigns).toBe(19);
   });
 
   it('lists every bad field in one SPEC_INVALID error', () => {
