@@ -38,7 +38,7 @@ export interface SettingEvidence {
  * separate them; the choice falls back to a metric that still does); 'tied' (every setting lies
  * within one standard error of the best: the sweep does not separate them).
  */
-export type ChoiceStatus = 'chosen' | 'no-detection' | 'saturated' | 'tied';
+export type ChoiceStatus = 'chosen' | 'no-detection' | 'saturated' | 'tied' | 'nothing-planted';
 
 /** The choice for one plant condition. */
 export interface PlantChoice {
@@ -158,6 +158,7 @@ const FALLBACK_METRICS = ['centreStatisticMean'];
 
 /** The one-SE choice, then its status: floor, ceiling (with the fallback metric) or tie. */
 function decide(rows: SettingSummary[], varied: string[], metric: string, prefer: 'smallest' | 'largest', fallbackMetric: string | null): PlantChoice {
+  if (!rows.some((r) => Number.isFinite(r.metrics[metric]?.mean))) return nullSweepChoice(rows, varied, metric);
   const first = choose(rows, varied, metric, prefer);
   const bounds = metricBounds(metric);
   const finiteEv = first.evidence.filter((e) => Number.isFinite(e.detection.mean));
@@ -180,6 +181,23 @@ function decide(rows: SettingSummary[], varied: string[], metric: string, prefer
     return { ...first, status: 'tied', advice: `No setting separates from the others: every mean ${metricWords(metric)} lies within one standard error of the best. Add repeats (now ${first.best.detection.n}) to narrow the intervals, or plant an amplitude (now ${amp}) where detection is neither rare nor certain.` };
   }
   return first;
+}
+
+/**
+ * A sweep that planted nothing measures false alarms only: no detection metric can rank its settings,
+ * so there is no choice; the evidence lists each setting's false clusters per run.
+ */
+function nullSweepChoice(rows: SettingSummary[], varied: string[], metric: string): PlantChoice {
+  const evidence: SettingEvidence[] = rows.map((s) => ({
+    settingIndex: s.settingIndex, setting: s.setting, label: settingText(s.setting),
+    detection: mi(s, metric)!, falseClusters: mi(s, 'falseClusters'), withinOneSe: false,
+  })).sort((a, b) => compareSettings(a.setting, b.setting, varied));
+  const list = evidence.map((e) => `${e.label}: ${e.falseClusters ? fmt(e.falseClusters.mean, 2) : 'n/a'}`).join('; ');
+  return {
+    plantSizeMm: rows[0].plantSizeMm, plantAmplitudePct: rows[0].plantAmplitudePct, status: 'nothing-planted', metric, fallback: null, atCeiling: [],
+    advice: `Nothing was planted (a null sweep), so the sweep measures false alarms, not detection: false clusters per run ${list}. Compare them (and the family-wise error column of the scorecard) with the threshold's nominal rate; to choose a setting by detection, plant activations (plant.count above 0).`,
+    chosen: evidence[0], best: evidence[0], cutoff: NaN, evidence,
+  };
 }
 
 function choose(rows: SettingSummary[], varied: string[], metric: string, prefer: 'smallest' | 'largest'): PlantChoice {
@@ -243,6 +261,8 @@ function summaryText(c: PlantChoice, requested: string, varied: string[], prefer
       : `every setting at or above ${fmt(c.cutoff)} counts as equally good, and the ${prefer} of them is chosen`;
   const falseText = fa ? ` False clusters per run at this setting: ${fmt(fa.mean, 2)} on average.` : '';
   switch (c.status) {
+    case 'nothing-planted':
+      return `No choice: ${c.advice}`;
     case 'no-detection':
       return `No choice: for ${plant}, no setting detected the planted activations (best mean ${metricWords(requested)} ${fmt(b.mean)}, at ${c.best.label}). ${c.advice}`;
     case 'saturated':

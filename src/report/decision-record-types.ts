@@ -52,10 +52,11 @@ export interface DecisionRecord {
     /**
      * How far the choice can be trusted: 'chosen'; 'no-detection' (the best mean at the metric's
      * floor); 'saturated' (several settings at its ceiling; `setting` then comes from `fallback.to`);
-     * 'tied' (every setting within one standard error of the best). Only 'chosen' reads "Use ...".
+     * 'tied' (every setting within one standard error of the best); 'nothing-planted' (a null sweep: it
+     * measures false alarms only). Only 'chosen' reads "Use ...".
      * Absent in records written before the status existed (read as 'chosen').
      */
-    status?: 'chosen' | 'no-detection' | 'saturated' | 'tied';
+    status?: 'chosen' | 'no-detection' | 'saturated' | 'tied' | 'nothing-planted';
     /** What to change in the sweep when the status is not 'chosen'. */
     advice?: string;
     /** When the requested metric saturated: the metric the choice fell back to, and why. */

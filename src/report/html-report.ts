@@ -100,6 +100,7 @@ function nullCalibrationSection(parts: ReportParts): string {
 function otherText(p: PlantChoice): string {
   const m = metricWords(p.metric);
   switch (p.status) {
+    case 'nothing-planted': return 'nothing planted (false alarms only)';
     case 'no-detection': return `nothing detected at any setting (best mean ${m} ${fmt(p.best.detection.mean)})`;
     case 'tied': return `no setting separates (best ${p.best.label} at ${fmt(p.best.detection.mean)}; all within one standard error)`;
     case 'saturated': return `${p.atCeiling.length} settings at the ceiling${p.fallback ? `; by the ${m}, ${p.chosen.label} (best ${p.best.label})` : ''}`;
@@ -111,6 +112,7 @@ function otherText(p: PlantChoice): string {
 const STATUS_HEADING: Record<PlantChoice['status'], string> = {
   chosen: 'Recommendation',
   'no-detection': 'No recommendation: nothing was detected',
+  'nothing-planted': 'No recommendation: nothing was planted (a null sweep measures false alarms)',
   saturated: 'No recommendation by detection: detection at its ceiling',
   tied: 'No clear recommendation: the settings do not separate',
 };

@@ -135,9 +135,13 @@ export function methodsText(r: DecisionRecord): MethodsText {
     : '';
   const status = choice.status ?? 'chosen';
   const requested = choice.fallback?.from ?? choice.metric;
-  const how = `In each of ${spec.repeats} repeats, ${plant}${placementText(r)}; every candidate setting (${candidates || 'one'}) was then applied, the model fitted and thresholded, and the detections compared with the planted truth (a planted voxel is one where the planted signal is at least half its peak).${ref}`;
+  const how = status === 'nothing-planted'
+    ? `In each of ${spec.repeats} repeats, ${plant}; every candidate setting (${candidates || 'one'}) was then applied, the model fitted and thresholded, and every surviving cluster counted as a false alarm.`
+    : `In each of ${spec.repeats} repeats, ${plant}${placementText(r)}; every candidate setting (${candidates || 'one'}) was then applied, the model fitted and thresholded, and the detections compared with the planted truth (a planted voxel is one where the planted signal is at least half its peak).${ref}`;
   let decision: string;
-  if (status === 'no-detection') {
+  if (status === 'nothing-planted') {
+    decision = `Nothing was planted: the sweep measured the false alarms of each setting on the run's own noise, and no setting is recommended from it.`;
+  } else if (status === 'no-detection') {
     decision = `No setting detected the planted activations: the best mean ${metricWords(choice.metric)} across repeats was ${num(choice.best.mean, 3)}, at ${settingText(choice.best.setting)}, so the simulation gives no basis for a choice at this amplitude and no setting is recommended.`;
   } else if (status === 'saturated') {
     decision = choice.fallback

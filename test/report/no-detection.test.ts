@@ -45,3 +45,31 @@ describe('a sweep that detects nothing', () => {
     expect(methods).not.toMatch(/was chosen:/);
   }, 300_000);
 });
+
+describe('a null sweep (nothing planted)', () => {
+  it('gives the status nothing-planted, lists false clusters per setting and recommends nothing', async () => {
+    const nullDir = mkdtempSync(join(tmpdir(), 'boldsweep-nullsweep-'));
+    try {
+      const sim = simulatePhantomRun(resolvePhantomSpec({ nVolumes: 60, dims: [30, 36, 24], spacingMm: [5, 5, 5], activation: null, seed: 8, anatomy: { supersample: 1 } }));
+      const files = await writePhantomRun(join(nullDir, 'data'), sim, 'sub-t03_task-rest');
+      const run = await openRun(files.bold);
+      const masks = { brain: { kind: 'otsu-mean' as const }, placement: { kind: 'brain' as const }, exclude: null };
+      const brainMask = await buildMask(masks.brain, run.volume);
+      const result = await runSweep(run, {
+        recipe: [{ step: 'smooth', params: { fwhmMm: 0 } }],
+        vary: { 'smooth.fwhmMm': [0, 8] },
+        plant: { sizesFwhmMm: [8], amplitudesPct: [0], count: 0 },
+        repeats: 2, threshold: { kind: 'fwe-rft' }, seed: 4,
+        events: { kind: 'random-blocks', onSec: 20, offMinSec: 20, offMaxSec: 40, trialType: 'null-task' },
+      }, { workers: 2, brainMask });
+      const written = await writeReport(join(nullDir, 'out'), { result, run: runFacts(run), masks });
+      expect(written.record.choice.status).toBe('nothing-planted');
+      expect(written.recommendation.summary).toMatch(/^No choice: Nothing was planted/);
+      expect(written.recommendation.summary).toMatch(/false clusters per run smoothing FWHM 0 mm: [0-9.]+; smoothing FWHM 8 mm: [0-9.]+/);
+      expect(written.methods.paragraphs.join(' ')).toMatch(/counted as a false alarm/);
+      expect(written.methods.paragraphs.join(' ')).not.toMatch(/was chosen/);
+    } finally {
+      rmSync(nullDir, { recursive: true, force: true });
+    }
+  });
+});
