@@ -57,7 +57,8 @@ export function readOutputMarker(dir: string): OutputMarker | null {
 /**
  * Check that boldsweep may write into a folder, then create it with its marker. Refused: the current
  * folder or one holding it; the folder of an input (or one holding an input), even with `force`; a
- * non-empty folder without boldsweep's marker unless `force`. Nothing is deleted here or later: a
+ * non-empty folder without boldsweep's marker unless `force` (folders inside it that carry the marker,
+ * such as a sweep's stage cache, count as boldsweep's). Nothing is deleted here or later: a
  * command writes only its own files and replaces only files named in the marker.
  * @param dir - the output folder
  * @param options - force, inputs, option name for messages
@@ -100,7 +101,11 @@ export function checkOutputFolder(dir: string, options: ClaimOptions = {}): stri
   }
   if (existsSync(abs)) {
     if (!statSync(abs).isDirectory()) fail('OUTPUT_NOT_OURS', `${opt} ${dir} is a file, not a folder`);
-    const entries = readdirSync(abs);
+    // folders boldsweep wrote inside it (a sweep's stage cache, with its own marker) are its own too
+    const entries = readdirSync(abs).filter((e) => {
+      const p = resolve(abs, e);
+      return !(statSync(p).isDirectory() && readOutputMarker(p));
+    });
     const marker = readOutputMarker(abs);
     if (entries.length > 0 && !marker && !options.force) {
       fail('OUTPUT_NOT_OURS', `${opt} ${dir} is not empty (${entries.length} entr${entries.length === 1 ? 'y' : 'ies'}, e.g. ${entries.slice(0, 3).join(', ')}) and was not written by boldsweep (no ${OUTPUT_MARKER})`);

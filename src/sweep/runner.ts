@@ -21,6 +21,7 @@ import type { SweepProgress } from './progress.js';
 import type { Scorecard, ScorecardRow } from './scorecard.js';
 import { parseShard, shardCells, type Shard } from './shard.js';
 import { sharedBytes } from './shared-volume.js';
+import { claimOutputFolder } from '../io/output-folder.js';
 import { acquisitionModel } from '../acquire/acquisition-model.js';
 import type { MotionRow } from '../acquire/rigid-motion-affine.js';
 import type { Vec3 } from '../core/affine.js';
@@ -247,6 +248,9 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
   const estimates: Record<string, unknown> = {};
   const estimateHashes: Record<string, string> = {};
   const cacheDir = options.cacheDir ?? null;
+  // the cache folder is boldsweep's own (it carries the output marker, so an output folder holding it
+  // can still be claimed); it only ever adds or replaces its own entries
+  if (cacheDir) await claimOutputFolder(cacheDir, { force: true, optionName: 'cacheDir' });
   // masks go to worker threads in shared memory (made once, shared by every task)
   const masks = options.inThisThread ? { brainMask, placementMask, scoreMask } : { brainMask: sharedBytes(brainMask), placementMask: sharedBytes(placementMask), scoreMask: sharedBytes(scoreMask) };
   const sharedField = fieldMapHz && !options.inThisThread ? sharedFloats(fieldMapHz) : fieldMapHz;
