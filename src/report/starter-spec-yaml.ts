@@ -91,8 +91,8 @@ export function starterSpecYaml(look: LookFolderFacts | null): string {
     : 'Volumes to censor (0-based, in the run as opened), e.g. abrupt changes a look found; each gets\nits own regressor, so it informs neither the effect nor the noise.');
   flowLists(doc, [['model', 'censorVolumes'], ['threshold'], ['events']]);
   note(doc, ['events'], 'Task timing: kind run uses the run\'s events file; kind random-blocks (onSec, offMinSec,\noffMaxSec) a new random block design per repeat, for a run without that task (e.g. rest).');
-  note(doc, ['acquisition'], 'How planted activations follow the acquisition. sliceTiming sidecar: each slice gets the planted\nresponse at its own acquisition time (SliceTiming in the sidecar), as a real response is sampled;\nnone: every slice at mid-volume. A motion table and a field map are given to "boldsweep sweep"\n(--motion-table, --field-map), not here.');
-  note(doc, ['acquisition', 'sliceTiming'], 'sidecar or none.');
+  note(doc, ['acquisition'], 'How planted activations follow the acquisition (a motion table and a field map are given to\nthe sweep command: --motion-table, --field-map).');
+  note(doc, ['acquisition', 'sliceTiming'], 'sidecar: each slice follows the task at its own acquisition time (the sidecar\'s SliceTiming);\nnone: every slice at mid-volume.');
   note(doc, ['seed'], 'Seed of every random choice: the same spec and seed give the same scorecard, byte for byte.');
   note(doc, ['workers'], 'Worker threads (the command\'s --workers overrides it).');
   return doc.toString({ lineWidth: 0 });

@@ -25,3 +25,4 @@ export { imageFwhmMm } from './image-fwhm.js';
 export { repeatedResampling } from './repeated-resampling.js';
 export type { RepeatedResamplingOptions, RepeatedResamplingResult, RepeatedResamplingRow } from './repeated-resampling.js';
 export { extendCoefficients } from './extend-coefficients.js';
+export { maskOnGrid } from './mask-on-grid.js';

@@ -13,4 +13,3 @@ export { effectBias } from './effect-bias.js';
 export type { EffectBias } from './effect-bias.js';
 export { DEFAULT_FPR_GRID, tprAtFpr, curveColumnName, curveTableToTsv, readCurveTableTsv, type CurveTable } from './curve-table.js';
 export { truthInFrame } from './truth-in-frame.js';
-export { maskOnGrid } from './mask-on-grid.js';

@@ -2,6 +2,7 @@ import type { BoundaryMode } from '../core/boundary-mode.js';
 import { fail } from '../core/fail.js';
 import type { Frame, Grid } from '../core/grid-frame.js';
 import { makeVolume } from '../core/volume.js';
+import { maskOnGrid } from '../resample/mask-on-grid.js';
 import { checkKernel, INTERPOLATION_KERNELS, LANCZOS_RADIUS, type InterpolationKernel } from '../resample/interpolation-kernel.js';
 import { sameGridWithin } from '../resample/plan-resample.js';
 import { resampleRun } from '../resample/resample-run.js';
@@ -87,13 +88,16 @@ export function resampleOutputFrame(params: ResampleStepParams, input: Frame, co
  * Preprocessing step: resample every volume onto a grid of another voxel size (same orientation,
  * same field of view), with a chosen kernel, in parallel over volumes (resampleRun). For the
  * input's own voxel size nothing moves: the data are copied and the frame stays the input's. The
- * context passes through unchanged except its `frame` (a brain mask in it stays on the input grid;
- * the sweep carries masks and the planted truth into the output frame).
+ * context passes on with the new `frame` and `grid`, and its brain mask carried onto the target grid
+ * (maskOnGrid: trilinear at the target voxel centres, kept at >= 0.5), so a later step that uses the
+ * mask (smoothing within it, percent signal change) works on the new grid; the sweep carries the
+ * planted truth and the scoring masks into the output frame.
  * @param volume - the run (not modified)
  * @param params - kernel, voxelSizeMm, mode
  * @param context - frame and grid of the input; outputBuffer used when the grid does not change
  * @returns the resampled run, its note, its frame, and the context with that frame
- * @throws BoldsweepError UNKNOWN_KERNEL, INVALID_ARGUMENT, TARGET_GRID_TOO_LARGE, NON_FINITE_VOXELS
+ * @throws BoldsweepError UNKNOWN_KERNEL, INVALID_ARGUMENT, TARGET_GRID_TOO_LARGE, NON_FINITE_VOXELS;
+ *   GRID_MISMATCH for a context mask that is not on the input grid
  * @example const { volume, frame } = await resampleStep(run.volume, { kernel: 'cubic', voxelSizeMm: 2 }, context)
  */
 export const resampleStep: StepFunction<ResampleStepParams> = async (volume, params, context) => {
@@ -103,6 +107,8 @@ export const resampleStep: StepFunction<ResampleStepParams> = async (volume, par
   const inputGrid: Grid = { dims: [volume.dims[0], volume.dims[1], volume.dims[2]], affine: volume.affine };
   const target = resampleTargetGrid(params, inputGrid);
   const same = sameGridWithin(target, inputGrid);
+  // checked before the (long) resampling: a mask on another grid than the input is a caller's error
+  const mask = context.mask && !same ? maskOnGrid(context.mask, inputGrid, target) : context.mask;
   let out;
   if (same) {
     const data = context.outputBuffer?.(volume.data.length) ?? new Float32Array(volume.data.length);
@@ -123,7 +129,7 @@ export const resampleStep: StepFunction<ResampleStepParams> = async (volume, par
   return {
     volume: out,
     frame,
-    context: { ...rest, frame, grid: { dims: [...target.dims], affine: new Float64Array(target.affine) } },
+    context: { ...rest, mask, frame, grid: { dims: [...target.dims], affine: new Float64Array(target.affine) } },
     note: {
       step: 'resample',
       params: { kernel, voxelSizeMm: params.voxelSizeMm ?? null, mode },

@@ -14,7 +14,7 @@ import type { Frame } from '../core/grid-frame.js';
 import { affineSpacing } from '../core/affine.js';
 import type { NuisanceRegressor } from '../model/design.js';
 import { getStep, parseStepParams } from '../steps/registry.js';
-import { maskOnGrid } from '../score/mask-on-grid.js';
+import { maskOnGrid } from '../resample/mask-on-grid.js';
 import { truthInFrame } from '../score/truth-in-frame.js';
 import { rocCurve } from '../score/roc-curve.js';
 import { scoreDetection } from '../score/score-detection.js';

@@ -2,7 +2,7 @@ import type { Frame, Grid } from '../core/grid-frame.js';
 import type { Volume } from '../core/volume.js';
 import { getStep, parseStepParams } from '../steps/registry.js';
 import type { StepContext, StepResult } from '../steps/step-types.js';
-import { maskOnGrid } from '../score/mask-on-grid.js';
+import { maskOnGrid } from '../resample/mask-on-grid.js';
 import type { RecipeStep } from './spec.js';
 
 /** A step's result as the sweep carries it on: its context always states the output's frame. */

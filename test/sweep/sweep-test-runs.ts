@@ -5,6 +5,9 @@ import { makeVolume, type Volume } from '../../src/core/volume.js';
 import { resolvePhantomSpec, simulatePhantomRun, TISSUE_LABEL } from '../../src/simulate/index.js';
 import { smoothGaussianField } from '../../src/simulate/smooth-gaussian-field.js';
 import type { BoldEvent, Sidecar } from '../../src/io/run-types.js';
+import type { MotionRow } from '../../src/acquire/rigid-motion-affine.js';
+import type { Vec3 } from '../../src/core/affine.js';
+import type { MotionSpec } from '../../src/simulate/simulated-motion-table.js';
 
 /** A small phantom run (5 mm voxels, 80 volumes, no built-in activation) and its grey matter. */
 export function smallPhantom(nVolumes = 80): { volume: Volume; events: BoldEvent[]; sidecar: Sidecar | null; greyMatter: Uint8Array } {
@@ -12,6 +15,19 @@ export function smallPhantom(nVolumes = 80): { volume: Volume; events: BoldEvent
   const gm = new Uint8Array(r.truth.tissueLabels.data.length);
   r.truth.tissueLabels.data.forEach((l, i) => { gm[i] = l === TISSUE_LABEL['grey-matter'] ? 1 : 0; });
   return { volume: r.volume, events: r.events, sidecar: r.sidecar, greyMatter: gm };
+}
+
+/**
+ * The small phantom with its head moving as `motion` says (its slow wander, then a jerk), with the
+ * motion table and rotation centre the simulation used (so planting can follow the same poses), its
+ * grey matter and its brain (grey + white matter + CSF), both in the head's reference position.
+ */
+export function movingPhantom(motion: MotionSpec, nVolumes = 80): ReturnType<typeof smallPhantom> & { brain: Uint8Array; motionTable: MotionRow[]; rotationCentreMm: Vec3 } {
+  const r = simulatePhantomRun(resolvePhantomSpec({ nVolumes, dims: [30, 36, 24], spacingMm: [5, 5, 5], activation: null, seed: 3, anatomy: { supersample: 1 }, motion }));
+  const labels = r.truth.tissueLabels.data;
+  const gm = Uint8Array.from(labels, (l) => (l === TISSUE_LABEL['grey-matter'] ? 1 : 0));
+  const brain = Uint8Array.from(labels, (l) => (l === TISSUE_LABEL['grey-matter'] || l === TISSUE_LABEL['white-matter'] || l === TISSUE_LABEL.csf ? 1 : 0));
+  return { volume: r.volume, events: r.events, sidecar: r.sidecar, greyMatter: gm, brain, motionTable: r.truth.motionTable, rotationCentreMm: r.truth.rotationCentreMm };
 }
 
 /**

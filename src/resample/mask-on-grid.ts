@@ -1,7 +1,7 @@
 import { composeAffine, invertAffine } from '../core/affine.js';
 import { fail } from '../core/fail.js';
 import type { Grid } from '../core/grid-frame.js';
-import { trilinearResample } from '../resample/trilinear-resample.js';
+import { trilinearResample } from './trilinear-resample.js';
 
 /**
  * Carry a 0/1 mask from one grid onto another in the same world space: the mask is interpolated
