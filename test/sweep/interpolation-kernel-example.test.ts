@@ -55,7 +55,8 @@ describe('examples/interpolation-kernel.yaml', () => {
     expect(spec.recipe.map((r) => r.step)).toEqual(['drop-initial-volumes', 'resample', 'smooth']);
   });
 
-  it('completes a 1-repeat run on the demo run with every setting resampled (nearest and lanczos3)', async () => {
+  // outside CI; CI runs the whole example below instead
+  it.skipIf(process.env.CI)('completes a 1-repeat run on the demo run with every setting resampled (nearest and lanczos3)', async () => {
     const { spec, result } = await sweepExample({ repeats: 1, count: 2, kernels: ['nearest', 'lanczos3'] });
     checkResampled(spec, result);
   }, 600_000);
