@@ -19,6 +19,9 @@ import { shareVolume } from '../sweep/shared-volume.js';
 import { terminalProgress } from '../sweep/terminal-progress.js';
 import { FORCE_HELP, positiveInt, withExitCodes } from './cli-common.js';
 
+
+/** Null designs per setting in the demo sweep (measured family-wise rate in the report). */
+const DEMO_NULL_DESIGNS = 20;
 /** File name stem of the demo run in data-demo/. */
 export const DEMO_RUN_STEM = 'sub-phantom01_task-flicker';
 
@@ -73,8 +76,11 @@ export async function runDemo(o: DemoCliOptions): Promise<void> {
   const placementMask = await buildMask(masks.placement, run.volume, { brain: brainMask });
   const excludeMask = masks.exclude ? await buildMask(masks.exclude, run.volume) : undefined;
 
-  // 3. the default smoothing sweep
-  const spec = defaultSmoothingSpec({ dropInitialVolumes: drop, censorVolumes: censor, repeats: o.repeats, workers: o.workers });
+  // 3. the default smoothing sweep, with null designs
+  const base = defaultSmoothingSpec({ dropInitialVolumes: drop, censorVolumes: censor, repeats: o.repeats, workers: o.workers });
+  // 20 null designs per width measure the threshold's family-wise rate on this run's own noise (the
+  // report's nominal-against-measured table); 19 is the least that holds a 95th percentile
+  const spec = { ...base, threshold: { ...base.threshold, nullDesigns: DEMO_NULL_DESIGNS } };
   console.log(`sweep: smoothing FWHM ${spec.vary['smooth.fwhmMm'].join(', ')} mm x ${spec.repeats} plantings of ${spec.plant.count} blobs (${spec.plant.sizesFwhmMm.join(', ')} mm FWHM, ${spec.plant.amplitudesPct.join(', ')} %)${drop ? `, after dropping ${drop} initial volumes` : ''}${censor.length ? `, censoring volumes ${censor.join(', ')}` : ''}`);
   await claimOutputFolder(o.out, write);
   await addOutputFiles(o.out, ['cache/']);
