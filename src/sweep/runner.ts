@@ -6,10 +6,9 @@ import type { BoldEvent, Sidecar } from '../io/run-types.js';
 import { brainMaskFromMean } from '../look/brain-mask.js';
 import { meanImage } from '../look/mean-image.js';
 import type { StepNote } from '../steps/step-types.js';
-import { runEstimateTask, runNullTask, runSweepTask, runTsnrTask } from './cell-pipeline.js';
 import { stepModules } from '../steps/registry.js';
 import { calibratedCriticalValue } from '../model/threshold-calibrated.js';
-import { childSeed } from '../core/random.js';
+import { childSeed } from '../core/child-seed.js';
 import { NULL_DESIGN, nullDesignCount } from './spec.js';
 import { plantDesignNorm } from './plant-design-norm.js';
 import { randomBlockEvents } from './random-block-events.js';
@@ -29,6 +28,13 @@ import type { SweepSpec, SweepSpecInput } from './spec.js';
 import { stableHash } from './stable-hash.js';
 import { readCachedCell, readCachedEstimate, readCachedTsnr, removeGroupStage } from './stage-cache.js';
 import { releaseWorkBuffer } from './work-buffer.js';
+
+/**
+ * The cell pipeline, loaded only when tasks run in this thread: with worker threads the main thread
+ * never runs a cell, so it does not hold the pipeline's code (statistics and random generators, about
+ * 10 MB resident) while the sweep runs.
+ */
+const cellPipeline = () => import('./cell-pipeline.js');
 import type { CellResult, EstimateResult, EstimateTask, NullResult, NullTask, SweepContext, SweepJob, SweepTask, TsnrResult, TsnrTask } from './sweep-task.js';
 
 /*
@@ -269,6 +275,7 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
     const keepEstimate = (r: EstimateResult) => { estimates[r.key] = r.value; estimateHashes[r.key] = r.hash; estimatesComputed++; };
     if (todoNow.length === 0) continue;
     if (options.inThisThread) {
+      const { runEstimateTask } = await cellPipeline();
       for (const t of todoNow) keepEstimate(await runEstimateTask(t));
     } else {
       const pool = createWorkerPool<SweepJob, EstimateResult>(new URL('./sweep-worker.js', import.meta.url), { size: Math.min(workers, todoNow.length) });
@@ -384,6 +391,7 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
     if (left === 0 && cacheDir && !options.keepStages) removeGroupStage(cacheDir, t.group.key);
   };
   if (!useThreads) {
+    const { runNullTask, runSweepTask, runTsnrTask } = await cellPipeline();
     try {
       for (const t of tsnrTasks) tsnrByKey.set(t.key, await runTsnrTask(t));
       for (const t of nullTasks) nullResults.push(await runNullTask(t));
