@@ -5,7 +5,6 @@ import { openRun } from '../io/open-run.js';
 import { checkOutputFolder } from '../io/output-folder.js';
 import { lookAtRun, type LookOptions } from '../look/look-at-run.js';
 import { lookConsoleLines } from '../look/look-console-lines.js';
-import { writeLookFolder } from '../report/write-look-folder.js';
 import { FORCE_HELP, finiteNumber, nonNegativeInt, positiveNumber, withExitCodes } from './cli-common.js';
 
 interface LookCliOptions {
@@ -61,6 +60,8 @@ Example:
       if (opts.mask) options.mask = (await readNifti(opts.mask)).volume;
       const look = lookAtRun(run, options);
       const source = run.files.image ?? path;
+      // the figure code (vega, vega-lite) loads only now: no other command holds it
+      const { writeLookFolder } = await import('../report/write-look-folder.js');
       const files = await writeLookFolder(run.volume, look, opts.out, { source, sourceSha256: await hashFile(source), figures: opts.figures, force: opts.force, inputs: [path, opts.mask] });
       console.log(lookConsoleLines(look, path).join('\n'));
       console.log(`recommendation: drop ${look.recommendation.dropInitialVolumes} initial volume(s); censor ${look.recommendation.censorVolumes.length ? look.recommendation.censorVolumes.join(', ') : 'none'}`);

@@ -1,6 +1,5 @@
 import { InvalidArgumentError, type Command } from 'commander';
 import { readSweepFolder } from '../report/sweep-folder.js';
-import { writeReport } from '../report/write-report.js';
 import { RESEARCH_CAUTION } from '../report/caution.js';
 import { positiveNumber, withExitCodes } from './cli-common.js';
 
@@ -37,6 +36,9 @@ Example:
   (then open sweep-sub-01/report.html; methods.md holds the methods paragraph)`)
     .action(async (dir: string, o: ReportCliOptions) => {
       const folder = readSweepFolder(dir);
+      // the report and chart code (vega, vega-lite) loads only when this command runs, so the other
+      // commands (a sweep above all) do not hold it
+      const { writeReport } = await import('../report/write-report.js');
       const { recommendation, files } = await writeReport(dir, folder, { metric: o.metric, targetSizeMm: o.targetSize, prefer: o.prefer }, { force: o.force, inputs: [] });
       console.log(recommendation.summary);
       console.log(`wrote ${files.report}, ${files.methods}, ${files.record}`);

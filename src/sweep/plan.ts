@@ -1,4 +1,4 @@
-import { childSeed } from '../core/random.js';
+import { childSeed } from '../core/child-seed.js';
 import { getStep } from '../steps/registry.js';
 import { settingsGrid, type Setting } from './settings-grid.js';
 import type { RecipeStep, SweepSpec } from './spec.js';
