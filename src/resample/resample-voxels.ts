@@ -206,6 +206,7 @@ const rowCubic: Row = (input, out, p0, count, x, y, z) => {
   // mode it is clamped first: both leave such positions to the generic path
   const e = input.margin ?? 0, constant = input.mode === 'constant' || input.mode === 'nearest';
   const lo = e, hx = nx - 1 - e, hy = ny - 1 - e, hz = nz - 1 - e;
+  const cvalOutside = input.mode === 'constant' && input.pad === 0, cval = input.cval;
   for (let i = 0, p = p0; i < count; i++, p++, x += m[0], y += m[4], z += m[8]) {
     let px = x, py = y, pz = z;
     if (disp !== null) { px += disp[3 * p]; py += disp[3 * p + 1]; pz += disp[3 * p + 2]; }
@@ -242,6 +243,9 @@ const rowCubic: Row = (input, out, p0, count, x, y, z) => {
       r3 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3];
       s += z3 * (y0 * r0 + y1 * r1 + y2 * r2 + y3 * r3);
       out[p] = s;
+    } else if (cvalOutside && !(px >= lo && px <= hx && py >= lo && py <= hy && pz >= lo && pz <= hz)) {
+      // constant mode, outside the grid proper: cval, as foldCoordinate decides, without the generic call
+      out[p] = cval;
     } else {
       out[p] = generic(input, px, py, pz);
     }

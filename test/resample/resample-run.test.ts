@@ -140,4 +140,14 @@ describe('bad input: typed errors that say what to do', () => {
     expect(code(() => resampleVolume(bad, { kernel: 'cubic' }))).toBe('NON_FINITE_VOXELS');
     expect(() => resampleVolume(bad, { kernel: 'cubic' })).toThrow(/voxel \[3, 0, 0\] of volume 1.*nonFinite: 'zero'/);
   });
+  it('refuses NaN and Inf found by the worker threads (each scans its own volumes), naming the first and counting all', async () => {
+    // above RESAMPLE_RUN_IN_THREAD_BELOW output values, so the volumes go to worker threads
+    const big = noisyRun([64, 64, 16, 16], 11);
+    const n = 64 * 64 * 16;
+    big.data[12 * n + 5] = Infinity; big.data[9 * n + 64 + 2] = NaN; big.data[9 * n + 70] = -Infinity;
+    const err = await resampleRun(big, { kernel: 'linear', workers: 2 }).then(() => null, (e: unknown) => e);
+    expect(err).toBeInstanceOf(BoldsweepError);
+    expect((err as BoldsweepError).code).toBe('NON_FINITE_VOXELS');
+    expect((err as BoldsweepError).message).toMatch(/holds 3 NaN or infinite values \(first at voxel \[2, 1, 0\] of volume 9\)/);
+  });
 });
