@@ -3,6 +3,7 @@ import { composeAffine, invertAffine, type Affine } from '../core/affine.js';
 import { fail } from '../core/fail.js';
 import type { Volume } from '../core/volume.js';
 import { defaultWorkerCount, sharedWorkerPool } from '../core/worker-pool.js';
+import type { NonFiniteScan } from '../io/non-finite.js';
 import { checkInvertible } from './target-grid.js';
 import { planResample, type ResampleOptions } from './plan-resample.js';
 import { checkFiniteRun, volumeOnTarget } from './resample-volume.js';
@@ -52,7 +53,6 @@ export async function resampleRun(run: Volume, options: ResampleRunOptions): Pro
       return composeAffine(sourceFromWorld, composeAffine(a, plan.grid.affine));
     });
   }
-  checkFiniteRun(run);
   const [ox, oy, oz] = plan.grid.dims;
   const m = ox * oy * oz;
   const base: Omit<ResampleVolumesTask, 'input' | 'output' | 'tStart' | 'tEnd'> = {
@@ -60,6 +60,7 @@ export async function resampleRun(run: Volume, options: ResampleRunOptions): Pro
     kernel: plan.kernel, mode: plan.mode, cval: plan.cval,
   };
   if (workers === 1 || nt < 2 || m * nt < RESAMPLE_RUN_IN_THREAD_BELOW) {
+    checkFiniteRun(run);
     const output = new Float32Array(m * nt);
     resampleVolumesTask({ ...base, input: run.data, output, tStart: 0, tEnd: nt });
     return volumeOnTarget(plan, run, output);
@@ -74,16 +75,19 @@ export async function resampleRun(run: Volume, options: ResampleRunOptions): Pro
     shared.set(displacementVox);
     displacementVox = shared;
   }
-  const pool = sharedWorkerPool<ResampleVolumesTask, number>(new URL('./resample-worker.js', import.meta.url), workers);
+  // the workers scan their own volumes for NaN/Inf (resampleCheckedVolumes) and the run is refused after
+  const pool = sharedWorkerPool<ResampleVolumesTask, NonFiniteScan>(new URL('./resample-worker.js', import.meta.url), workers);
   // several chunks per worker so a slow thread does not hold up the end; each chunk is copied into
   // shared memory just before it is queued, so workers start while the rest is still being copied
   const chunk = Math.max(1, Math.ceil(nt / (workers * 4)));
-  const jobs: Promise<number>[] = [];
+  const jobs: Promise<NonFiniteScan>[] = [];
   for (let t = 0; t < nt; t += chunk) {
     const tEnd = Math.min(nt, t + chunk);
     if (!alreadyShared) input.set(run.data.subarray(t * n, tEnd * n), t * n);
     jobs.push(pool.run({ ...base, displacementVox, input, output, tStart: t, tEnd }));
   }
-  await Promise.all(jobs);
+  const scans = await Promise.all(jobs);
+  const bad = scans.filter((s) => s.count > 0);
+  if (bad.length > 0) checkFiniteRun(run, { count: bad.reduce((a, s) => a + s.count, 0), firstIndex: Math.min(...bad.map((s) => s.firstIndex)) });
   return volumeOnTarget(plan, run, output);
 }

@@ -1,7 +1,7 @@
 import { affineSpacing } from '../core/affine.js';
 import { fail } from '../core/fail.js';
 import { makeVolume, type Volume } from '../core/volume.js';
-import { scanNonFinite } from '../io/non-finite.js';
+import { scanNonFinite, type NonFiniteScan } from '../io/non-finite.js';
 import { planResample, type ResampleOptions, type ResamplePlan } from './plan-resample.js';
 import { resampleVolumesTask } from './resample-volumes-task.js';
 
@@ -9,12 +9,13 @@ import { resampleVolumesTask } from './resample-volumes-task.js';
  * Refuse a run holding NaN or infinite values (they would spread through every kernel wider than
  * one voxel).
  * @param volume - the run
+ * @param scan - its non-finite values when already counted (resampleRun's worker threads scan their
+ *   own volumes), else the run is scanned here
  * @returns nothing
  * @throws BoldsweepError NON_FINITE_VOXELS naming how many and the first one
  * @example checkFiniteRun(run.volume)
  */
-export function checkFiniteRun(volume: Volume): void {
-  const scan = scanNonFinite(volume.data, false);
+export function checkFiniteRun(volume: Volume, scan: NonFiniteScan = scanNonFinite(volume.data, false)): void {
   if (scan.count > 0) {
     const n = volume.dims[0] * volume.dims[1] * volume.dims[2];
     const t = Math.floor(scan.firstIndex / n), v = scan.firstIndex % n;

@@ -28,9 +28,16 @@ export interface ResampleVolumesTask {
 
 let coefficientScratch: Float64Array | undefined;
 let extendedScratch: Float64Array | undefined;
+let extendedVoxelScratch: Float32Array | undefined;
 
 /** Planes of extended coefficients each side for the cubic kernel: positions up to the grid's edge then read them directly. */
 const CUBIC_MARGIN = 2;
+/**
+ * Planes of extended voxels each side for the linear kernel: a position in the last cell of an axis
+ * (up to n - 1) then takes the fast path too. Without them that shell (about a tenth of a
+ * 64 x 64 x 36 volume under a small rotation) went through the generic taps and took most of the time.
+ */
+const LINEAR_MARGIN = 1;
 
 /**
  * Run a {@link ResampleVolumesTask}: per volume, the cubic prefilter (into a scratch kept between
@@ -54,6 +61,10 @@ export function resampleVolumesTask(task: ResampleVolumesTask): number {
       const x = extendCoefficients(c.coefficients, c.dims, task.mode, CUBIC_MARGIN, extendedScratch);
       extendedScratch = x.values;
       source = x.values; sourceDims = x.dims; pad = c.pad; margin = CUBIC_MARGIN;
+    } else if (task.kernel === 'linear') {
+      const x = extendCoefficients(volume, task.sourceDims, task.mode, LINEAR_MARGIN, extendedVoxelScratch);
+      extendedVoxelScratch = x.values;
+      source = x.values; sourceDims = x.dims; margin = LINEAR_MARGIN;
     }
     const map = task.srcFromOut.length === 1 ? task.srcFromOut[0] : task.srcFromOut[t];
     resampleVoxels({ source, sourceDims, pad, margin, srcFromOut: map, displacementVox: task.displacementVox, outDims: task.outDims, kernel: task.kernel, mode: task.mode, cval: task.cval }, task.output.subarray(m * t, m * (t + 1)));

@@ -165,27 +165,39 @@ const rowGeneric: Row = (input, out, p0, count, x, y, z) => {
 };
 
 const rowLinear: Row = (input, out, p0, count, x, y, z) => {
-  const m = input.srcFromOut, disp = input.displacementVox ?? null, src = input.source;
+  const m = input.srcFromOut, disp = input.displacementVox ?? null, src = input.source as Float32Array;
   const nx = input.sourceDims[0], ny = input.sourceDims[1], nz = input.sourceDims[2], sxy = nx * ny;
-  const hx = nx - 1, hy = ny - 1, hz = nz - 1;
-  for (let i = 0, p = p0; i < count; i++, p++, x += m[0], y += m[4], z += m[8]) {
+  // fast-path bounds: both taps of every axis inside the array; with a margin (extendCoefficients) a
+  // position up to the grid's last voxel reads it directly, and in constant and nearest mode a
+  // position outside the grid proper is left to the generic path (cval, or the clamped position)
+  const e = input.margin ?? 0, edge = input.mode === 'constant' || input.mode === 'nearest';
+  const lx = edge ? e : 0, ly = lx, lz = lx;
+  const hx = edge ? Math.min(nx - 2, nx - 1 - e) : nx - 2, hy = edge ? Math.min(ny - 2, ny - 1 - e) : ny - 2, hz = edge ? Math.min(nz - 2, nz - 1 - e) : nz - 2;
+  // constant mode: a position outside the grid proper (the array without its margin) is cval, as
+  // foldCoordinate decides, without the generic path's call
+  const constant = input.mode === 'constant', cval = input.cval;
+  const gx = nx - 1 - e, gy = ny - 1 - e, gz = nz - 1 - e;
+  const dx = m[0], dy = m[4], dz = m[8];
+  for (let p = p0, end = p0 + count; p < end; p++, x += dx, y += dy, z += dz) {
     let px = x, py = y, pz = z;
     if (disp !== null) { px += disp[3 * p]; py += disp[3 * p + 1]; pz += disp[3 * p + 2]; }
-    // interior: both taps of every axis inside the grid (positions >= 0, so truncation is floor)
-    if (px >= 0 && px < hx && py >= 0 && py < hy && pz >= 0 && pz < hz) {
-      const i0 = px | 0, j0 = py | 0, k0 = pz | 0;
-      const fx = px - i0, fy = py - j0, fz = pz - k0;
-      const q = i0 + nx * j0 + sxy * k0;
-      const a = src[q], b = src[q + 1], c = src[q + nx], d = src[q + nx + 1];
-      const e = src[q + sxy], f = src[q + sxy + 1], g = src[q + sxy + nx], h = src[q + sxy + nx + 1];
-      const ab = a + fx * (b - a), cd = c + fx * (d - c), ef = e + fx * (f - e), gh = g + fx * (h - g);
-      const lo = ab + fy * (cd - ab), hi = ef + fy * (gh - ef);
-      out[p] = lo + fz * (hi - lo);
-    } else {
-      out[p] = generic(input, px, py, pz);
-    }
+    if (px >= lx && px <= hx && py >= ly && py <= hy && pz >= lz && pz <= hz) out[p] = trilinear(src, nx, sxy, px, py, pz);
+    else if (constant && !(px >= e && px <= gx && py >= e && py <= gy && pz >= e && pz <= gz)) out[p] = cval;
+    else out[p] = generic(input, px, py, pz);
   }
 };
+
+/** Trilinear value at a position (>= 0, so truncation is floor) whose eight taps are inside `src`. */
+function trilinear(src: Float32Array, nx: number, sxy: number, px: number, py: number, pz: number): number {
+  const i0 = px | 0, j0 = py | 0, k0 = pz | 0;
+  const fx = px - i0, fy = py - j0, fz = pz - k0;
+  const q = i0 + nx * j0 + sxy * k0;
+  const a = src[q], b = src[q + 1], c = src[q + nx], d = src[q + nx + 1];
+  const e = src[q + sxy], f = src[q + sxy + 1], g = src[q + sxy + nx], h = src[q + sxy + nx + 1];
+  const ab = a + fx * (b - a), cd = c + fx * (d - c), ef = e + fx * (f - e), gh = g + fx * (h - g);
+  const lo = ab + fy * (cd - ab), hi = ef + fy * (gh - ef);
+  return lo + fz * (hi - lo);
+}
 
 const rowCubic: Row = (input, out, p0, count, x, y, z) => {
   const m = input.srcFromOut, disp = input.displacementVox ?? null, src = input.source;
@@ -194,6 +206,7 @@ const rowCubic: Row = (input, out, p0, count, x, y, z) => {
   // mode it is clamped first: both leave such positions to the generic path
   const e = input.margin ?? 0, constant = input.mode === 'constant' || input.mode === 'nearest';
   const lo = e, hx = nx - 1 - e, hy = ny - 1 - e, hz = nz - 1 - e;
+  const cvalOutside = input.mode === 'constant' && input.pad === 0, cval = input.cval;
   for (let i = 0, p = p0; i < count; i++, p++, x += m[0], y += m[4], z += m[8]) {
     let px = x, py = y, pz = z;
     if (disp !== null) { px += disp[3 * p]; py += disp[3 * p + 1]; pz += disp[3 * p + 2]; }
@@ -230,6 +243,9 @@ const rowCubic: Row = (input, out, p0, count, x, y, z) => {
       r3 = x0 * src[q] + x1 * src[q + 1] + x2 * src[q + 2] + x3 * src[q + 3];
       s += z3 * (y0 * r0 + y1 * r1 + y2 * r2 + y3 * r3);
       out[p] = s;
+    } else if (cvalOutside && !(px >= lo && px <= hx && py >= lo && py <= hy && pz >= lo && pz <= hz)) {
+      // constant mode, outside the grid proper: cval, as foldCoordinate decides, without the generic call
+      out[p] = cval;
     } else {
       out[p] = generic(input, px, py, pz);
     }

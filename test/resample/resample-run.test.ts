@@ -42,6 +42,21 @@ describe('resampleRun and resampleVolume', () => {
     }
   });
 
+  it('give the same bytes in worker threads and in the calling thread on a run large enough for the workers, in every mode', async () => {
+    // 64 x 64 x 16 x 16 = 1,048,576 output values: above RESAMPLE_RUN_IN_THREAD_BELOW, so resampleRun
+    // really sends the volumes to worker threads (the run above stays in the calling thread)
+    const big = noisyRun([64, 64, 16, 16], 5);
+    const turn = rotationZ(3, [4, -2, 1]);
+    for (const kernel of ['linear', 'cubic'] as const) {
+      for (const mode of ['constant', 'nearest', 'mirror', 'reflect', 'wrap'] as const) {
+        const one = resampleVolume(big, { kernel, transform: turn, mode });
+        const many = await resampleRun(big, { kernel, transform: turn, mode, workers: 2 });
+        expect(many.data.buffer).toBeInstanceOf(SharedArrayBuffer);
+        expect(Buffer.from(many.data.buffer, many.data.byteOffset, many.data.byteLength).equals(Buffer.from(one.data.buffer, one.data.byteOffset, one.data.byteLength))).toBe(true);
+      }
+    }
+  });
+
   it('linear resampling agrees with the phantom trilinear resampler (two routes to the same voxel map)', () => {
     const out = resampleVolume(run, { kernel: 'linear', transform: rotation, mode: 'nearest' });
     const n = 24 * 22 * 16;
@@ -139,5 +154,15 @@ describe('bad input: typed errors that say what to do', () => {
     const bad = makeVolume({ ...run, data });
     expect(code(() => resampleVolume(bad, { kernel: 'cubic' }))).toBe('NON_FINITE_VOXELS');
     expect(() => resampleVolume(bad, { kernel: 'cubic' })).toThrow(/voxel \[3, 0, 0\] of volume 1.*nonFinite: 'zero'/);
+  });
+  it('refuses NaN and Inf found by the worker threads (each scans its own volumes), naming the first and counting all', async () => {
+    // above RESAMPLE_RUN_IN_THREAD_BELOW output values, so the volumes go to worker threads
+    const big = noisyRun([64, 64, 16, 16], 11);
+    const n = 64 * 64 * 16;
+    big.data[12 * n + 5] = Infinity; big.data[9 * n + 64 + 2] = NaN; big.data[9 * n + 70] = -Infinity;
+    const err = await resampleRun(big, { kernel: 'linear', workers: 2 }).then(() => null, (e: unknown) => e);
+    expect(err).toBeInstanceOf(BoldsweepError);
+    expect((err as BoldsweepError).code).toBe('NON_FINITE_VOXELS');
+    expect((err as BoldsweepError).message).toMatch(/holds 3 NaN or infinite values \(first at voxel \[2, 1, 0\] of volume 9\)/);
   });
 });
