@@ -15,3 +15,4 @@ export { distortLines } from './distort-lines.js';
 export { interleavedSliceTiming } from './interleaved-slice-timing.js';
 export { sequentialSliceTiming } from './sequential-slice-timing.js';
 export { checkSliceTimes } from './check-slice-times.js';
+export { sliceOrderTiming, SLICE_ORDERS, type SliceOrder } from './slice-order-timing.js';

@@ -8,6 +8,8 @@ import { MAX_FWHM_MM, smoothStep, type SmoothStepParams } from './smooth-step.js
 import { INTERPOLATION_KERNELS, type InterpolationKernel } from '../resample/interpolation-kernel.js';
 import { kernelSimplicity, resampleOutputFrame, resampleStep, type ResampleStepParams } from './resample-step.js';
 import { detrendStep, highpassStep, type DetrendParams, type HighpassParams } from './temporal-filter.js';
+import { SLICE_TIME_METHODS, sliceTimeStep, type SliceTimeMethod, type SliceTimeParams } from './slice-time-step.js';
+import { SLICE_ORDERS, type SliceOrder } from '../acquire/slice-order-timing.js';
 
 // Schemas check types and fixed ranges; limits that depend on the run (FOV, number of volumes)
 // are checked by the steps themselves.
@@ -98,9 +100,40 @@ const dropInitialVolumes: StepDefinition<DropInitialVolumesParams> = {
   describe: (p) => `drop ${p.count} volumes`,
 };
 
+const sliceTimeMethods = SLICE_TIME_METHODS as unknown as [SliceTimeMethod, ...SliceTimeMethod[]];
+const sliceOrders = SLICE_ORDERS as unknown as [SliceOrder, ...SliceOrder[]];
+// data left as acquired < two taps < four taps < every sample
+const SLICE_TIME_SIMPLICITY: Record<SliceTimeMethod, number> = { model: 0, linear: 1, cubic: 2, fourier: 3 };
+
+const sliceTime: StepDefinition<SliceTimeParams> = {
+  schema: z.object({
+    method: z.enum(sliceTimeMethods).default('fourier'),
+    reference: z.union([
+      z.literal('middle'),
+      z.object({ slice: z.number().int().min(0) }).strict(),
+      z.object({ timeSec: z.number().finite().min(0) }).strict(),
+    ]).default('middle'),
+    order: z.enum(sliceOrders).optional(),
+    multibandFactor: z.number().int().min(1).default(1),
+  }).strict(),
+  version: 1,
+  kind: 'temporal',
+  apply: sliceTimeStep,
+  labels: {
+    method: { name: 'slice-timing method', unit: '' }, reference: { name: 'slice-timing reference', unit: '' },
+    order: { name: 'slice order', unit: '' }, multibandFactor: { name: 'multiband factor', unit: '' },
+  },
+  simplicity: (p) => SLICE_TIME_SIMPLICITY[p.method ?? 'fourier'],
+  describe: (p) => {
+    const r = p.reference ?? 'middle';
+    const ref = r === 'middle' ? '' : 'slice' in r ? ` to slice ${r.slice}` : ` to ${r.timeSec} s`;
+    return `slice-time ${p.method ?? 'fourier'}${ref}${p.order ? ` (${p.order}${(p.multibandFactor ?? 1) > 1 ? ` mb${p.multibandFactor}` : ''})` : ''}`;
+  },
+};
+
 /**
  * Register the steps boldsweep ships with: smooth, percent-signal-change, grand-mean-scale,
- * highpass, detrend, drop-initial-volumes, resample (called once by the registry module).
+ * highpass, detrend, drop-initial-volumes, resample, slice-time (called once by the registry module).
  * @param register - the registry's registerStep
  * @returns nothing
  * @example registerBuiltinSteps(registerStep)
@@ -113,4 +146,5 @@ export function registerBuiltinSteps(register: <P>(name: string, definition: Ste
   register('detrend', detrend);
   register('drop-initial-volumes', dropInitialVolumes);
   register('resample', resample);
+  register('slice-time', sliceTime);
 }

@@ -9,3 +9,10 @@ export { type DropInitialVolumesParams, type ShiftedEvents, shiftEvents, dropIni
 export { requireMask } from './require-mask.js';
 export { type StepDefinition, type RegisterStepOptions, registerStep, getStep, listSteps, parseStepParams, applyStep, describeStep, stepModules, stepVersion } from './registry.js';
 export { type ResampleStepParams, kernelSimplicity, resampleOutputFrame, resampleStep, resampleTargetGrid } from './resample-step.js';
+export { type SliceTimeParams, type SliceTimeMethod, type SliceTimeReference, SLICE_TIME_METHODS, sliceTimeStep } from './slice-time-step.js';
+export { type ShiftMethod, SHIFT_METHODS, shiftSliceSeries } from './shift-slice-series.js';
+export { shiftSeriesLinear } from './shift-series-linear.js';
+export { shiftSeriesCubic } from './shift-series-cubic.js';
+export { type FourierShifter, fourierShifter } from './fourier-shifter.js';
+export { aliasedFrequencyHz } from './aliased-frequency.js';
+export { type SliceTimingGuidance, type AliasedRhythm, LONG_TR_SEC, PHYSIOLOGICAL_RATES_HZ, sliceTimingGuidance } from './slice-timing-guidance.js';

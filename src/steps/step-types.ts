@@ -63,6 +63,12 @@ export interface StepContext {
    * axis, when known (sidecar SliceTiming, or handed on by an earlier step). __Default value:__ null
    */
   sliceTimesSec?: Float64Array | null;
+  /**
+   * True when the model is to sample the task regressors of each slice at that slice's own time in
+   * `sliceTimesSec` (one design per slice time; the `slice-time` step's method 'model', which leaves
+   * the data unshifted). __Default value:__ false (one design for every voxel)
+   */
+  modelAtSliceTimes?: boolean;
 }
 
 /**
