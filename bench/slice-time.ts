@@ -1,6 +1,6 @@
 /**
  * Slice-timing correction by Fourier shift (shiftSliceSeries, method 'fourier': per voxel series a
- * least-squares line removed, point-reflected tapered ends, a complex transform of 512 points holding
+ * least-squares line removed, point-reflected tapered ends, a complex transform of 256 points holding
  * two series, the phase ramp, the inverse) of a seeded 64 x 64 x 36 x 200 float32 run with an
  * interleaved slice order at TR 2 s, against the floor: one FFT pass over the same data, i.e. every
  * voxel's series gathered in the same blocks, transformed forward and back with fft.js at the

@@ -1,11 +1,19 @@
 import FFT from 'fft.js';
 import { fail } from '../core/fail.js';
 
+/**
+ * Samples of extension each side at the least. Measured (a sine shifted by half a sample, amplitude
+ * 1, 224 samples): with 16 each side (a 256-point transform) the error 40 samples inside the run is
+ * 7e-5 at 0.2 cycles per sample and 7e-6 at 0.05, against 3e-5 and 9e-7 with 144 each side (512
+ * points); with 8 each side it grows to 3e-4 and 6e-5. 16 keeps a 200-volume run at 256 points.
+ */
+const MIN_PAD = 16;
+
 /** Shifts series of one length by the Fourier shift theorem; see {@link fourierShifter}. */
 export interface FourierShifter {
   /** Series length. */
   nt: number;
-  /** Transform length (a power of two, at least 2 nt). */
+  /** Transform length (the power of two at or above nt + 32). */
   transformLength: number;
   /**
    * Shift two series by the same `delta` samples at once (a null `b` shifts `a` alone).
@@ -29,9 +37,9 @@ export interface FourierShifter {
  *    on a 0.2 cycle-per-sample sine shifted by half a sample, 20 samples from the end its error is
  *    8e-3 against 1.3e-4 with the point reflection);
  * 3. the mirrored parts fall to zero by a raised-cosine taper over their outer half, so the
- *    transform's period (N = the power of two at or above 2 nt, the series in the middle) joins
- *    zero to zero far from the data: each mirror reaches at most nt - 1 samples and
- *    min((N - nt) / 2, nt - 1) in all.
+ *    transform's period (N = the power of two at or above nt + 32, the series in the middle, at
+ *    least 16 samples of extension each side) joins zero to zero away from the data: each mirror
+ *    reaches min(its side's extension, nt - 1) samples.
  * Two real series are shifted in one complex transform (a in the real part, b in the imaginary
  * part): the shift's impulse response is real, so it acts on each part alone.
  * @param nt - series length (at least 2)
@@ -42,7 +50,7 @@ export interface FourierShifter {
 export function fourierShifter(nt: number): FourierShifter {
   if (!Number.isInteger(nt) || nt < 2) fail('INVALID_ARGUMENT', `a Fourier shift needs a series of at least 2 samples, got ${nt}`);
   let big = 4; // fft.js needs a power of two, at least 4
-  while (big < 2 * nt) big *= 2;
+  while (big < nt + 2 * MIN_PAD) big *= 2;
   const N = big;
   const fft = new FFT(N);
   const left = Math.floor((N - nt) / 2);

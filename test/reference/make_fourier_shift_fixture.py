@@ -7,7 +7,7 @@ Writes test/reference/fourier_shift_fixture.json (header says: generated, do not
 
 The end handling is written out here independently of the TypeScript (src/steps/fourier-shifter.ts
 documents the same construction): remove the least-squares line (numpy.polyfit), extend the series
-by its mirror image on both sides inside a transform of N = the power of two >= 2 nt
+by its mirror image on both sides inside a transform of N = the power of two >= nt + 32
 (series in the middle, left pad floor((N - nt) / 2)) by point reflection through the end samples
 (y[-j] = 2 y[0] - y[j], y[nt-1+j] = 2 y[nt-1] - y[nt-1-j]), the mirrored parts tapered to zero by a raised
 cosine over their outer half (each reaching at most nt - 1 samples); then the shift theorem as
@@ -40,7 +40,7 @@ def taper(pad, nt):
 def fourier_shift_series(y, delta):
     nt = len(y)
     n_fft = 4
-    while n_fft < 2 * nt:
+    while n_fft < nt + 32:
         n_fft *= 2
     left = (n_fft - nt) // 2
     right = n_fft - nt - left
@@ -71,6 +71,11 @@ def main():
     # odd length (transform of 128 for 61 samples: the mirror reaches nt - 1, the taper ends inside the pad)
     short = series[:61]
     odd = [{"delta": d, "expected": fourier_shift_series(short, d).tolist()} for d in [0.3, -0.6]]
+    # 224 samples in 256 points: the shortest extension, 16 samples each side
+    rng2 = np.random.RandomState(7)
+    t2 = np.arange(224, dtype=float)
+    long_series = 50.0 - 0.02 * t2 + 3.0 * np.sin(2 * math.pi * 0.09 * t2 + 1.1) + rng2.normal(0, 0.5, 224)
+    tight = [{"delta": d, "expected": fourier_shift_series(long_series, d).tolist()} for d in [0.45, -0.8]]
     # periodic band-limited: 3 and 7 whole cycles over 64 samples, scipy's shift with no padding
     m = 64
     tp = np.arange(m, dtype=float)
@@ -85,6 +90,7 @@ def main():
         "series": series.tolist(),
         "cases": cases,
         "oddLength": {"n": 61, "cases": odd},
+        "shortestPad": {"series": long_series.tolist(), "cases": tight},
         "periodic": {"delta": dp, "series": periodic.tolist(), "scipyShifted": shifted.tolist(), "maxAbsFromAnalytic": float(np.max(np.abs(shifted - analytic)))},
     }
     path = os.path.join(os.path.dirname(os.path.abspath(__file__)), "fourier_shift_fixture.json")
