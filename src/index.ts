@@ -41,7 +41,8 @@ export {
   type StepNote, type StepContext, type StepResult, type StepFunction, type StepDefinition, type StepKind, type ParameterLabel, type RegisterStepOptions,
   registerStep, getStep, listSteps, parseStepParams, applyStep, describeStep,
 } from './steps/index.js';
-export { sliceTimeStep, type SliceTimeParams, sliceTimingGuidance, type SliceTimingGuidance, aliasedFrequencyHz } from './steps/index.js';
+export { sliceTimeStep, type SliceTimeParams } from './steps/index.js';
+export { sliceTimingGuidance, type SliceTimingGuidance, aliasedFrequencyHz } from './model/index.js';
 export { smoothRun, smoothVolume3d } from './filter/index.js';
 export {
   type InterpolationKernel, INTERPOLATION_KERNELS, type ResampleOptions, type ResampleRunOptions, type DisplacementField,

@@ -1,3 +1,4 @@
+import { sliceTimingGuidance, type SliceTimingGuidance } from '../model/slice-timing-guidance.js';
 import { fail } from '../core/fail.js';
 import { volumeLike, voxelsPerVolume, type Volume } from '../core/volume.js';
 import type { Run } from '../io/run-types.js';
@@ -132,6 +133,11 @@ export interface LookResult {
   settings: Required<Omit<LookOptions, 'mask' | 'flipAngleDeg' | 'dropInitialVolumes'>> & { dropInitialVolumes: number | 'auto'; ddof: number; maskSource: 'otsu' | 'user' };
   dims: [number, number, number, number];
   trSec: number;
+  /**
+   * Guidance on slice-timing correction at the run's TR (shift or model, the aliased cardiac and
+   * respiratory frequencies: sliceTimingGuidance), or null without a TR.
+   */
+  sliceTiming: SliceTimingGuidance | null;
 }
 
 /**
@@ -351,6 +357,7 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
     recommendation: { dropInitialVolumes: drop, censorVolumes, why },
     settings: { detrendOrder, volumeCutoffZ, sliceCutoffZ, spikeCutoffZ, steadyCutoffZ, t1Sec: model?.t1Sec ?? options.t1Sec ?? GREY_MATTER_T1_SEC_3T, maxSpikeFindings, dropInitialVolumes: options.dropInitialVolumes ?? 'auto', ddof: stats.ddof, maskSource: mask.source },
     dims: [nx, ny, nz, nt], trSec,
+    sliceTiming: trSec > 0 ? sliceTimingGuidance(trSec) : null,
   };
   spareSums = sums; // nothing returned above refers to the sums' arrays
   return result;

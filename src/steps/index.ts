@@ -14,5 +14,3 @@ export { type ShiftMethod, SHIFT_METHODS, shiftSliceSeries } from './shift-slice
 export { shiftSeriesLinear } from './shift-series-linear.js';
 export { shiftSeriesCubic } from './shift-series-cubic.js';
 export { type FourierShifter, fourierShifter } from './fourier-shifter.js';
-export { aliasedFrequencyHz } from './aliased-frequency.js';
-export { type SliceTimingGuidance, type AliasedRhythm, LONG_TR_SEC, PHYSIOLOGICAL_RATES_HZ, sliceTimingGuidance } from './slice-timing-guidance.js';

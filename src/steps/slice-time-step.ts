@@ -3,7 +3,7 @@ import { volumeLike } from '../core/volume.js';
 import { checkSliceTimes } from '../acquire/check-slice-times.js';
 import { sliceOrderTiming, type SliceOrder } from '../acquire/slice-order-timing.js';
 import { shiftSliceSeries, type ShiftMethod } from './shift-slice-series.js';
-import { sliceTimingGuidance } from './slice-timing-guidance.js';
+import { sliceTimingGuidance } from '../model/slice-timing-guidance.js';
 import type { StepContext, StepFunction } from './step-types.js';
 
 /** Methods of the slice-time step: a shift by interpolation, or the model-based alternative. */

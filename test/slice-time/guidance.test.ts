@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { aliasedFrequencyHz } from '../../src/steps/aliased-frequency.js';
-import { sliceTimingGuidance } from '../../src/steps/slice-timing-guidance.js';
+import { aliasedFrequencyHz } from '../../src/model/aliased-frequency.js';
+import { sliceTimingGuidance } from '../../src/model/slice-timing-guidance.js';
 
 // The sampling theorem (Shannon 1949, Proc. IRE 37:10-21): sampled every TR seconds, a sinusoid of
 // f Hz gives the same samples as one of |f - k/TR| Hz for every integer k, so it shows at the one in
