@@ -108,11 +108,8 @@ const SLICE_TIME_SIMPLICITY: Record<SliceTimeMethod, number> = { model: 0, linea
 const sliceTime: StepDefinition<SliceTimeParams> = {
   schema: z.object({
     method: z.enum(sliceTimeMethods).default('fourier'),
-    reference: z.union([
-      z.literal('middle'),
-      z.object({ slice: z.number().int().min(0) }).strict(),
-      z.object({ timeSec: z.number().finite().min(0) }).strict(),
-    ]).default('middle'),
+    referenceSlice: z.number().int().min(0).optional(),
+    referenceSec: z.number().finite().min(0).optional(),
     order: z.enum(sliceOrders).optional(),
     multibandFactor: z.number().int().min(1).default(1),
   }).strict(),
@@ -120,13 +117,13 @@ const sliceTime: StepDefinition<SliceTimeParams> = {
   kind: 'temporal',
   apply: sliceTimeStep,
   labels: {
-    method: { name: 'slice-timing method', unit: '' }, reference: { name: 'slice-timing reference', unit: '' },
+    method: { name: 'slice-timing method', unit: '' }, referenceSlice: { name: 'slice-timing reference slice', unit: '' },
+    referenceSec: { name: 'slice-timing reference time', unit: 's' },
     order: { name: 'slice order', unit: '' }, multibandFactor: { name: 'multiband factor', unit: '' },
   },
   simplicity: (p) => SLICE_TIME_SIMPLICITY[p.method ?? 'fourier'],
   describe: (p) => {
-    const r = p.reference ?? 'middle';
-    const ref = r === 'middle' ? '' : 'slice' in r ? ` to slice ${r.slice}` : ` to ${r.timeSec} s`;
+    const ref = p.referenceSlice !== undefined ? ` to slice ${p.referenceSlice}` : p.referenceSec !== undefined ? ` to ${p.referenceSec} s` : '';
     return `slice-time ${p.method ?? 'fourier'}${ref}${p.order ? ` (${p.order}${(p.multibandFactor ?? 1) > 1 ? ` mb${p.multibandFactor}` : ''})` : ''}`;
   },
 };

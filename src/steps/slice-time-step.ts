@@ -11,8 +11,6 @@ export const SLICE_TIME_METHODS = ['linear', 'cubic', 'fourier', 'model'] as con
 /** One of {@link SLICE_TIME_METHODS}. */
 export type SliceTimeMethod = (typeof SLICE_TIME_METHODS)[number];
 
-/** The time every slice is brought to: the middle of the TR, a slice's own time, or a time in seconds. */
-export type SliceTimeReference = 'middle' | { slice: number } | { timeSec: number };
 
 /** Parameters of {@link sliceTimeStep}. */
 export interface SliceTimeParams {
@@ -22,8 +20,16 @@ export interface SliceTimeParams {
    * slice's regressors at that slice's own time. __Default value:__ 'fourier'
    */
   method?: SliceTimeMethod;
-  /** Reference time within each volume. __Default value:__ 'middle' (TR / 2) */
-  reference?: SliceTimeReference;
+  /**
+   * Bring every slice to this slice's acquisition time (0-based index along the third axis); not
+   * with referenceSec. __Default value:__ none (the middle of the TR, TR / 2)
+   */
+  referenceSlice?: number;
+  /**
+   * Bring every slice to this time, seconds from the start of each volume (0 to below TR); not with
+   * referenceSlice. __Default value:__ none (the middle of the TR, TR / 2)
+   */
+  referenceSec?: number;
   /**
    * Generate the slice times in this order instead of reading the sidecar's SliceTiming.
    * __Default value:__ none (the slice times the run's context carries, from SliceTiming)
@@ -33,15 +39,16 @@ export interface SliceTimeParams {
   multibandFactor?: number;
 }
 
-/** The reference time (s within the volume) a parameter names. */
-function referenceTimeSec(reference: SliceTimeReference, times: Float64Array, trSec: number): { timeSec: number; label: string } {
-  if (reference === 'middle') return { timeSec: trSec / 2, label: `the middle of the TR (${trSec / 2} s)` };
-  if ('slice' in reference) {
-    const k = reference.slice;
+/** The reference time (s within the volume) the parameters name. */
+function referenceTimeSec(params: SliceTimeParams, times: Float64Array, trSec: number): { timeSec: number; label: string } {
+  if (params.referenceSlice !== undefined && params.referenceSec !== undefined) fail('SLICE_TIME_REFERENCE_INVALID', `give referenceSlice (${params.referenceSlice}) or referenceSec (${params.referenceSec}), not both`);
+  if (params.referenceSlice === undefined && params.referenceSec === undefined) return { timeSec: trSec / 2, label: `the middle of the TR (${trSec / 2} s)` };
+  if (params.referenceSlice !== undefined) {
+    const k = params.referenceSlice;
     if (!Number.isInteger(k) || k < 0 || k >= times.length) fail('SLICE_TIME_REFERENCE_INVALID', `reference slice ${String(k)} is not a slice of this run (0 to ${times.length - 1})`);
     return { timeSec: times[k], label: `the acquisition time of slice ${k} (${times[k]} s)` };
   }
-  const t = reference.timeSec;
+  const t = params.referenceSec as number;
   if (!(t >= 0 && t < trSec)) fail('SLICE_TIME_REFERENCE_INVALID', `reference time ${String(t)} s is not inside the TR of ${trSec} s`);
   return { timeSec: t, label: `${t} s after the start of each volume` };
 }
@@ -74,7 +81,7 @@ const METHOD_WORDS: Record<SliceTimeMethod, string> = {
  * design per slice time). The note carries the guidance for the run's TR (sliceTimingGuidance): at
  * long TR shifting is advised against, and aliased physiological rhythms are named.
  * @param volume - the run (not modified); slices along the third axis; needs trSec > 0
- * @param params - method, reference, order, multibandFactor
+ * @param params - method, referenceSlice or referenceSec, order, multibandFactor
  * @param context - slice times (sliceTimesSec, else the sidecar's SliceTiming); the frame must not be a target grid
  * @returns the shifted run (or the run itself for 'model'), the note and the updated context
  * @throws BoldsweepError TR_MISSING; SLICE_TIMING_MISSING, SLICE_TIMING_LENGTH, SLICE_TIMING_INVALID,
@@ -90,8 +97,8 @@ export const sliceTimeStep: StepFunction<SliceTimeParams> = (volume, params, con
   if (context.frame?.kind === 'target') fail('INVALID_ARGUMENT', 'slice-time: the run was resampled onto another grid, where voxels no longer belong to one acquired slice; put slice-time before geometric steps');
   const [, , nz, nt] = volume.dims;
   const { times, source } = sliceTimes(params, context, nz, trSec);
-  const reference = params.reference ?? 'middle';
-  const ref = referenceTimeSec(reference, times, trSec);
+  const ref = referenceTimeSec(params, times, trSec);
+  const reference = params.referenceSlice !== undefined ? { referenceSlice: params.referenceSlice } : params.referenceSec !== undefined ? { referenceSec: params.referenceSec } : {};
   const guidance = sliceTimingGuidance(trSec);
   const shifts = Float64Array.from(times, (t) => (ref.timeSec - t) / trSec);
   let maxShift = 0;
@@ -114,7 +121,7 @@ export const sliceTimeStep: StepFunction<SliceTimeParams> = (volume, params, con
     return {
       volume,
       note: {
-        step: 'slice-time', params: { method, reference, ...(params.order ? { order: params.order, multibandFactor: params.multibandFactor ?? 1 } : {}) },
+        step: 'slice-time', params: { method, ...reference, ...(params.order ? { order: params.order, multibandFactor: params.multibandFactor ?? 1 } : {}) },
         summary: `Slice timing in the model: each slice's regressors sampled at its own acquisition time (${source}); data not shifted`,
         diagnostics,
         methodsText: `Slice timing was accounted for in the model rather than by shifting the data: the task regressors of each slice were sampled at that slice's acquisition time (from ${source}; TR ${trSec} s).`,
@@ -131,7 +138,7 @@ export const sliceTimeStep: StepFunction<SliceTimeParams> = (volume, params, con
   return {
     volume: out,
     note: {
-      step: 'slice-time', params: { method, reference, ...(params.order ? { order: params.order, multibandFactor: params.multibandFactor ?? 1 } : {}) },
+      step: 'slice-time', params: { method, ...reference, ...(params.order ? { order: params.order, multibandFactor: params.multibandFactor ?? 1 } : {}) },
       summary: `Slice timing by ${METHOD_WORDS[method]} to ${ref.label}; largest shift ${(maxShift * trSec).toFixed(3)} s${advisedAgainst ? ` (advised against at TR ${trSec} s: consider method 'model')` : ''}`,
       diagnostics,
       methodsText: `Each slice's time series was shifted by ${METHOD_WORDS[method]} to ${ref.label} of each ${trSec} s volume (slice times from ${source}; largest shift ${(maxShift * trSec).toFixed(3)} s), ${ends}.`,

@@ -346,7 +346,9 @@ function cellDesign(events: readonly BoldEvent[], volume: Volume, ctx: SweepCont
  */
 function cellFit(events: readonly BoldEvent[], volume: Volume, ctx: SweepContext, model: CellPlan['model'], regressors: readonly NuisanceRegressor[], context: StepContext, glmOptions: GlmOptions): GlmFit {
   const times = context.sliceTimesSec ?? null;
-  if (context.modelAtSliceTimes && times && times.length === volume.dims[2] && modelSampleTimeSec(times, volume.trSec) === null) {
+  // on a target grid (after resampling) voxels no longer belong to one acquired slice
+  const onRunGrid = (context.frame ?? { kind: 'raw' }).kind !== 'target';
+  if (context.modelAtSliceTimes && onRunGrid && times && times.length === volume.dims[2] && modelSampleTimeSec(times, volume.trSec) === null) {
     const distinct = [...new Set(times)].sort((a, b) => a - b);
     const designs = distinct.map((t) => cellDesign(events, volume, ctx, model, regressors, Float64Array.of(t)));
     const ofSlice = Array.from(times, (t) => distinct.indexOf(t));

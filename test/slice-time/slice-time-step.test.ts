@@ -37,7 +37,7 @@ describe('slice-time step', () => {
       const r = await applyStep('slice-time', run, { method }, ctx);
       expect(Array.from(run.data)).toEqual(Array.from(before)); // input not modified
       expect(Array.from(r.context!.sliceTimesSec!)).toEqual([1, 1, 1, 1]);
-      expect(r.note.params.reference).toBe('middle');
+      expect(r.note.params.referenceSlice === undefined && r.note.params.referenceSec === undefined).toBe(true);
       // each slice now holds s(n TR + 1 s): away from the run's ends, every method is close
       // (a 0.02 Hz sine at TR 2 s: 0.04 cycles per sample, linear keeps cos(0.02 pi) of a 10-unit amplitude)
       const nvox = NX * NY * NZ;
@@ -49,10 +49,10 @@ describe('slice-time step', () => {
       expect(r.note.methodsText).toMatch(/middle of the TR \(1 s\)/);
     }
   });
-  it('reference as a slice index or a time in seconds', async () => {
-    const r = await applyStep('slice-time', timedRun(times), { method: 'cubic', reference: { slice: 1 } }, ctx);
+  it('reference as a slice index or a time in seconds (scalars, so a sweep can vary them)', async () => {
+    const r = await applyStep('slice-time', timedRun(times), { method: 'cubic', referenceSlice: 1 }, ctx);
     expect(Array.from(r.context!.sliceTimesSec!)).toEqual([1, 1, 1, 1]);
-    const r2 = await applyStep('slice-time', timedRun(times), { method: 'cubic', reference: { timeSec: 0.25 } }, ctx);
+    const r2 = await applyStep('slice-time', timedRun(times), { method: 'cubic', referenceSec: 0.25 }, ctx);
     expect(r2.note.diagnostics.referenceSec).toBe(0.25);
     // slice 0 (read at 0 s) moves by 0.125 volumes
     expect(r2.note.diagnostics.largestShiftSec).toBeCloseTo(1.25, 12);
@@ -84,10 +84,10 @@ describe('slice-time step', () => {
     const def = getStep('slice-time');
     expect(def.kind).toBe('temporal');
     expect(def.version).toBe(1);
-    expect(parseStepParams('slice-time', {})).toEqual({ method: 'fourier', reference: 'middle', multibandFactor: 1 });
+    expect(parseStepParams('slice-time', {})).toEqual({ method: 'fourier', multibandFactor: 1 });
     const s = ['model', 'linear', 'cubic', 'fourier'].map((m) => def.simplicity!(parseStepParams('slice-time', { method: m }) as never));
     expect(s).toEqual([0, 1, 2, 3]);
-    expect(describeStep('slice-time', { method: 'cubic', reference: { slice: 3 } })).toBe('slice-time cubic to slice 3');
+    expect(describeStep('slice-time', { method: 'cubic', referenceSlice: 3 })).toBe('slice-time cubic to slice 3');
     expect(codeOf(() => parseStepParams('slice-time', { method: 'quintic' }))).not.toBe('none');
   });
 });
@@ -116,8 +116,9 @@ describe('slice-time bad input: typed errors that name the sidecar field', () =>
   });
   it('a reference outside the run, a multiband factor that does not divide, a resampled grid', () => {
     const ctx = { ...base, sliceTimesSec: Float64Array.of(0, 1, 0.5, 1.5) };
-    expect(codeOf(() => sliceTimeStep(run, { reference: { slice: 4 } }, ctx))).toBe('SLICE_TIME_REFERENCE_INVALID');
-    expect(codeOf(() => sliceTimeStep(run, { reference: { timeSec: 2 } }, ctx))).toBe('SLICE_TIME_REFERENCE_INVALID');
+    expect(codeOf(() => sliceTimeStep(run, { referenceSlice: 4 }, ctx))).toBe('SLICE_TIME_REFERENCE_INVALID');
+    expect(codeOf(() => sliceTimeStep(run, { referenceSec: 2 }, ctx))).toBe('SLICE_TIME_REFERENCE_INVALID');
+    expect(codeOf(() => sliceTimeStep(run, { referenceSec: 0.5, referenceSlice: 1 }, ctx))).toBe('SLICE_TIME_REFERENCE_INVALID');
     expect(codeOf(() => sliceTimeStep(run, { order: 'ascending', multibandFactor: 3 }, base))).toBe('SLICE_TIMING_MULTIBAND');
     const target = { ...ctx, frame: { kind: 'target' as const, grid: { dims: [NX, NY, NZ] as [number, number, number], affine: identityAffine() } } };
     expect(codeOf(() => sliceTimeStep(run, {}, target))).toBe('INVALID_ARGUMENT');
