@@ -61,7 +61,13 @@ function sliceTimes(params: SliceTimeParams, context: StepContext, nz: number, t
   }
   const given = context.sliceTimesSec ?? context.sidecar?.SliceTiming ?? null;
   if (!given) fail('SLICE_TIMING_MISSING', `the run's sidecar has no SliceTiming and the step was given no order`);
-  return { times: checkSliceTimes(given, nz, trSec, 'the sidecar SliceTiming'), source: 'the sidecar SliceTiming' };
+  const direction = context.sidecar?.SliceEncodingDirection;
+  if (direction !== undefined && direction !== 'k' && direction !== 'k-') fail('SLICE_AXIS_UNSUPPORTED', `the sidecar's SliceEncodingDirection is '${String(direction)}'`);
+  const times = checkSliceTimes(given, nz, trSec, 'the sidecar SliceTiming');
+  // BIDS: with a reversed slice-encode direction SliceTiming lists the slices from the last index
+  // (as acquisitionModel reads it); aligned times (all equal) are the same either way
+  if (direction === 'k-') times.reverse();
+  return { times, source: 'the sidecar SliceTiming' };
 }
 
 const METHOD_WORDS: Record<SliceTimeMethod, string> = {
@@ -84,7 +90,7 @@ const METHOD_WORDS: Record<SliceTimeMethod, string> = {
  * @param params - method, referenceSlice or referenceSec, order, multibandFactor
  * @param context - slice times (sliceTimesSec, else the sidecar's SliceTiming); the frame must not be a target grid
  * @returns the shifted run (or the run itself for 'model'), the note and the updated context
- * @throws BoldsweepError TR_MISSING; SLICE_TIMING_MISSING, SLICE_TIMING_LENGTH, SLICE_TIMING_INVALID,
+ * @throws BoldsweepError TR_MISSING; SLICE_AXIS_UNSUPPORTED for slices along another axis; SLICE_TIMING_MISSING, SLICE_TIMING_LENGTH, SLICE_TIMING_INVALID,
  *   SLICE_TIMING_MULTIBAND for slice times that are absent or do not fit the run;
  *   SLICE_TIME_REFERENCE_INVALID; INVALID_ARGUMENT on a resampled grid or for an unknown method
  * @example const { volume, note } = sliceTimeStep(run.volume, { method: 'fourier' }, context)

@@ -114,6 +114,14 @@ describe('slice-time bad input: typed errors that name the sidecar field', () =>
     expect(codeOf(() => sliceTimeStep(run, {}, short))).toBe('SLICE_TIMING_LENGTH');
     expect(msg(() => sliceTimeStep(run, {}, short))).toMatch(/SliceTiming/);
   });
+  it('slices along another axis: SLICE_AXIS_UNSUPPORTED; a reversed direction k- reads SliceTiming from the last slice', async () => {
+    const times = [0, 1, 0.5, 1.5];
+    const along = (dir: string) => ({ ...base, sidecar: { RepetitionTime: TR, SliceTiming: times, SliceEncodingDirection: dir } });
+    expect(codeOf(() => sliceTimeStep(run, {}, along('j')))).toBe('SLICE_AXIS_UNSUPPORTED');
+    expect(msg(() => sliceTimeStep(run, {}, along('i-')))).toMatch(/SliceEncodingDirection/);
+    const r = await applyStep('slice-time', run, { method: 'model' }, along('k-'));
+    expect(Array.from(r.context!.sliceTimesSec!)).toEqual([...times].reverse());
+  });
   it('a reference outside the run, a multiband factor that does not divide, a resampled grid', () => {
     const ctx = { ...base, sliceTimesSec: Float64Array.of(0, 1, 0.5, 1.5) };
     expect(codeOf(() => sliceTimeStep(run, { referenceSlice: 4 }, ctx))).toBe('SLICE_TIME_REFERENCE_INVALID');
