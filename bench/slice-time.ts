@@ -9,11 +9,18 @@
  *   bench slice-time-fourier-seconds <s> s, bench fft-pass-seconds <s> s,
  *   ratio slice-time-vs-fft <ours / floor>,
  *   bench slice-time-linear-seconds <s> s, bench slice-time-cubic-seconds <s> s (for information)
+ * and the cost of the model-based alternative: fitGlmBySliceTime with one design per slice time (36
+ * interleaved slice times, OLS) against fitGlm with one design on the same run, median of 3:
+ *   ratio glm-by-slice-time-vs-glm <x>
  */
 import { pathToFileURL } from 'node:url';
 import FFT from 'fft.js';
 import { interleavedSliceTiming } from '../src/acquire/interleaved-slice-timing.js';
 import { shiftSliceSeries } from '../src/steps/shift-slice-series.js';
+import { buildDesign } from '../src/model/design.js';
+import { fitGlm } from '../src/model/glm-ols.js';
+import { fitGlmBySliceTime } from '../src/model/fit-glm-by-slice-time.js';
+import type { BoldEvent } from '../src/io/run-types.js';
 import { noisyHeadRun, timeMedianSec } from './bench-kit.js';
 
 const DIMS: [number, number, number, number] = [64, 64, 36, 200];
@@ -65,6 +72,17 @@ export async function main(): Promise<void> {
   console.log(`ratio slice-time-vs-fft ${(fourierSec / floorSec).toFixed(3)}`);
   console.log(`bench slice-time-linear-seconds ${linearSec.toFixed(4)} s`);
   console.log(`bench slice-time-cubic-seconds ${cubicSec.toFixed(4)} s`);
+
+  const events: BoldEvent[] = Array.from({ length: 40 }, (_, k) => ({ onsetSec: 4 + 9.5 * k, durationSec: 1, trialType: 'task', modulation: 1 }));
+  const distinct = [...new Set(times)].sort((a, b) => a - b);
+  const designs = distinct.map((t) => buildDesign(events, { nt: DIMS[3], trSec: TR_SEC, sampleTimeSec: t, drift: { kind: 'dct', cutoffSec: 128 } }));
+  const ofSlice = times.map((t) => distinct.indexOf(t));
+  const one = buildDesign(events, { nt: DIMS[3], trSec: TR_SEC, drift: { kind: 'dct', cutoffSec: 128 } });
+  const perSliceSec = await timeMedianSec(() => fitGlmBySliceTime(run, designs, ofSlice), { repeats: 3, warmUp: 1 });
+  const oneSec = await timeMedianSec(() => fitGlm(run, one), { repeats: 3, warmUp: 1 });
+  console.log(`bench glm-by-slice-time-seconds ${perSliceSec.toFixed(4)} s`);
+  console.log(`bench glm-one-design-seconds ${oneSec.toFixed(4)} s`);
+  console.log(`ratio glm-by-slice-time-vs-glm ${(perSliceSec / oneSec).toFixed(3)}`);
 }
 
 if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) await main();
