@@ -18,6 +18,22 @@ export interface RecommendOptions {
   targetAmplitudePct?: number;
   /** Threshold rule the detections were called with, as text for the rule statement. */
   thresholdText?: string;
+  /**
+   * The varied steps' own simplicity order of a setting (lower = simpler, one number per varied
+   * key, compared in key order; see StepDefinition.simplicity). When it gives a finite number for
+   * every setting, it ranks the settings instead of `prefer`, so named values (interpolation
+   * kernels, slice-timing methods) are ranked by what the step calls simpler, not alphabetically.
+   * __Default value:__ none (rank by `prefer`)
+   */
+  simplicity?: (setting: Setting) => ReadonlyArray<number | null>;
+}
+
+/** How the one-standard-error rule ranks equally good settings: the order, and its name in words. */
+interface Preference {
+  /** negative when a is simpler than b */
+  compare: (a: Setting, b: Setting) => number;
+  /** 'smallest', 'largest' or 'simplest' */
+  word: string;
 }
 
 /** The evidence for one setting: mean detection and false alarms with their spread across repeats. */
@@ -118,9 +134,10 @@ export function recommendSetting(card: Scorecard, options: RecommendOptions = {}
   const prefer = options.prefer ?? 'smallest';
   if (!card.metrics.includes(metric)) fail('INVALID_ARGUMENT', `metric "${metric}" is not a scorecard column; columns are ${card.metrics.join(', ')}`);
   const summaries = summariseScorecard(card);
+  const pref = preference(card.varied, summaries.map((s) => s.setting), prefer, options.simplicity);
   const conditions = uniquePairs(summaries);
   const fallbackMetric = FALLBACK_METRICS.find((m) => m !== metric && card.metrics.includes(m)) ?? null;
-  const perPlant = conditions.map(([size, amp]) => decide(summaries.filter((s) => s.plantSizeMm === size && s.plantAmplitudePct === amp), card.varied, metric, prefer, fallbackMetric));
+  const perPlant = conditions.map(([size, amp]) => decide(summaries.filter((s) => s.plantSizeMm === size && s.plantAmplitudePct === amp), card.varied, metric, pref, fallbackMetric));
   const sizes = [...new Set(conditions.map((c) => c[0]))];
   const amps = [...new Set(conditions.map((c) => c[1]))];
   const targetSize = options.targetSizeMm ?? sizes[(sizes.length - 1) >> 1];
@@ -128,8 +145,30 @@ export function recommendSetting(card: Scorecard, options: RecommendOptions = {}
   const choice = perPlant.find((p) => p.plantSizeMm === targetSize && p.plantAmplitudePct === targetAmp);
   if (!choice) fail('INVALID_ARGUMENT', `no plant condition of size ${targetSize} mm and amplitude ${targetAmp} % in the scorecard; sizes are ${sizes.join(', ')} mm`);
   const thr = options.thresholdText ? ` with detections called at ${options.thresholdText}` : '';
-  const rule = `Among the settings whose mean ${metricWords(metric)} across repeats${thr} lies within one standard error of the best mean, choose the ${prefer} ${card.varied.map(parameterName).join(' and ') || 'recipe'} (the one-standard-error rule: prefer the simpler setting when the difference is within noise).`;
-  return { ruleId: 'one-se-simplest', rule, metric, prefer, varied: [...card.varied], choice, perPlant, summary: summaryText(choice, metric, card.varied, prefer), caveats: [...STANDING_CAVEATS] };
+  const rule = `Among the settings whose mean ${metricWords(metric)} across repeats${thr} lies within one standard error of the best mean, choose the ${pref.word} ${card.varied.map(parameterName).join(' and ') || 'recipe'} (the one-standard-error rule: prefer the simpler setting when the difference is within noise).`;
+  return { ruleId: 'one-se-simplest', rule, metric, prefer, varied: [...card.varied], choice, perPlant, summary: summaryText(choice, metric, card.varied, pref.word), caveats: [...STANDING_CAVEATS] };
+}
+
+/** The ranking of equally good settings: by the steps' simplicity order when it covers every setting, else by value. */
+function preference(varied: string[], settings: Setting[], prefer: 'smallest' | 'largest', simplicity: RecommendOptions['simplicity']): Preference {
+  const byValue: Preference = { compare: (a, b) => compareSettings(a, b, varied) * (prefer === 'smallest' ? 1 : -1), word: prefer };
+  if (!simplicity || varied.length === 0) return byValue;
+  const ranks = new Map<string, number[]>();
+  for (const setting of settings) {
+    let r: ReadonlyArray<number | null>;
+    try { r = simplicity(setting); } catch { return byValue; }
+    if (r.length !== varied.length || r.some((x) => x === null || !Number.isFinite(x))) return byValue;
+    ranks.set(JSON.stringify(setting), r as number[]);
+  }
+  // a simplicity order that agrees with the value order says nothing new; keep the plainer word
+  const compare = (a: Setting, b: Setting): number => {
+    const x = ranks.get(JSON.stringify(a)), y = ranks.get(JSON.stringify(b));
+    if (!x || !y) return byValue.compare(a, b);
+    for (let i = 0; i < x.length; i++) if (x[i] !== y[i]) return x[i] - y[i];
+    return byValue.compare(a, b);
+  };
+  const agrees = settings.every((a) => settings.every((b) => Math.sign(compare(a, b)) === Math.sign(byValue.compare(a, b))));
+  return agrees ? byValue : { compare, word: 'simplest' };
 }
 
 function uniquePairs(summaries: SettingSummary[]): Array<[number, number]> {
@@ -157,7 +196,7 @@ function compareSettings(a: Setting, b: Setting, keys: string[]): number {
 const FALLBACK_METRICS = ['centreStatisticMean'];
 
 /** The one-SE choice, then its status: floor, ceiling (with the fallback metric) or tie. */
-function decide(rows: SettingSummary[], varied: string[], metric: string, prefer: 'smallest' | 'largest', fallbackMetric: string | null): PlantChoice {
+function decide(rows: SettingSummary[], varied: string[], metric: string, prefer: Preference, fallbackMetric: string | null): PlantChoice {
   if (!rows.some((r) => Number.isFinite(r.metrics[metric]?.mean))) return nullSweepChoice(rows, varied, metric);
   const first = choose(rows, varied, metric, prefer);
   const bounds = metricBounds(metric);
@@ -200,7 +239,7 @@ function nullSweepChoice(rows: SettingSummary[], varied: string[], metric: strin
   };
 }
 
-function choose(rows: SettingSummary[], varied: string[], metric: string, prefer: 'smallest' | 'largest'): PlantChoice {
+function choose(rows: SettingSummary[], varied: string[], metric: string, prefer: Preference): PlantChoice {
   const evidence: SettingEvidence[] = rows.map((s) => ({
     settingIndex: s.settingIndex, setting: s.setting, label: settingText(s.setting),
     detection: mi(s, metric)!, falseClusters: mi(s, 'falseClusters'), withinOneSe: false,
@@ -211,7 +250,7 @@ function choose(rows: SettingSummary[], varied: string[], metric: string, prefer
   // with one repeat the SE is undefined; then only settings equal to the best qualify
   const cutoff = best.detection.mean - (Number.isFinite(best.detection.se) ? best.detection.se : 0);
   for (const e of finite) e.withinOneSe = e.detection.mean >= cutoff;
-  const order = [...finite].filter((e) => e.withinOneSe).sort((a, b) => compareSettings(a.setting, b.setting, varied) * (prefer === 'smallest' ? 1 : -1));
+  const order = [...finite].filter((e) => e.withinOneSe).sort((a, b) => prefer.compare(a.setting, b.setting));
   return { plantSizeMm: rows[0].plantSizeMm, plantAmplitudePct: rows[0].plantAmplitudePct, status: 'chosen', metric, fallback: null, atCeiling: [], advice: '', chosen: order[0], best, cutoff, evidence: evidence.sort((a, b) => compareSettings(a.setting, b.setting, varied)) };
 }
 
@@ -242,7 +281,7 @@ function fmt(x: number, digits = 3): string {
  * The summary of a choice in words. Only a 'chosen' status reads "Use ..."; the others say what the
  * sweep shows and what to change.
  */
-function summaryText(c: PlantChoice, requested: string, varied: string[], prefer: 'smallest' | 'largest'): string {
+function summaryText(c: PlantChoice, requested: string, varied: string[], prefer: string): string {
   const what = varied.length ? c.chosen.label : 'the fixed recipe';
   const d = c.chosen.detection;
   const b = c.best.detection;
@@ -270,7 +309,7 @@ function summaryText(c: PlantChoice, requested: string, varied: string[], prefer
         ? `No choice by ${metricWords(requested)}: for ${plant}, ${c.fallback.reason}. By the ${metricWords(c.metric)}, which still separates them, the best setting is ${c.best.label} (${fmt(b.mean, 2)}) and the one-standard-error rule picks ${what} (${fmt(d.mean, 2)}). ${c.advice}`
         : `No choice: for ${plant}, ${c.atCeiling.length} settings reach the ceiling of the ${metricWords(requested)}. ${c.advice}`;
     case 'tied':
-      return `No clear choice: for ${plant}, the settings do not separate (best ${c.best.label} at ${fmt(b.mean)}, SE ${fmt(b.se)}; every setting at or above ${fmt(c.cutoff)}). The ${prefer === 'smallest' ? 'smallest' : 'largest'} setting, ${what}, is as good as any here. ${c.advice}`;
+      return `No clear choice: for ${plant}, the settings do not separate (best ${c.best.label} at ${fmt(b.mean)}, SE ${fmt(b.se)}; every setting at or above ${fmt(c.cutoff)}). The ${prefer} setting, ${what}, is as good as any here. ${c.advice}`;
     default:
       return `Use ${what}. For ${plant}, its mean ${metricWords(c.metric)} was ${fmt(d.mean)}${interval}; `
         + `the best setting, ${c.best.label}, reached ${fmt(b.mean)} (SE ${fmt(b.se)}), so ${why}.${falseText}`;

@@ -2,7 +2,7 @@ import { basename, join } from 'node:path';
 import { writeFileAtomic } from '../io/atomic-write.js';
 import { prepareOutputFiles, type ClaimOptions } from '../io/output-folder.js';
 import { recommendSetting, type RecommendOptions, type Recommendation } from '../decide/recommend-setting.js';
-import { parameterName, settingText, simplerEnd } from '../sweep/settings-grid.js';
+import { parameterName, settingSimplicity, settingText, simplerEnd, type Setting } from '../sweep/settings-grid.js';
 import { parameterTradeoff } from '../decide/parameter-tradeoff.js';
 import { getStep, listSteps } from '../steps/registry.js';
 import { summariseScorecard } from '../decide/summarise-scorecard.js';
@@ -87,7 +87,9 @@ export async function writeReport(dir: string, folder: SweepFolder, options: Rec
   const thr = thresholdText(result.spec.threshold);
   // the simpler end of the varied values comes from the steps' own simplicity orders unless given
   const prefer = options.prefer ?? simplerEnd(result.spec) ?? undefined;
-  const recommendation = recommendSetting(result.scorecard, { thresholdText: thr, ...options, prefer });
+  // named values (kernels, methods) have no smaller end: the steps' simplicity orders rank them
+  const simplicity = options.prefer === undefined && prefer === undefined ? (s: Setting) => settingSimplicity(s, result.spec.recipe) : undefined;
+  const recommendation = recommendSetting(result.scorecard, { thresholdText: thr, simplicity, ...options, prefer });
   const rough = roughSettings(folder);
   if (rough.length && (result.spec.threshold.kind === 'fwe-rft' || result.spec.threshold.kind === 'cluster')) {
     recommendation.caveats.push(`At ${rough.join(', ')} the estimated noise smoothness is under 3 voxels FWHM, where the random-field threshold is far more conservative than its nominal level (the lattice is too rough for the continuous theory; Nichols & Hayasaka 2003). The sweep uses the Bonferroni value there when it is lower, but the threshold still falls hardest on the narrowest settings and so biases the choice towards wider kernels; the fwe-calibrated rule measures the threshold on this run's own noise instead.`);

@@ -109,3 +109,38 @@ describe('the status of a choice', () => {
     expect(one.summary).toMatch(/no other setting comes within one standard error/);
   });
 });
+
+describe('named values ranked by the steps\' simplicity order, not alphabetically', () => {
+  /** A scorecard varying a named parameter (the slice-timing method), equal hit rates everywhere. */
+  function namedCard(methods: string[]): Scorecard {
+    const rows: ScorecardRow[] = [];
+    methods.forEach((m, s) => [0.5, 0.6, 0.7].forEach((h, r) => rows.push({
+      cell: rows.length, group: r, settingIndex: s, 'slice-time.method': m,
+      plantShape: 'gaussian', plantSizeMm: 8, plantAmplitudePct: 1, plantCount: 4, repeat: r, plantSeed: r, hitRate: h, falseClusters: 0,
+    })));
+    return { sweepKey: 'k', varied: ['slice-time.method'], metrics: ['hitRate', 'falseClusters'], rows, seconds: rows.map(() => 1) };
+  }
+  // a step's own order (lower = simpler): the model option changes no data, linear is the plainest shift
+  const order: Record<string, number> = { model: 0, linear: 1, cubic: 2, fourier: 3 };
+  const simplicity = (s: Record<string, unknown>) => [order[String(s['slice-time.method'])]];
+
+  it('a tie names the simplest method by the order the step gives', () => {
+    const c = namedCard(['cubic', 'fourier', 'linear', 'model']);
+    expect(recommendSetting(c).choice.chosen.setting['slice-time.method']).toBe('cubic'); // alphabetical without the order
+    const rec = recommendSetting(c, { simplicity });
+    expect(rec.choice.status).toBe('tied');
+    expect(rec.choice.chosen.setting['slice-time.method']).toBe('model');
+    expect(rec.rule).toContain('choose the simplest');
+    expect(rec.summary).toContain('The simplest setting, slice-timing method model');
+  });
+
+  it('keeps the value order (and its word) when an order is missing for a setting or agrees with the values', () => {
+    const c = namedCard(['cubic', 'linear', 'other']);
+    const rec = recommendSetting(c, { simplicity });
+    expect(rec.choice.chosen.setting['slice-time.method']).toBe('cubic');
+    expect(rec.rule).toContain('choose the smallest');
+    const agreeing = recommendSetting(card({ 8: { 0: [0.5, 0.6], 4: [0.5, 0.6] } }), { simplicity: (s) => [Number(s['smooth.fwhmMm'])] });
+    expect(agreeing.rule).toContain('choose the smallest');
+    expect(agreeing.choice.chosen.setting['smooth.fwhmMm']).toBe(0);
+  });
+});
