@@ -15,3 +15,13 @@ export { distortLines } from './distort-lines.js';
 export { interleavedSliceTiming } from './interleaved-slice-timing.js';
 export { sequentialSliceTiming } from './sequential-slice-timing.js';
 export { checkSliceTimes } from './check-slice-times.js';
+// the inverse of the B0 part: field maps, shift maps, unwarping, lost signal, reversed phase encoding
+export { b0Readout, type B0Readout } from './b0-readout.js';
+export { shiftMapVoxels } from './shift-map-voxels.js';
+export { fieldMapFromPhaseDifference } from './field-map-from-phase-difference.js';
+export { fieldMapOnGrid } from './field-map-on-grid.js';
+export { planUnwarp, NO_TAP, UNWARP_KERNELS, type UnwarpKernel, type UnwarpPlan } from './plan-unwarp.js';
+export { applyUnwarp } from './apply-unwarp.js';
+export { intravoxelDephasing } from './intravoxel-dephasing.js';
+export { unrecoverableSignal, DEPHASING_KEPT_BELOW, type UnrecoverableSignal } from './unrecoverable-signal.js';
+export { reversedPhaseEncodeShift, type ReversedPhaseEncodeOptions, type ReversedPhaseEncodeShift } from './reversed-phase-encode-shift.js';

@@ -53,6 +53,10 @@ export const ERROR_ADVICE = {
   FIELD_MAP_INVALID: 'Give one 3D field map in Hz with finite values on the run\'s grid (set voxels outside the head to 0, not NaN).',
   READOUT_TIME_MISSING: 'A field map displaces the signal by (Hz x total readout time): set TotalReadoutTime (s) in the BIDS sidecar, or EffectiveEchoSpacing (s) from which it is computed, or pass totalReadoutTimeSec.',
   PHASE_ENCODE_MISSING: 'A field map displaces the signal along the phase-encode axis: set PhaseEncodingDirection (i, j or k, with - for the reversed direction) in the BIDS sidecar, or pass phaseEncodingDirection.',
+  PHASE_ENCODE_INVALID: 'PhaseEncodingDirection names a voxel axis of the image (BIDS: i, j or k, with - for the reversed direction), not a world axis (x, y, z) or an anatomical label (AP, PA): fix it in the BIDS sidecar of the named image.',
+  FIELD_MAP_NO_AFFINE: 'A field map on another grid than the run is placed on the run through both voxel-to-world mappings: give the field map (and the run) a NIfTI header with an sform or qform (code > 0), or resample the field map onto the run\'s grid first.',
+  UNWARP_INPUT_MISSING: 'Unwarping needs the B0 field: give a field map in Hz on the run\'s grid (boldsweep sweep --field-map <nii>; library: runSweep(run, spec, { fieldMapHz })) for method field-map, or a pair of images with opposite phase-encode directions (runSweep option phaseEncodePair) for method reversed-pe.',
+  PHASE_ENCODE_PAIR_INVALID: 'A reversed phase-encode pair is two images on the run\'s grid whose sidecars give PhaseEncodingDirection along the same voxel axis in opposite senses (e.g. j and j-) and the same TotalReadoutTime (or EffectiveEchoSpacing).',
   SLICE_TIMING_INVALID: 'Slice times are seconds from the start of each volume, each at least 0 and below RepetitionTime: fix SliceTiming in the BIDS sidecar (check it is in seconds, not milliseconds), or pass slice times made for your acquisition order.',
   // parallel work
   WORKER_SCRIPT_MISSING: 'Worker threads run compiled JavaScript: build the package first (npm run build) so the worker file exists under dist/.',
