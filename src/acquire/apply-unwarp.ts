@@ -10,7 +10,8 @@ import { NO_TAP, type UnwarpPlan } from './plan-unwarp.js';
  * its taps from it. One-dimensional work per line, so it costs a fraction of a 3D resampling.
  * @param data - volumes `tStart`..`tEnd - 1` of a run, NIfTI order (not modified)
  * @param plan - the unwarping plan of the run's grid
- * @param out - where to write (same layout and length as `data`, not aliasing it)
+ * @param out - where to write (same layout and length as `data`; may be `data` itself: each line is
+ *   read whole before it is written)
  * @param tStart - first volume. __Default value:__ 0
  * @param tEnd - one past the last volume. __Default value:__ all volumes in `data`
  * @returns `out`
@@ -22,7 +23,6 @@ export function applyUnwarp(data: Float32Array, plan: UnwarpPlan, out: Float32Ar
   const n = nx * ny * nz;
   if (data.length % n !== 0) fail('INVALID_ARGUMENT', `data length ${data.length} is not a whole number of ${n}-voxel volumes`);
   if (out.length !== data.length) fail('INVALID_ARGUMENT', `out has ${out.length} values, data ${data.length}`);
-  if (out === data) fail('INVALID_ARGUMENT', 'out must not be the input');
   const end = tEnd ?? data.length / n;
   const axis = plan.axis;
   const len = plan.dims[axis];

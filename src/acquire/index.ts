@@ -25,3 +25,5 @@ export { applyUnwarp } from './apply-unwarp.js';
 export { intravoxelDephasing } from './intravoxel-dephasing.js';
 export { unrecoverableSignal, DEPHASING_KEPT_BELOW, type UnrecoverableSignal } from './unrecoverable-signal.js';
 export { reversedPhaseEncodeShift, type ReversedPhaseEncodeOptions, type ReversedPhaseEncodeShift } from './reversed-phase-encode-shift.js';
+export { checkPhaseEncodePair, type PhaseEncodePair } from './phase-encode-pair.js';
+export { imageAgreement } from './image-agreement.js';
