@@ -27,3 +27,7 @@ export { unrecoverableSignal, DEPHASING_KEPT_BELOW, type UnrecoverableSignal } f
 export { reversedPhaseEncodeShift, type ReversedPhaseEncodeOptions, type ReversedPhaseEncodeShift } from './reversed-phase-encode-shift.js';
 export { checkPhaseEncodePair, type PhaseEncodePair } from './phase-encode-pair.js';
 export { imageAgreement } from './image-agreement.js';
+export { sidecarBeside } from './sidecar-beside.js';
+export { readFieldMapForRun } from './read-field-map-for-run.js';
+export { readPhaseEncodePair } from './read-phase-encode-pair.js';
+export { fieldFromPhaseEncodePair } from './field-from-phase-encode-pair.js';
