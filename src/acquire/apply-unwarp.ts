@@ -1,17 +1,18 @@
-import { boundaryIndex } from '../core/boundary-mode.js';
 import { fail } from '../core/fail.js';
 import { prefilterLine } from '../resample/cubic-bspline-prefilter.js';
-import { NO_TAP, type UnwarpPlan } from './plan-unwarp.js';
+import type { UnwarpPlan } from './plan-unwarp.js';
 
 /**
- * Unwarp volumes of a run along their phase-encode lines with a plan from {@link planUnwarp}: each
- * line is read once (for the cubic kernel, prefiltered into B-spline coefficients with mirror
- * extension, the exact prefilter of the resampling module), and every voxel of the output line takes
- * its taps from it. One-dimensional work per line, so it costs a fraction of a 3D resampling.
- * @param data - volumes `tStart`..`tEnd - 1` of a run, NIfTI order (not modified)
+ * Unwarp volumes of a run along their phase-encode lines with a plan from {@link planUnwarp}: every
+ * output voxel is the weighted sum of the 2 (linear) or 4 (cubic) voxels of its line that the plan
+ * names, read straight from the volume (for the cubic kernel, from the volume's B-spline
+ * coefficients, each line prefiltered with mirror extension by the resampling module's exact
+ * prefilter). One flat pass per volume over precomputed indices, so it costs a fraction of a 3D
+ * resampling.
+ * @param data - volumes `tStart`..`tEnd - 1` of a run, NIfTI order (not modified unless it is `out`)
  * @param plan - the unwarping plan of the run's grid
- * @param out - where to write (same layout and length as `data`; may be `data` itself: each line is
- *   read whole before it is written)
+ * @param out - where to write (same layout and length as `data`; may be `data` itself: each volume
+ *   is copied aside before it is written)
  * @param tStart - first volume. __Default value:__ 0
  * @param tEnd - one past the last volume. __Default value:__ all volumes in `data`
  * @returns `out`
@@ -24,47 +25,43 @@ export function applyUnwarp(data: Float32Array, plan: UnwarpPlan, out: Float32Ar
   if (data.length % n !== 0) fail('INVALID_ARGUMENT', `data length ${data.length} is not a whole number of ${n}-voxel volumes`);
   if (out.length !== data.length) fail('INVALID_ARGUMENT', `out has ${out.length} values, data ${data.length}`);
   const end = tEnd ?? data.length / n;
+  const inPlace = out === data || (out.buffer === data.buffer && out.byteOffset === data.byteOffset);
+  const cubic = plan.kernel === 'cubic';
+  // the volume read: the data themselves, or a copy (in place), or the B-spline coefficients (cubic)
+  const scratch = cubic ? new Float64Array(n) : inPlace ? new Float32Array(n) : null;
+  for (let t = tStart; t < end; t++) {
+    const o = t * n;
+    if (cubic) cubicCoefficients(data, o, plan, scratch as Float64Array);
+    else if (inPlace) (scratch as Float32Array).set(data.subarray(o, o + n));
+    if (cubic) gather4(scratch as Float64Array, 0, plan.sources, plan.weights, out, o, n);
+    else if (scratch) gather2(scratch as Float32Array, 0, plan.sources, plan.weights, out, o, n);
+    else gather2(data, o, plan.sources, plan.weights, out, o, n);
+  }
+  return out;
+}
+
+function gather2(src: Float32Array, so: number, s: Int32Array, w: Float32Array, out: Float32Array, o: number, n: number): void {
+  for (let v = 0, q = 0; v < n; v++, q += 2) out[o + v] = w[q] * src[so + s[q]] + w[q + 1] * src[so + s[q + 1]];
+}
+
+function gather4(src: Float64Array, so: number, s: Int32Array, w: Float32Array, out: Float32Array, o: number, n: number): void {
+  for (let v = 0, q = 0; v < n; v++, q += 4) {
+    out[o + v] = w[q] * src[so + s[q]] + w[q + 1] * src[so + s[q + 1]] + w[q + 2] * src[so + s[q + 2]] + w[q + 3] * src[so + s[q + 3]];
+  }
+}
+
+/** B-spline coefficients of one volume along the plan's axis (each line prefiltered, mirror extension). */
+function cubicCoefficients(data: Float32Array, o: number, plan: UnwarpPlan, coef: Float64Array): void {
+  const [nx, ny, nz] = plan.dims;
   const axis = plan.axis;
   const len = plan.dims[axis];
   const stride = axis === 0 ? 1 : axis === 1 ? nx : nx * ny;
-  const lines = n / len;
-  const line = new Float64Array(len);
-  const scratch = new Float64Array(len);
-  const { first, weights, taps } = plan;
-  const cubic = plan.kernel === 'cubic';
-  for (let t = tStart; t < end; t++) {
-    const o = t * n;
-    for (let li = 0; li < lines; li++) {
-      const base = o + (axis === 0 ? li * nx : axis === 1 ? (li % nx) + nx * ny * Math.floor(li / nx) : li);
-      let any = false;
-      for (let y = 0; y < len; y++) {
-        const x = data[base + y * stride];
-        line[y] = x;
-        if (x !== 0) any = true;
-      }
-      if (!any) {
-        for (let y = 0; y < len; y++) out[base + y * stride] = 0;
-        continue;
-      }
-      if (cubic) prefilterLine(line, 'mirror', scratch);
-      const vBase = base - o;
-      for (let y = 0; y < len; y++) {
-        const v = vBase + y * stride;
-        const f = first[v];
-        if (f === NO_TAP) { out[base + y * stride] = 0; continue; }
-        const w = v * taps;
-        let sum = 0;
-        if (!cubic) {
-          // weights of taps beyond the line are 0: clamp the index only to stay inside the array
-          sum = weights[w] * line[f < 0 ? 0 : f] + weights[w + 1] * line[f + 1 >= len ? len - 1 : f + 1];
-        } else if (f >= 0 && f + 3 < len) {
-          sum = weights[w] * line[f] + weights[w + 1] * line[f + 1] + weights[w + 2] * line[f + 2] + weights[w + 3] * line[f + 3];
-        } else {
-          for (let k = 0; k < 4; k++) sum += weights[w + k] * line[boundaryIndex(f + k, len, 'mirror')];
-        }
-        out[base + y * stride] = sum;
-      }
-    }
+  const lines = (nx * ny * nz) / len;
+  const line = new Float64Array(len), scratch = new Float64Array(len);
+  for (let li = 0; li < lines; li++) {
+    const base = axis === 0 ? li * nx : axis === 1 ? (li % nx) + nx * ny * Math.floor(li / nx) : li;
+    for (let y = 0; y < len; y++) line[y] = data[o + base + y * stride];
+    prefilterLine(line, 'mirror', scratch);
+    for (let y = 0; y < len; y++) coef[base + y * stride] = line[y];
   }
-  return out;
 }

@@ -1,3 +1,4 @@
+import { boundaryIndex } from '../core/boundary-mode.js';
 import { fail } from '../core/fail.js';
 
 /** Interpolation along a phase-encode line when unwarping: 'linear' (2 taps) or 'cubic' (cubic B-spline, 4 taps on prefiltered lines). */
@@ -8,7 +9,7 @@ export const UNWARP_KERNELS: readonly UnwarpKernel[] = ['linear', 'cubic'];
 
 /**
  * What unwarping does at every voxel, computed once from a shift map and used for every volume:
- * the line-local index of the first tap and the tap weights (the Jacobian folded in).
+ * the voxels its taps read (indices within a volume) and the tap weights (the Jacobian folded in).
  */
 export interface UnwarpPlan {
   dims: [number, number, number];
@@ -19,7 +20,9 @@ export interface UnwarpPlan {
   taps: number;
   /** Per voxel: line-local index of its first tap, or NO_TAP when it reads from outside the line. */
   first: Int32Array;
-  /** Per voxel, `taps` weights (interpolation weight x Jacobian). */
+  /** Per voxel, `taps` voxel indices within a volume that the taps read (a tap beyond the line reads a voxel of the line with weight 0, or the mirrored voxel for cubic). */
+  sources: Int32Array;
+  /** Per voxel, `taps` weights (interpolation weight x Jacobian; all 0 for NO_TAP). */
   weights: Float32Array;
   /** Per voxel: the Jacobian 1 + d(shift)/dy (before clamping at 0; 1 when not applied). */
   jacobian: Float32Array;
@@ -62,6 +65,7 @@ export function planUnwarp(
   const stride = axis === 0 ? 1 : axis === 1 ? dims[0] : dims[0] * dims[1];
   const taps = options.kernel === 'linear' ? 2 : 4;
   const first = new Int32Array(n).fill(NO_TAP);
+  const sources = new Int32Array(n * taps);
   const weights = new Float32Array(n * taps);
   const jacobian = new Float32Array(n);
   for (let v = 0; v < n; v++) {
@@ -77,6 +81,8 @@ export function planUnwarp(
     const factor = options.jacobian ? Math.max(0, jac) : 1;
     const p = y + s;
     const w = v * taps;
+    const lineBase = v - y * stride;
+    for (let t = 0; t < taps; t++) sources[w + t] = v;
     if (options.kernel === 'linear') {
       // zeros beyond the line's ends, as in the forward model
       if (!(p > -1 && p < len)) continue;
@@ -84,6 +90,8 @@ export function planUnwarp(
       first[v] = i0;
       weights[w] = i0 >= 0 ? factor * (1 - f) : 0;
       weights[w + 1] = i0 + 1 < len ? factor * f : 0;
+      sources[w] = lineBase + Math.max(0, i0) * stride;
+      sources[w + 1] = lineBase + Math.min(len - 1, i0 + 1) * stride;
     } else {
       if (!(p >= 0 && p <= len - 1)) continue;
       const i0 = Math.floor(p), f = p - i0;
@@ -94,7 +102,9 @@ export function planUnwarp(
       weights[w + 1] = factor * ((4 - 6 * f * f + 3 * f * f * f) / 6);
       weights[w + 2] = factor * ((4 - 6 * g * g + 3 * g * g * g) / 6);
       weights[w + 3] = factor * ((f * f * f) / 6);
+      // the coefficients are mirror-extended beyond the line (the prefilter's own extension)
+      for (let t = 0; t < 4; t++) sources[w + t] = lineBase + boundaryIndex(i0 - 1 + t, len, 'mirror') * stride;
     }
   }
-  return { dims: [dims[0], dims[1], dims[2]], axis, kernel: options.kernel, taps, first, weights, jacobian };
+  return { dims: [dims[0], dims[1], dims[2]], axis, kernel: options.kernel, taps, first, sources, weights, jacobian };
 }
