@@ -94,6 +94,6 @@ describe('unwarp step', () => {
     expect(await codeOf(() => unwarpStep(run.volume, { method: 'field-map' }, context({ fieldMapHz: new Float32Array(10) })))).toBe('GRID_MISMATCH');
     const pair = { imageA: new Float32Array(n), imageB: new Float32Array(n), directionA: 'j', directionB: 'i-', totalReadoutTimeSec: 0.02 };
     expect(await codeOf(() => unwarpStep(run.volume, { method: 'reversed-pe' } as UnwarpStepParams, context({ phaseEncodePair: pair })))).toBe('PHASE_ENCODE_PAIR_INVALID');
-    expect(await codeOf(() => parseStepParams('unwarp', { method: 'topup' }))).toBe('INVALID_ARGUMENT');
+    expect(await codeOf(() => parseStepParams('unwarp', { method: 'warp-both' }))).toBe('INVALID_ARGUMENT');
   });
 });
