@@ -30,6 +30,12 @@ export {
   motionTablePoses, interleavedSliceTiming, sequentialSliceTiming,
 } from './acquire/index.js';
 
+// distortion: field maps, reversed phase encoding, unwarping, lost signal
+export {
+  b0Readout, shiftMapVoxels, fieldMapFromPhaseDifference, fieldMapOnGrid, planUnwarp, applyUnwarp, unrecoverableSignal,
+  reversedPhaseEncodeShift, readFieldMapForRun, readPhaseEncodePair, fieldFromPhaseEncodePair, imageAgreement, type PhaseEncodePair,
+} from './acquire/index.js';
+
 // plant
 export {
   plantActivations, plantTimeCourse, plantTimeCourses, truthOnGrid, type PlantOptions, type PlantTruth, type PlantedBlob, type BlobShapeSpec,
