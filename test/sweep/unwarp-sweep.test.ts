@@ -4,6 +4,7 @@ import { unrecoverableSignal } from '../../src/acquire/unrecoverable-signal.js';
 import { isBoldsweepError } from '../../src/core/errors.js';
 import { closeSharedWorkerPools } from '../../src/core/worker-pool.js';
 import { resolvePhantomSpec, simulatePhantomRun, TISSUE_LABEL } from '../../src/simulate/index.js';
+import { simulatePhaseEncodePair } from '../../src/simulate/simulate-phase-encode-pair.js';
 import { runSweep, type SweepResult } from '../../src/sweep/runner.js';
 import type { SweepSpecInput } from '../../src/sweep/spec.js';
 
@@ -13,7 +14,8 @@ import type { SweepSpecInput } from '../../src/sweep/spec.js';
 // step unwarps with that true field. A larger sinus (18 mm) and a longer readout (52.5 ms) than the
 // demo's give shifts of 1-3 voxels over a region of cortex large enough to plant in; dephasing is
 // off so the cortex there keeps its signal. Blobs are placed where the field shifts grey matter by at
-// least one voxel (grey or white matter, outside the lost-signal map).
+// least one voxel (grey or white matter, outside the lost-signal map). A third setting unwarps with
+// the field estimated from the phantom's reversed phase-encode pair (runSweep's phaseEncodePair).
 const spec = resolvePhantomSpec({ nVolumes: 80, dims: [30, 36, 24], spacingMm: [5, 5, 5], activation: null, seed: 3, anatomy: { supersample: 1 }, b0: { susceptibilityDifferencePpm: 9.4, dephasing: false, distortion: true } });
 spec.acquisition.effectiveEchoSpacingSec = 0.0015;
 spec.anatomy.geometry.sinus = { centreMm: [0, 50, -44], radiusMm: 18 };
@@ -28,15 +30,19 @@ const brain = Uint8Array.from(labels, (l) => (l === TISSUE_LABEL['grey-matter'] 
 
 const sweepSpec: SweepSpecInput = {
   recipe: [{ step: 'unwarp', params: { method: 'none' } }, { step: 'smooth', params: { fwhmMm: 6 } }],
-  vary: { 'unwarp.method': ['none', 'field-map'] },
+  vary: { 'unwarp.method': ['none', 'field-map', 'reversed-pe'] },
   plant: { sizesFwhmMm: [10], amplitudesPct: [5], count: 2 },
   repeats: 3,
   threshold: { kind: 'fwe-rft' },
   seed: 7,
 };
+// the phantom's reversed phase-encode pair of the same spec (3 volumes each, averaged)
+const simulatedPair = simulatePhaseEncodePair(spec);
+const meanOf = (v: typeof run.volume) => { const n = field.length, m = new Float32Array(n); for (let t = 0; t < v.dims[3]; t++) for (let i = 0; i < n; i++) m[i] += v.data[t * n + i] / v.dims[3]; return m; };
+const phaseEncodePair = { imageA: meanOf(simulatedPair.same.volume), imageB: meanOf(simulatedPair.reversed.volume), directionA: 'j', directionB: 'j-', totalReadoutTimeSec: run.truth.totalReadoutTimeSec };
 let swept: SweepResult;
 beforeAll(async () => {
-  swept = await runSweep(run, sweepSpec, { workers: 2, placementMask: placement, brainMask: brain, fieldMapHz: field });
+  swept = await runSweep(run, sweepSpec, { workers: 2, placementMask: placement, brainMask: brain, fieldMapHz: field, phaseEncodePair });
 }, 300_000);
 afterAll(async () => { await closeSharedWorkerPools(); });
 
@@ -64,6 +70,11 @@ describe('unwarp in a sweep, with planted activations displaced by the field', (
     expect(mean(unwarped, 'dice')).toBeGreaterThan(mean(none, 'dice') + 0.05);
     expect(mean(unwarped, 'hitRate')).toBeGreaterThan(mean(none, 'hitRate'));
     expect(mean(unwarped, 'peakErrorMeanMm')).toBeLessThan(mean(none, 'peakErrorMeanMm'));
+    // the field estimated from the reversed phase-encode pair (on worker threads) does nearly as well
+    // (measured: Dice 0.493, hit rate 0.405, peak error 1.7 mm)
+    const pair = rows('reversed-pe');
+    console.log(`reversed-pe: dice ${mean(pair, 'dice').toFixed(3)}, hit rate ${mean(pair, 'hitRate').toFixed(3)}, peak error ${mean(pair, 'peakErrorMeanMm').toFixed(2)} mm`);
+    expect(mean(pair, 'dice')).toBeGreaterThan(mean(none, 'dice') + 0.05);
     const note = swept.notes.find((n) => swept.plan.settings[n.settingIndex]['unwarp.method'] === 'field-map')!.notes[0];
     expect(note.step).toBe('unwarp');
     expect(note.methodsText).toMatch(/Jacobian/);
