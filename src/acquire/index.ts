@@ -31,3 +31,4 @@ export { sidecarBeside } from './sidecar-beside.js';
 export { readFieldMapForRun } from './read-field-map-for-run.js';
 export { readPhaseEncodePair } from './read-phase-encode-pair.js';
 export { fieldFromPhaseEncodePair } from './field-from-phase-encode-pair.js';
+export { unwarpPhaseEncodePair, type UnwarpedPair } from './unwarp-phase-encode-pair.js';

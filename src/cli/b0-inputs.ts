@@ -1,5 +1,5 @@
 import { basename } from 'node:path';
-import { fieldFromPhaseEncodePair } from '../acquire/field-from-phase-encode-pair.js';
+import { unwarpPhaseEncodePair } from '../acquire/unwarp-phase-encode-pair.js';
 import type { PhaseEncodePair } from '../acquire/phase-encode-pair.js';
 import { readFieldMapForRun } from '../acquire/read-field-map-for-run.js';
 import { readPhaseEncodePair } from '../acquire/read-phase-encode-pair.js';
@@ -15,6 +15,8 @@ export interface CliB0 {
   source: string;
   /** The reversed phase-encode pair, when the field came from one. */
   pair: PhaseEncodePair | null;
+  /** The pair before and after unwarping each image with its displacement, when the field came from one. */
+  pairUnwarped: { imageA: Float32Array; imageB: Float32Array; unwarpedA: Float32Array; unwarpedB: Float32Array } | null;
   /** Paths read (inputs: an output folder may not be theirs). */
   paths: string[];
 }
@@ -35,7 +37,7 @@ export async function cliB0(runPath: string, run: Run, options: { fieldMap?: str
   const dims: [number, number, number] = [run.volume.dims[0], run.volume.dims[1], run.volume.dims[2]];
   if (options.fieldMap) {
     const fieldMapHz = await readFieldMapForRun(options.fieldMap, { volume: run.volume, transformSource: run.info.transformSource });
-    return { fieldMapHz, source: `the field map ${basename(options.fieldMap)}`, pair: null, paths: [options.fieldMap] };
+    return { fieldMapHz, source: `the field map ${basename(options.fieldMap)}`, pair: null, pairUnwarped: null, paths: [options.fieldMap] };
   }
   let pairPaths: [string, string] | null = null;
   if (options.pePair) {
@@ -46,15 +48,16 @@ export async function cliB0(runPath: string, run: Run, options: { fieldMap?: str
     const found = await findB0Siblings(runPath);
     if (found.fieldMap) {
       const fieldMapHz = await readFieldMapForRun(found.fieldMap, { volume: run.volume, transformSource: run.info.transformSource });
-      return { fieldMapHz, source: `the field map ${basename(found.fieldMap)} (found beside the run)`, pair: null, paths: [found.fieldMap] };
+      return { fieldMapHz, source: `the field map ${basename(found.fieldMap)} (found beside the run)`, pair: null, pairUnwarped: null, paths: [found.fieldMap] };
     }
     if (found.phaseEncodeImages.length === 2) pairPaths = [found.phaseEncodeImages[0], found.phaseEncodeImages[1]];
   }
   if (!pairPaths) return null;
   const pair = await readPhaseEncodePair(pairPaths, run.volume);
   const names = pairPaths.map((p) => basename(p)).join(' and ');
+  const u = unwarpPhaseEncodePair(pair, dims);
   return {
-    fieldMapHz: fieldFromPhaseEncodePair(pair, dims), pair, paths: pairPaths,
+    fieldMapHz: u.fieldHz, pair, paths: pairPaths, pairUnwarped: { imageA: pair.imageA, imageB: pair.imageB, unwarpedA: u.unwarpedA, unwarpedB: u.unwarpedB },
     source: `the reversed phase-encode pair ${names}${options.pePair ? '' : ' (found beside the run)'}`,
   };
 }

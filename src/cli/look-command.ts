@@ -66,7 +66,7 @@ Example:
       if (opts.flipAngleDeg !== undefined) options.flipAngleDeg = opts.flipAngleDeg;
       if (opts.mask) options.mask = (await readNifti(opts.mask)).volume;
       const b0 = await cliB0(path, run, { ...(opts.fieldMap ? { fieldMap: opts.fieldMap } : {}), ...(opts.pePair ? { pePair: opts.pePair } : {}), find: opts.b0 });
-      if (b0) options.b0 = { fieldMapHz: b0.fieldMapHz, source: b0.source };
+      if (b0) options.b0 = { fieldMapHz: b0.fieldMapHz, source: b0.source, pairUnwarped: b0.pairUnwarped };
       const look = lookAtRun(run, options);
       const source = run.files.image ?? path;
       // the figure code (vega, vega-lite) loads only now: no other command holds it
@@ -75,6 +75,8 @@ Example:
       console.log(lookConsoleLines(look, path).join('\n'));
       console.log(`recommendation: drop ${look.recommendation.dropInitialVolumes} initial volume(s); censor ${look.recommendation.censorVolumes.length ? look.recommendation.censorVolumes.join(', ') : 'none'}`);
       if (look.b0) console.log(`B0 field from ${look.b0.source}: shift up to ${look.b0.maxAbsShiftVoxels.toFixed(1)} voxels in the mask; signal lost (dephasing or folding) in ${look.b0.lostNearMask} voxels in or next to the mask (${look.b0.lostInMask} inside it)`);
+      const pa = look.b0?.pairAgreement;
+      if (pa) console.log(`reversed phase-encode pair in the mask: correlation ${pa.correlationBefore.toFixed(3)} -> ${pa.correlationAfter.toFixed(3)}, mean |difference| ${pa.meanAbsDifferenceBefore.toFixed(1)} -> ${pa.meanAbsDifferenceAfter.toFixed(1)} after unwarping each`);
       console.log(`tSNR in the mask: median ${look.summaries.tsnr.median.toFixed(1)} (quartiles ${look.summaries.tsnr.q1.toFixed(1)}-${look.summaries.tsnr.q3.toFixed(1)})`);
       console.log(`wrote ${files.length} files to ${opts.out}`);
       console.log(`next: boldsweep spec ${opts.out} --out smoothing.yaml`);

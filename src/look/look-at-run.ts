@@ -86,7 +86,7 @@ export interface LookOptions {
    * and where it came from: the look adds its shift map, the signal-loss map and a `signal-loss`
    * finding (see signalLossLook). __Default value:__ none
    */
-  b0?: { fieldMapHz: Float32Array; source: string } | null;
+  b0?: { fieldMapHz: Float32Array; source: string; pairUnwarped?: { imageA: Float32Array; imageB: Float32Array; unwarpedA: Float32Array; unwarpedB: Float32Array } | null } | null;
 }
 
 /** Everything a look found: maps, traces, findings and the recommendation. */

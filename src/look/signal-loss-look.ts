@@ -1,4 +1,5 @@
 import { b0Readout } from '../acquire/b0-readout.js';
+import { imageAgreement } from '../acquire/image-agreement.js';
 import { shiftMapVoxels } from '../acquire/shift-map-voxels.js';
 import { unrecoverableSignal } from '../acquire/unrecoverable-signal.js';
 import { isBoldsweepError } from '../core/errors.js';
@@ -41,13 +42,16 @@ export interface LookB0 {
   maxAbsShiftVoxels: number;
   /** The criterion, in words. */
   criterion: string;
+  /** When the field came from a reversed phase-encode pair: its agreement inside the mask before and after unwarping each image. */
+  pairAgreement?: { correlationBefore: number; correlationAfter: number; meanAbsDifferenceBefore: number; meanAbsDifferenceAfter: number };
 }
 
 /**
  * The B0 part of a look: the field's shift map (sidecar PhaseEncodingDirection and TotalReadoutTime
  * or EffectiveEchoSpacing), the signal-loss map ({@link unrecoverableSignal}, with the sidecar's
  * EchoTime) and, when some of the brain mask is lost, a `signal-loss` finding.
- * @param field - field offset in Hz on the run's grid, and where it came from
+ * @param field - field offset in Hz on the run's grid, where it came from, and (from a reversed
+ *   phase-encode pair) the pair before and after unwarping, for their agreement in the mask
  * @param dims - the run's [nx, ny, nz]
  * @param sidecar - the run's sidecar
  * @param mask - the look's brain mask
@@ -56,7 +60,7 @@ export interface LookB0 {
  * @example const { b0, finding } = signalLossLook({ fieldMapHz, source: 'sub-01_fieldmap.nii.gz' }, [64, 64, 36], run.sidecar, mask)
  */
 export function signalLossLook(
-  field: { fieldMapHz: Float32Array; source: string },
+  field: { fieldMapHz: Float32Array; source: string; pairUnwarped?: { imageA: Float32Array; imageB: Float32Array; unwarpedA: Float32Array; unwarpedB: Float32Array } | null },
   dims: readonly [number, number, number],
   sidecar: Sidecar | null,
   mask: Uint8Array,
@@ -93,13 +97,20 @@ export function signalLossLook(
     source: field.source, fieldMapHz: field.fieldMapHz, shiftVoxels, axis: readout.phaseEncodeAxis, lost: loss.lost,
     lostInMask, lostNearMask, lostNear, dephasedInMask, foldedInMask, lostPercentOfMask: pct, maxAbsShiftVoxels: maxShift, criterion: loss.criterion,
   };
+  if (field.pairUnwarped) {
+    const p = field.pairUnwarped;
+    const before = imageAgreement(p.imageA, p.imageB, mask), after = imageAgreement(p.unwarpedA, p.unwarpedB, mask);
+    b0.pairAgreement = { correlationBefore: before.correlation, correlationAfter: after.correlation, meanAbsDifferenceBefore: before.meanAbsDifference, meanAbsDifferenceAfter: after.meanAbsDifference };
+  }
   if (lostNearMask === 0) return { b0, finding: null, skipped: null };
   const axisName = ['i', 'j', 'k'][readout.phaseEncodeAxis];
   const finding: Finding = {
     kind: 'signal-loss', volumes: [], slices: [], voxels: [],
     evidence: {
       lostVoxelsInMask: lostInMask, lostVoxelsNearMask: lostNearMask, lostPercentOfMask: Number(pct.toFixed(2)), dephasedVoxelsInMask: dephasedInMask, foldedVoxelsInMask: foldedInMask,
-      maxAbsShiftVoxels: Number(maxShift.toFixed(2)), totalReadoutTimeSec: readout.totalReadoutTimeSec, ...(te !== null ? { echoTimeSec: te } : {}), fieldSource: field.source,
+      maxAbsShiftVoxels: Number(maxShift.toFixed(2)),
+      ...(b0.pairAgreement ? { pairCorrelationBefore: Number(b0.pairAgreement.correlationBefore.toFixed(4)), pairCorrelationAfter: Number(b0.pairAgreement.correlationAfter.toFixed(4)) } : {}),
+      totalReadoutTimeSec: readout.totalReadoutTimeSec, ...(te !== null ? { echoTimeSec: te } : {}), fieldSource: field.source,
     },
     reason: `from ${field.source}: ${loss.criterion}; the largest shift in the brain mask is ${maxShift.toFixed(1)} voxels along ${axisName}`,
     advice: FINDING_ADVICE['signal-loss'],

@@ -52,7 +52,7 @@ export function lookSummaryJson(look: LookResult, source: LookSource | string): 
     findings: look.findings,
     ...(look.b0 ? { b0: {
       source: look.b0.source, phaseEncodeAxis: look.b0.axis, maxAbsShiftVoxels: look.b0.maxAbsShiftVoxels, lostVoxelsInMask: look.b0.lostInMask, lostVoxelsNearMask: look.b0.lostNearMask, nearMaskVoxels: SIGNAL_LOSS_NEAR_MASK_VOXELS,
-      dephasedVoxelsInMask: look.b0.dephasedInMask, foldedVoxelsInMask: look.b0.foldedInMask, lostPercentOfMask: look.b0.lostPercentOfMask, criterion: look.b0.criterion,
+      dephasedVoxelsInMask: look.b0.dephasedInMask, foldedVoxelsInMask: look.b0.foldedInMask, lostPercentOfMask: look.b0.lostPercentOfMask, criterion: look.b0.criterion, ...(look.b0.pairAgreement ? { pairAgreementInMask: look.b0.pairAgreement } : {}),
     } } : {}),
   };
 }

@@ -3,7 +3,7 @@ import { b0Readout } from '../acquire/b0-readout.js';
 import { imageAgreement } from '../acquire/image-agreement.js';
 import { checkPhaseEncodePair } from '../acquire/phase-encode-pair.js';
 import { planUnwarp, UNWARP_KERNELS, type UnwarpKernel } from '../acquire/plan-unwarp.js';
-import { reversedPhaseEncodeShift } from '../acquire/reversed-phase-encode-shift.js';
+import { unwarpPhaseEncodePair } from '../acquire/unwarp-phase-encode-pair.js';
 import { shiftMapVoxels } from '../acquire/shift-map-voxels.js';
 import { unrecoverableSignal } from '../acquire/unrecoverable-signal.js';
 import { fail } from '../core/fail.js';
@@ -54,7 +54,7 @@ export const UNWARP_PAIR_SMOOTH_FWHM_VOXELS = 2;
 /**
  * What the unwarping step estimates from the run (not planted): the shift map of the run's signal
  * along its phase-encode axis, from the field map (`field-map`) or from the reversed phase-encode
- * pair (`reversed-pe`: the pair's displacement by {@link reversedPhaseEncodeShift}, turned into Hz
+ * pair (`reversed-pe`: the pair's displacement by {@link unwarpPhaseEncodePair}, turned into Hz
  * with the pair's readout and into the run's shift with the run's), plus the voxels whose signal is
  * lost ({@link unrecoverableSignal}) inside the brain mask.
  * @param volume - the run (its grid and TR only)
@@ -84,13 +84,9 @@ export function unwarpEstimate(volume: Volume, params: UnwarpStepParams, context
     if (!pair) fail('UNWARP_INPUT_MISSING', 'unwarp method reversed-pe: no reversed phase-encode pair was given');
     const a = checkPhaseEncodePair(pair, n);
     if (a.axis !== readout.phaseEncodeAxis) fail('PHASE_ENCODE_PAIR_INVALID', `the pair is phase-encoded along voxel axis ${a.axis}, the run along ${readout.phaseEncodeAxis}`);
-    const est = reversedPhaseEncodeShift(pair.imageA, pair.imageB, dims, a.axis, { smoothFwhmVoxels: UNWARP_PAIR_SMOOTH_FWHM_VOXELS });
-    fieldHz = new Float32Array(n);
-    for (let v = 0; v < n; v++) fieldHz[v] = est.shiftVoxels[v] / (a.sign * pair.totalReadoutTimeSec);
-    // agreement of the pair before and after unwarping each with its own shift
-    const sB = est.shiftVoxels.map((x) => -x);
-    const ua = applyUnwarp(pair.imageA, planUnwarp(est.shiftVoxels, dims, a.axis, { kernel: 'linear', jacobian: true }), new Float32Array(n));
-    const ub = applyUnwarp(pair.imageB, planUnwarp(sB, dims, a.axis, { kernel: 'linear', jacobian: true }), new Float32Array(n));
+    const u = unwarpPhaseEncodePair(pair, dims, UNWARP_PAIR_SMOOTH_FWHM_VOXELS);
+    fieldHz = u.fieldHz;
+    const est = u, ua = u.unwarpedA, ub = u.unwarpedB;
     const before = imageAgreement(pair.imageA, pair.imageB, context.mask);
     const after = imageAgreement(ua, ub, context.mask);
     Object.assign(diagnostics, {
