@@ -29,6 +29,7 @@ export {
   acquisitionModel, type AcquisitionModel, type AcquisitionOptions, type B0Displacement, type MotionRow, rigidMotionAffine,
   motionTablePoses, interleavedSliceTiming, sequentialSliceTiming,
 } from './acquire/index.js';
+export { sliceOrderTiming, SLICE_ORDERS, type SliceOrder } from './acquire/index.js';
 
 // distortion: field maps, reversed phase encoding, unwarping, lost signal
 export {
@@ -46,6 +47,8 @@ export {
   type StepNote, type StepContext, type StepResult, type StepFunction, type StepDefinition, type StepKind, type ParameterLabel, type RegisterStepOptions,
   registerStep, getStep, listSteps, parseStepParams, applyStep, describeStep,
 } from './steps/index.js';
+export { sliceTimeStep, type SliceTimeParams } from './steps/index.js';
+export { sliceTimingGuidance, type SliceTimingGuidance, aliasedFrequencyHz } from './model/index.js';
 export { smoothRun, smoothVolume3d } from './filter/index.js';
 export {
   type InterpolationKernel, INTERPOLATION_KERNELS, type ResampleOptions, type ResampleRunOptions, type DisplacementField,

@@ -32,3 +32,4 @@ export { readFieldMapForRun } from './read-field-map-for-run.js';
 export { readPhaseEncodePair } from './read-phase-encode-pair.js';
 export { fieldFromPhaseEncodePair } from './field-from-phase-encode-pair.js';
 export { unwarpPhaseEncodePair, type UnwarpedPair } from './unwarp-phase-encode-pair.js';
+export { sliceOrderTiming, SLICE_ORDERS, type SliceOrder } from './slice-order-timing.js';

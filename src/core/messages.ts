@@ -58,6 +58,10 @@ export const ERROR_ADVICE = {
   UNWARP_INPUT_MISSING: 'Unwarping needs the B0 field: give a field map in Hz on the run\'s grid (boldsweep sweep --field-map <nii>; library: runSweep(run, spec, { fieldMapHz })) for method field-map, or a pair of images with opposite phase-encode directions (runSweep option phaseEncodePair) for method reversed-pe.',
   PHASE_ENCODE_PAIR_INVALID: 'A reversed phase-encode pair is two images on the run\'s grid whose sidecars give PhaseEncodingDirection along the same voxel axis in opposite senses (e.g. j and j-) and the same TotalReadoutTime (or EffectiveEchoSpacing).',
   SLICE_TIMING_INVALID: 'Slice times are seconds from the start of each volume, each at least 0 and below RepetitionTime: fix SliceTiming in the BIDS sidecar (check it is in seconds, not milliseconds), or pass slice times made for your acquisition order.',
+  SLICE_TIMING_MULTIBAND: 'A multiband factor is the number of slices read at once and must divide the slice count: check MultibandAccelerationFactor in the protocol, or give SliceTiming in the BIDS sidecar instead.',
+  SLICE_TIMING_MISSING: 'Slice-timing correction needs each slice\'s acquisition time: set SliceTiming (seconds, one per slice) in the BIDS sidecar, or give the step an order (ascending, descending, interleaved-odd-first, interleaved-even-first) and a multiband factor.',
+  SLICE_AXIS_UNSUPPORTED: 'Slice-timing correction works on slices stacked along the third image axis (SliceEncodingDirection k or k- in the BIDS sidecar): reorient the run so its slices lie along the third axis, or fix SliceEncodingDirection if it is wrong.',
+  SLICE_TIME_REFERENCE_INVALID: 'The reference is a slice index from 0 to the slice count - 1, or a time in seconds from 0 to below RepetitionTime; the default (middle of the TR) is usually right.',
   // parallel work
   WORKER_SCRIPT_MISSING: 'Worker threads run compiled JavaScript: build the package first (npm run build) so the worker file exists under dist/.',
   KERNEL_MISSING: 'The WebAssembly kernels are compiled at build time: run npm run build (it writes dist/kernels/ from kernels/).',

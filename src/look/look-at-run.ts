@@ -1,3 +1,4 @@
+import { sliceTimingGuidance, type SliceTimingGuidance } from '../model/slice-timing-guidance.js';
 import { fail } from '../core/fail.js';
 import { volumeLike, voxelsPerVolume, type Volume } from '../core/volume.js';
 import type { Run } from '../io/run-types.js';
@@ -141,6 +142,11 @@ export interface LookResult {
   trSec: number;
   /** What the B0 field given in the options does (shift map, lost signal); absent without one. */
   b0?: LookB0 | null;
+  /**
+   * Guidance on slice-timing correction at the run's TR (shift or model, the aliased cardiac and
+   * respiratory frequencies: sliceTimingGuidance), or null without a TR.
+   */
+  sliceTiming: SliceTimingGuidance | null;
 }
 
 /**
@@ -364,6 +370,7 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
     settings: { detrendOrder, volumeCutoffZ, sliceCutoffZ, spikeCutoffZ, steadyCutoffZ, t1Sec: model?.t1Sec ?? options.t1Sec ?? GREY_MATTER_T1_SEC_3T, maxSpikeFindings, dropInitialVolumes: options.dropInitialVolumes ?? 'auto', ddof: stats.ddof, maskSource: mask.source },
     dims: [nx, ny, nz, nt], trSec,
     ...(b0Look ? { b0: b0Look.b0 } : {}),
+    sliceTiming: trSec > 0 ? sliceTimingGuidance(trSec) : null,
   };
   spareSums = sums; // nothing returned above refers to the sums' arrays
   return result;

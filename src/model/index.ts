@@ -33,3 +33,5 @@ export { thresholdCalibrated, calibratedCriticalValue, minimumNullDesigns, type 
 export { thresholdRftBonferroni, type RftBonferroniDetails } from './threshold-rft-bonferroni.js';
 export { clusterTheory, clusterFweP, minClusterVoxels, type ClusterTheory, type ClusterTheoryInput } from './cluster-extent.js';
 export { thresholdClusterExtent, type ClusterExtentOptions, type ClusterExtentDetails, type ClusterInfo } from './threshold-cluster.js';
+export { aliasedFrequencyHz } from './aliased-frequency.js';
+export { type SliceTimingGuidance, type AliasedRhythm, LONG_TR_SEC, PHYSIOLOGICAL_RATES_HZ, sliceTimingGuidance } from './slice-timing-guidance.js';

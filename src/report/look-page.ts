@@ -59,6 +59,7 @@ ${summaryRow('tSNR', look.summaries.tsnr, 'dimensionless')}
 </tbody></table>
 <p><b>Brain mask:</b> ${look.mask.voxels} voxels; ${e(look.mask.method)}.</p>
 <p><b>Steady state:</b> the global mean settles after ${steady.dataCount} volume${steady.dataCount === 1 ? '' : 's'}${steady.modelCount !== null ? `; the grey-matter model predicts ${steady.modelCount}` : ''}${steady.perVoxel ? `; the per-voxel model ${steady.perVoxel.count}` : ''}.</p>
+${look.sliceTiming ? `<p><b>Slice timing at TR ${look.trSec} s:</b> ${e(look.sliceTiming.lines.join(' '))}</p>` : ''}
 <p class="small">Cutoffs (robust z): volumes ${look.settings.volumeCutoffZ}, slices ${look.settings.sliceCutoffZ}, spikes ${look.settings.spikeCutoffZ}; drift order ${look.settings.detrendOrder}.</p></section>
 ${figures.length ? `<section id="figures"><h2>Figures</h2>\n${figureHtml}</section>` : ''}
 <p class="caution">${e(RESEARCH_CAUTION)}</p>

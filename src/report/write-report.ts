@@ -108,6 +108,8 @@ export async function writeReport(dir: string, folder: SweepFolder, options: Rec
       : 'Planted: nothing (null sweep: every detection is a false alarm)',
     `Repeats: ${spec.repeats} plantings per setting; seed ${spec.seed}`,
     `Model: GLM${spec.model.ar1 ? ` with AR(1) prewhitening (autocorrelation ${spec.model.ar1SmoothFwhmMm > 0 ? `smoothed at ${spec.model.ar1SmoothFwhmMm} mm FWHM` : 'per voxel'})` : ' (OLS)'}${spec.model.highpassCutoffSec ? `, cosine drift cutoff ${spec.model.highpassCutoffSec} s` : ''}; threshold ${thr}`,
+    // guidance a step computed for this run (the slice-time step: shift or model at this TR, aliased rhythms)
+    ...[...new Set(record.stepNotes.map((n) => n.diagnostics.guidance).filter((g): g is string => typeof g === 'string'))].map((g) => `Guidance (${record.stepNotes.find((n) => n.diagnostics.guidance === g)!.step}): ${g}`),
   ];
   const st = result.stats;
   const runLines = [

@@ -20,6 +20,13 @@ export interface PhantomAcquisition {
   phaseEncodingDirection: 'j' | 'j-';
   /** Main field strength, tesla. __Default value:__ 3 */
   fieldStrengthT: number;
+  /**
+   * Slices read at once (simultaneous multi-slice): the slices form this many bands of neighbouring
+   * slices and each band follows the interleaved order over the TR (sliceOrderTiming); must divide
+   * the slice count. The sidecar then carries MultibandAccelerationFactor. Absent from the defaults,
+   * so runs without it keep their bytes. __Default value:__ absent (1: one slice at a time)
+   */
+  multibandFactor?: number;
 }
 
 /** Where and how strongly grey matter responds to the task. */
@@ -290,6 +297,7 @@ function checkPhantomSpec(s: PhantomSpec): void {
   if (!(a.effectiveEchoSpacingSec > 0) || !(a.effectiveEchoSpacingSec < 0.01)) bad('acquisition.effectiveEchoSpacingSec', 'must be in (0, 0.01) s', a.effectiveEchoSpacingSec);
   if (a.phaseEncodingDirection !== 'j' && a.phaseEncodingDirection !== 'j-') bad('acquisition.phaseEncodingDirection', "must be 'j' or 'j-'", a.phaseEncodingDirection);
   if (!(a.fieldStrengthT > 0)) bad('acquisition.fieldStrengthT', 'must be positive', a.fieldStrengthT);
+  if (a.multibandFactor !== undefined && (!Number.isInteger(a.multibandFactor) || a.multibandFactor < 1 || s.dims[2] % a.multibandFactor !== 0)) bad('acquisition.multibandFactor', `must be a positive integer dividing the ${s.dims[2]} slices`, a.multibandFactor);
   if (!Number.isInteger(s.anatomy.supersample) || s.anatomy.supersample < 1 || s.anatomy.supersample > 8) bad('anatomy.supersample', 'must be an integer in 1..8', s.anatomy.supersample);
   for (const t of PHANTOM_TISSUES) {
     const p = s.tissues[t];

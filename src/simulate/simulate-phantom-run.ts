@@ -17,6 +17,7 @@ import type { Sidecar } from '../io/run-types.js';
 import { distortAlongAxis } from '../acquire/distort-along-axis.js';
 import { headFieldShiftVoxels } from '../acquire/head-field-shift-voxels.js';
 import { interleavedSliceTiming } from '../acquire/interleaved-slice-timing.js';
+import { sliceOrderTiming } from '../acquire/slice-order-timing.js';
 import { motionTablePoses } from '../acquire/motion-table-poses.js';
 import { phaseEncodeAxis } from '../acquire/phase-encode-axis.js';
 import type { MotionRow } from '../acquire/rigid-motion-affine.js';
@@ -84,7 +85,9 @@ export function simulatePhantomRun(input: PhantomSpecInput = {}): PhantomRun {
   const fractions = PHANTOM_TISSUES.map((t) => anatomy.fractions[t]);
 
   // 3. timing: every slice is read at its own time within the TR
-  const sliceTiming = interleavedSliceTiming(nz, tr);
+  // multiband: bands of the interleaved order read at once (without the option, the order as before)
+  const multiband = spec.acquisition.multibandFactor ?? 1;
+  const sliceTiming = multiband > 1 ? sliceOrderTiming(nz, tr, 'interleaved-odd-first', { multibandFactor: multiband }) : interleavedSliceTiming(nz, tr);
   const times = new Float64Array(nt * nz);
   for (let n = 0; n < nt; n++) for (let k = 0; k < nz; k++) times[n * nz + k] = n * tr + sliceTiming[k];
   const events = spec.design ? blockDesignEvents(spec.design, nt * tr) : [];
@@ -219,6 +222,7 @@ export function simulatePhantomRun(input: PhantomSpecInput = {}): PhantomRun {
     FlipAngle: acq.flipAngleDeg,
     SliceTiming: sliceTiming,
     SliceEncodingDirection: 'k',
+    ...(multiband > 1 ? { MultibandAccelerationFactor: multiband } : {}),
     PhaseEncodingDirection: acq.phaseEncodingDirection,
     EffectiveEchoSpacing: acq.effectiveEchoSpacingSec,
     TotalReadoutTime: Math.round(readoutSec * 1e9) / 1e9,

@@ -10,6 +10,8 @@ import { kernelSimplicity, resampleOutputFrame, resampleStep, type ResampleStepP
 import { detrendStep, highpassStep, type DetrendParams, type HighpassParams } from './temporal-filter.js';
 import { UNWARP_KERNELS, type UnwarpKernel } from '../acquire/plan-unwarp.js';
 import { UNWARP_METHODS, unwarpEstimate, unwarpSimplicity, unwarpStep, type UnwarpEstimate, type UnwarpMethod, type UnwarpStepParams } from './unwarp-step.js';
+import { SLICE_TIME_METHODS, sliceTimeStep, type SliceTimeMethod, type SliceTimeParams } from './slice-time-step.js';
+import { SLICE_ORDERS, type SliceOrder } from '../acquire/slice-order-timing.js';
 
 // Schemas check types and fixed ranges; limits that depend on the run (FOV, number of volumes)
 // are checked by the steps themselves.
@@ -116,9 +118,37 @@ const unwarp: StepDefinition<UnwarpStepParams, UnwarpEstimate> = {
   describe: (p) => (p.method === 'none' ? 'no unwarping' : `unwarp ${p.method}${p.kernel && p.kernel !== 'linear' ? ` ${p.kernel}` : ''}${p.jacobian === false ? ' (no Jacobian)' : ''}`),
 };
 
+const sliceTimeMethods = SLICE_TIME_METHODS as unknown as [SliceTimeMethod, ...SliceTimeMethod[]];
+const sliceOrders = SLICE_ORDERS as unknown as [SliceOrder, ...SliceOrder[]];
+// data left as acquired < two taps < four taps < every sample
+const SLICE_TIME_SIMPLICITY: Record<SliceTimeMethod, number> = { model: 0, linear: 1, cubic: 2, fourier: 3 };
+
+const sliceTime: StepDefinition<SliceTimeParams> = {
+  schema: z.object({
+    method: z.enum(sliceTimeMethods).default('fourier'),
+    referenceSlice: z.number().int().min(0).optional(),
+    referenceSec: z.number().finite().min(0).optional(),
+    order: z.enum(sliceOrders).optional(),
+    multibandFactor: z.number().int().min(1).default(1),
+  }).strict(),
+  version: 1,
+  kind: 'temporal',
+  apply: sliceTimeStep,
+  labels: {
+    method: { name: 'slice-timing method', unit: '' }, referenceSlice: { name: 'slice-timing reference slice', unit: '' },
+    referenceSec: { name: 'slice-timing reference time', unit: 's' },
+    order: { name: 'slice order', unit: '' }, multibandFactor: { name: 'multiband factor', unit: '' },
+  },
+  simplicity: (p) => SLICE_TIME_SIMPLICITY[p.method ?? 'fourier'],
+  describe: (p) => {
+    const ref = p.referenceSlice !== undefined ? ` to slice ${p.referenceSlice}` : p.referenceSec !== undefined ? ` to ${p.referenceSec} s` : '';
+    return `slice-time ${p.method ?? 'fourier'}${ref}${p.order ? ` (${p.order}${(p.multibandFactor ?? 1) > 1 ? ` mb${p.multibandFactor}` : ''})` : ''}`;
+  },
+};
+
 /**
  * Register the steps boldsweep ships with: smooth, percent-signal-change, grand-mean-scale,
- * highpass, detrend, drop-initial-volumes, resample, unwarp (called once by the registry module).
+ * highpass, detrend, drop-initial-volumes, resample, unwarp, slice-time (called once by the registry module).
  * @param register - the registry's registerStep
  * @returns nothing
  * @example registerBuiltinSteps(registerStep)
@@ -132,4 +162,5 @@ export function registerBuiltinSteps(register: <P>(name: string, definition: Ste
   register('drop-initial-volumes', dropInitialVolumes);
   register('resample', resample);
   register('unwarp', unwarp as StepDefinition<unknown>);
+  register('slice-time', sliceTime);
 }

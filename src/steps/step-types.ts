@@ -75,6 +75,12 @@ export interface StepContext {
    * __Default value:__ none
    */
   phaseEncodePair?: PhaseEncodePair | null;
+  /**
+   * True when the model is to sample the task regressors of each slice at that slice's own time in
+   * `sliceTimesSec` (one design per slice time; the `slice-time` step's method 'model', which leaves
+   * the data unshifted). __Default value:__ false (one design for every voxel)
+   */
+  modelAtSliceTimes?: boolean;
 }
 
 /**

@@ -5,6 +5,8 @@ import { contrastMaps } from '../model/contrast.js';
 import { buildDesign } from '../model/design.js';
 import { fitGlmAr1 } from '../model/glm-ar1.js';
 import { fitGlm } from '../model/glm-ols.js';
+import { fitGlmBySliceTime } from '../model/fit-glm-by-slice-time.js';
+import type { GlmFit, GlmOptions } from '../model/glm-fit.js';
 import { estimateSmoothness } from '../model/smoothness.js';
 import { plantActivations, type PlantTruth } from '../plant/plant-activations.js';
 import { plantTimeCourses } from '../plant/plant-time-courses.js';
@@ -344,6 +346,26 @@ function cellDesign(events: readonly BoldEvent[], volume: Volume, ctx: SweepCont
 }
 
 /**
+ * The GLM fit of a cell: one design for every voxel, or, when a step asked the model to sample each
+ * slice's regressors at its own time (`modelAtSliceTimes`, the slice-time step's method 'model')
+ * and the slices were read at different times, one design per distinct slice time
+ * (fitGlmBySliceTime: voxels grouped by slice, each group fitted with its design).
+ */
+function cellFit(events: readonly BoldEvent[], volume: Volume, ctx: SweepContext, model: CellPlan['model'], regressors: readonly NuisanceRegressor[], context: StepContext, glmOptions: GlmOptions): GlmFit {
+  const times = context.sliceTimesSec ?? null;
+  // on a target grid (after resampling) voxels no longer belong to one acquired slice
+  const onRunGrid = (context.frame ?? { kind: 'raw' }).kind !== 'target';
+  if (context.modelAtSliceTimes && onRunGrid && times && times.length === volume.dims[2] && modelSampleTimeSec(times, volume.trSec) === null) {
+    const distinct = [...new Set(times)].sort((a, b) => a - b);
+    const designs = distinct.map((t) => cellDesign(events, volume, ctx, model, regressors, Float64Array.of(t)));
+    const ofSlice = Array.from(times, (t) => distinct.indexOf(t));
+    return fitGlmBySliceTime(volume, designs, ofSlice, { ...glmOptions, ar1: model.ar1, ar1SmoothFwhmMm: model.ar1SmoothFwhmMm });
+  }
+  const design = cellDesign(events, volume, ctx, model, regressors, times);
+  return model.ar1 ? fitGlmAr1(volume, design, { ...glmOptions, ar1SmoothFwhmMm: model.ar1SmoothFwhmMm }) : fitGlm(volume, design, glmOptions);
+}
+
+/**
  * Model, threshold and score one preprocessed run.
  * @returns metrics, ROC samples
  */
@@ -361,13 +383,12 @@ function modelAndScore(holder: { volume: Volume | null }, context: StepContext, 
   const truth = truthInFrame(plantedTruth, frame);
 
   const events = context.events!;
-  const design = cellDesign(events, volume, ctx, cell.model, regressors, context.sliceTimesSec ?? null);
   // when the preprocessed run is this thread's work buffer (rebuilt by the next cell anyway), the
   // residuals overwrite it: no run-sized array of the cell's own
   const work = currentWorkBuffer();
   const residualsInWork = work !== null && sharesMemory(work, volume.data) && work.length === volume.data.length;
   const glmOptions = { mask: brain, keepResiduals: true, residualsOut: residualsInWork ? volume.data : undefined };
-  const fit = cell.model.ar1 ? fitGlmAr1(volume, design, { ...glmOptions, ar1SmoothFwhmMm: cell.model.ar1SmoothFwhmMm }) : fitGlm(volume, design, glmOptions);
+  const fit = cellFit(events, volume, ctx, cell.model, regressors, context, glmOptions);
   // the preprocessed run is not needed any more: let it go before the residuals are used
   // voxel sizes of a target grid come from its affine (the step's spacingMm should agree)
   const grid = { dims: [volume.dims[0], volume.dims[1], volume.dims[2]], spacingMm: frame.kind === 'target' ? affineSpacing(frame.grid.affine) : volume.spacingMm };
@@ -550,9 +571,8 @@ export async function runNullTask(task: NullTask): Promise<NullResult> {
   for (let k = 0; k < task.designSeeds.length; k++) {
     const drawn = randomBlockEvents(task.designSeeds[k], runSec, task.design);
     const events = shiftSec > 0 ? shiftEvents(drawn, shiftSec).events : drawn;
-    const design = cellDesign(events, v, ctx, task.model, regressors, context.sliceTimesSec ?? null);
     const glmOptions = { mask: brain, keepResiduals: k === 0 };
-    const fit = task.model.ar1 ? fitGlmAr1(v, design, { ...glmOptions, ar1SmoothFwhmMm: task.model.ar1SmoothFwhmMm }) : fitGlm(v, design, glmOptions);
+    const fit = cellFit(events, v, ctx, task.model, regressors, context, glmOptions);
     const maps = contrastMaps(fit, { [task.design.trialType]: 1 }, { name: task.design.trialType });
     // the maximum over the scored voxels: voxels left out as known to respond to the task would make
     // every design that resembles the task look like a false alarm

@@ -1,9 +1,9 @@
 /**
  * When the model can sample its task regressor at the slices' own time: the slice times the recipe
  * handed on are all one time (slice-timing correction aligned every slice to a reference time), so
- * one design fits every voxel, sampled at that time. Slices acquired at different times would need a
- * design per slice (per-slice fits, not done here): the model then samples mid-volume, as without
- * slice times.
+ * one design fits every voxel, sampled at that time. Slices acquired at different times get a
+ * design per slice time only when a step asked for it (`StepContext.modelAtSliceTimes`, see
+ * `cellFit` in cell-pipeline.ts); otherwise the model samples mid-volume, as without slice times.
  * @param sliceTimesSec - slice acquisition times within a volume (s), or null when unknown
  * @param trSec - repetition time (s)
  * @returns the common time within [0, trSec], or null (sample mid-volume)
