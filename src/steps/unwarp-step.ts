@@ -7,6 +7,8 @@ import { unwarpPhaseEncodePair } from '../acquire/unwarp-phase-encode-pair.js';
 import { shiftMapVoxels } from '../acquire/shift-map-voxels.js';
 import { unrecoverableSignal } from '../acquire/unrecoverable-signal.js';
 import { fail } from '../core/fail.js';
+import { dilateMask } from '../look/binary-morphology.js';
+import { SIGNAL_LOSS_NEAR_MASK_VOXELS } from '../look/signal-loss-look.js';
 import { makeVolume, voxelsPerVolume, type Volume } from '../core/volume.js';
 import type { StepContext, StepFunction } from './step-types.js';
 
@@ -98,8 +100,12 @@ export function unwarpEstimate(volume: Volume, params: UnwarpStepParams, context
   const shiftVoxels = shiftMapVoxels(fieldHz, { totalReadoutTimeSec: readout.totalReadoutTimeSec, sign: readout.phaseEncodeSign });
   const te = typeof context.sidecar?.EchoTime === 'number' ? context.sidecar.EchoTime : null;
   const loss = unrecoverableSignal(fieldHz, dims, shiftVoxels, readout.phaseEncodeAxis, te);
-  let maxShift = 0, lostInMask = 0, inMask = 0;
+  let maxShift = 0, lostInMask = 0, inMask = 0, lostNearMask = 0;
+  // a mask from the mean image leaves out the voids dephasing makes at its edge: count those too
+  let near: Uint8Array | null = context.mask ? Uint8Array.from(context.mask, (x) => (x ? 1 : 0)) : null;
+  for (let r = 0; near && r < SIGNAL_LOSS_NEAR_MASK_VOXELS; r++) near = dilateMask(near, dims);
   for (let v = 0; v < n; v++) {
+    if (loss.lost[v] && (!near || near[v])) lostNearMask++;
     if (context.mask && !context.mask[v]) continue;
     inMask++;
     maxShift = Math.max(maxShift, Math.abs(shiftVoxels[v]));
@@ -107,7 +113,7 @@ export function unwarpEstimate(volume: Volume, params: UnwarpStepParams, context
   }
   Object.assign(diagnostics, {
     totalReadoutTimeSec: readout.totalReadoutTimeSec, maxAbsShiftVoxels: round(maxShift, 3),
-    lostVoxelsInMask: lostInMask, lostPercentOfMask: inMask > 0 ? round((100 * lostInMask) / inMask, 2) : 0,
+    lostVoxelsInMask: lostInMask, lostVoxelsNearMask: lostNearMask, lostPercentOfMask: inMask > 0 ? round((100 * lostInMask) / inMask, 2) : 0,
   });
   return { method, shiftVoxels, axis: readout.phaseEncodeAxis, fieldHz, diagnostics };
 }
@@ -159,9 +165,9 @@ export const unwarpStep: StepFunction<UnwarpStepParams, UnwarpEstimate> = (volum
     note: {
       step: 'unwarp',
       params: applied,
-      summary: `Unwarped along ${axisName} from ${method === 'field-map' ? 'the field map' : 'the reversed phase-encode pair'} (largest shift ${d.maxAbsShiftVoxels} voxels; ${d.lostPercentOfMask} % of the mask lost to dephasing or folding), ${kernel}${jacobian ? ', Jacobian' : ''}`,
+      summary: `Unwarped along ${axisName} from ${method === 'field-map' ? 'the field map' : 'the reversed phase-encode pair'} (largest shift ${d.maxAbsShiftVoxels} voxels; signal lost to dephasing or folding in ${d.lostVoxelsNearMask} voxels in or next to the mask), ${kernel}${jacobian ? ', Jacobian' : ''}`,
       diagnostics: { ...d },
-      methodsText: `Geometric distortion along the phase-encode axis (${axisName}) was corrected with ${source}: each voxel's shift was the field (Hz) times the total readout time (${round(d.totalReadoutTimeSec * 1000, 2)} ms), and each volume was resampled along the phase-encode lines by ${kernelText}${jacobian ? ', with the intensity multiplied by the Jacobian of the shift' : ', without intensity correction'}; ${d.lostPercentOfMask} % of the brain mask lies where the signal is lost to dephasing or folding and cannot be restored.`,
+      methodsText: `Geometric distortion along the phase-encode axis (${axisName}) was corrected with ${source}: each voxel's shift was the field (Hz) times the total readout time (${round(d.totalReadoutTimeSec * 1000, 2)} ms), and each volume was resampled along the phase-encode lines by ${kernelText}${jacobian ? ', with the intensity multiplied by the Jacobian of the shift' : ', without intensity correction'}; ${d.lostVoxelsNearMask} voxels in or within ${SIGNAL_LOSS_NEAR_MASK_VOXELS} voxels of the brain mask (${d.lostVoxelsInMask} inside it, ${d.lostPercentOfMask} % of it) lie where the signal is lost to dephasing or folding and cannot be restored.`,
       citations: METHOD_CITATIONS[method],
     },
   };
