@@ -1,5 +1,5 @@
 import { fail } from '../core/fail.js';
-import { prefilterLine } from '../resample/cubic-bspline-prefilter.js';
+import { initTaps, prefilterBatch, prefilterRow } from '../resample/cubic-bspline-prefilter.js';
 import type { UnwarpPlan } from './plan-unwarp.js';
 
 /**
@@ -50,18 +50,25 @@ function gather4(src: Float64Array, so: number, s: Int32Array, w: Float32Array, 
   }
 }
 
-/** B-spline coefficients of one volume along the plan's axis (each line prefiltered, mirror extension). */
+/**
+ * B-spline coefficients of one volume along the plan's axis (mirror extension, the resampling
+ * module's exact prefilter): the j and k passes run over many contiguous lines at once.
+ */
 function cubicCoefficients(data: Float32Array, o: number, plan: UnwarpPlan, coef: Float64Array): void {
   const [nx, ny, nz] = plan.dims;
+  const n = nx * ny * nz;
   const axis = plan.axis;
   const len = plan.dims[axis];
-  const stride = axis === 0 ? 1 : axis === 1 ? nx : nx * ny;
-  const lines = (nx * ny * nz) / len;
-  const line = new Float64Array(len), scratch = new Float64Array(len);
-  for (let li = 0; li < lines; li++) {
-    const base = axis === 0 ? li * nx : axis === 1 ? (li % nx) + nx * ny * Math.floor(li / nx) : li;
-    for (let y = 0; y < len; y++) line[y] = data[o + base + y * stride];
-    prefilterLine(line, 'mirror', scratch);
-    for (let y = 0; y < len; y++) coef[base + y * stride] = line[y];
-  }
+  coef.set(data.subarray(o, o + n));
+  if (len < 2) return;
+  const t = initTaps(len, 'mirror');
+  const batch = axis === 0 ? 1 : axis === 1 ? nx : nx * ny;
+  if (yp.length < len * batch) yp = new Float64Array(len * batch);
+  if (ym.length < batch) ym = new Float64Array(batch);
+  if (axis === 0) for (let r = 0; r < n; r += nx) prefilterRow(coef, r, nx, t, yp);
+  else if (axis === 1) for (let k = 0; k < nz; k++) prefilterBatch(coef, k * nx * ny, nx, ny, nx, t, yp, ym);
+  else prefilterBatch(coef, 0, nx * ny, nz, nx * ny, t, yp, ym);
 }
+
+let yp = new Float64Array(0);
+let ym = new Float64Array(0);
