@@ -58,7 +58,7 @@ export const UNWARP_PAIR_SMOOTH_FWHM_VOXELS = 2;
  * along its phase-encode axis, from the field map (`field-map`) or from the reversed phase-encode
  * pair (`reversed-pe`: the pair's displacement by {@link unwarpPhaseEncodePair}, turned into Hz
  * with the pair's readout and into the run's shift with the run's), plus the voxels whose signal is
- * lost ({@link unrecoverableSignal}) inside the brain mask.
+ * lost ({@link unrecoverableSignal}) inside the brain mask and within 2 voxels of it.
  * @param volume - the run (its grid and TR only)
  * @param params - method
  * @param context - sidecar (PhaseEncodingDirection, TotalReadoutTime or EffectiveEchoSpacing, EchoTime), fieldMapHz or phaseEncodePair, mask
@@ -88,11 +88,11 @@ export function unwarpEstimate(volume: Volume, params: UnwarpStepParams, context
     if (a.axis !== readout.phaseEncodeAxis) fail('PHASE_ENCODE_PAIR_INVALID', `the pair is phase-encoded along voxel axis ${a.axis}, the run along ${readout.phaseEncodeAxis}`);
     const u = unwarpPhaseEncodePair(pair, dims, UNWARP_PAIR_SMOOTH_FWHM_VOXELS);
     fieldHz = u.fieldHz;
-    const est = u, ua = u.unwarpedA, ub = u.unwarpedB;
+    // the pair's agreement inside the mask before and after unwarping each image with its half
     const before = imageAgreement(pair.imageA, pair.imageB, context.mask);
-    const after = imageAgreement(ua, ub, context.mask);
+    const after = imageAgreement(u.unwarpedA, u.unwarpedB, context.mask);
     Object.assign(diagnostics, {
-      pairLinesMatched: est.linesMatched,
+      pairLinesMatched: u.linesMatched,
       pairCorrelationBefore: round(before.correlation, 4), pairCorrelationAfter: round(after.correlation, 4),
       pairMeanAbsDifferenceBefore: round(before.meanAbsDifference, 2), pairMeanAbsDifferenceAfter: round(after.meanAbsDifference, 2),
     });
