@@ -53,7 +53,7 @@ export async function cliB0(runPath: string, run: Run, options: { fieldMap?: str
     if (found.phaseEncodeImages.length === 2) pairPaths = [found.phaseEncodeImages[0], found.phaseEncodeImages[1]];
   }
   if (!pairPaths) return null;
-  const pair = await readPhaseEncodePair(pairPaths, run.volume);
+  const pair = await readPhaseEncodePair(pairPaths, run.volume, run.info.transformSource !== 'pixdim');
   const names = pairPaths.map((p) => basename(p)).join(' and ');
   const u = unwarpPhaseEncodePair(pair, dims);
   return {
