@@ -35,7 +35,10 @@ export { sliceOrderTiming, SLICE_ORDERS, type SliceOrder } from './acquire/index
 export {
   b0Readout, shiftMapVoxels, fieldMapFromPhaseDifference, fieldMapOnGrid, planUnwarp, applyUnwarp, unrecoverableSignal,
   reversedPhaseEncodeShift, readFieldMapForRun, readPhaseEncodePair, fieldFromPhaseEncodePair, imageAgreement, type PhaseEncodePair,
+  unwarpPhaseEncodePair,
 } from './acquire/index.js';
+export { findB0Siblings } from './io/index.js';
+export { b0Figures } from './report/index.js';
 
 // plant
 export {
