@@ -8,9 +8,13 @@ import { statSync } from 'node:fs';
 import { demoPhantomSpec } from '../src/simulate/phantom-spec.js';
 import { simulatePhantomRun } from '../src/simulate/simulate-phantom-run.js';
 import { writePhantomRun } from '../src/simulate/write-phantom-run.js';
+import { simulatePhaseEncodePair } from '../src/simulate/simulate-phase-encode-pair.js';
+import { writePhaseEncodePair } from '../src/simulate/write-phase-encode-pair.js';
 
 /** File name stem of the demo run (BIDS-like: subject and task entities). */
 export const DEMO_BASE_NAME = 'sub-phantom01_task-flicker';
+/** Subject entity of the demo run's reversed phase-encode pair (`<subject>_dir-<label>_epi`). */
+export const DEMO_SUBJECT = 'sub-phantom01';
 
 async function main(): Promise<void> {
   const dir = process.argv[2];
@@ -21,8 +25,10 @@ async function main(): Promise<void> {
   }
   const run = simulatePhantomRun(demoPhantomSpec());
   const files = await writePhantomRun(dir, run, DEMO_BASE_NAME);
+  // the reversed phase-encode pair of the same head, for unwarping (its own streams from the run's seed)
+  const pairFiles = await writePhaseEncodePair(dir, simulatePhaseEncodePair(demoPhantomSpec()), DEMO_SUBJECT);
   let total = 0;
-  for (const path of Object.values(files)) {
+  for (const path of [...Object.values(files), ...pairFiles]) {
     const bytes = statSync(path).size;
     total += bytes;
     process.stdout.write(`${path}\t${bytes} bytes\n`);

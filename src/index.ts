@@ -31,6 +31,15 @@ export {
 } from './acquire/index.js';
 export { sliceOrderTiming, SLICE_ORDERS, type SliceOrder } from './acquire/index.js';
 
+// distortion: field maps, reversed phase encoding, unwarping, lost signal
+export {
+  b0Readout, shiftMapVoxels, fieldMapFromPhaseDifference, fieldMapOnGrid, planUnwarp, applyUnwarp, unrecoverableSignal,
+  reversedPhaseEncodeShift, readFieldMapForRun, readPhaseEncodePair, fieldFromPhaseEncodePair, imageAgreement, type PhaseEncodePair,
+  unwarpPhaseEncodePair,
+} from './acquire/index.js';
+export { findB0Siblings } from './io/index.js';
+export { b0Figures } from './report/index.js';
+
 // plant
 export {
   plantActivations, plantTimeCourse, plantTimeCourses, truthOnGrid, type PlantOptions, type PlantTruth, type PlantedBlob, type BlobShapeSpec,

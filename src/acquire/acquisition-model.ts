@@ -3,12 +3,12 @@ import { fail } from '../core/fail.js';
 import type { Grid } from '../core/grid-frame.js';
 import { assertSameGrid, voxelsPerVolume, type Volume } from '../core/volume.js';
 import type { Sidecar } from '../io/run-types.js';
+import { b0Readout } from './b0-readout.js';
 import { checkSliceTimes } from './check-slice-times.js';
 import { gridCentreMm } from './grid-centre-mm.js';
 import { motionTablePoses } from './motion-table-poses.js';
 import { phaseEncodeAxis } from './phase-encode-axis.js';
 import type { MotionRow } from './rigid-motion-affine.js';
-import { totalReadoutTimeSec } from './total-readout-time.js';
 
 /**
  * The B0 part of an acquisition: a field map fixed to the head and how it displaces the signal.
@@ -147,14 +147,11 @@ function b0Part(field: Volume | ArrayLike<number>, v: Volume, sidecar: Sidecar, 
   const fieldMapHz = Float32Array.from(values);
   const bad = fieldMapHz.findIndex((x) => !Number.isFinite(x));
   if (bad >= 0) fail('FIELD_MAP_INVALID', `field map voxel ${bad} is ${fieldMapHz[bad]}`, { details: { voxel: bad } });
-  const direction = options.phaseEncodingDirection ?? sidecar.PhaseEncodingDirection;
-  if (direction === undefined) fail('PHASE_ENCODE_MISSING', 'a field map was given but the phase-encode direction is unknown');
-  const pe = phaseEncodeAxis(direction);
-  let readout = options.totalReadoutTimeSec ?? sidecar.TotalReadoutTime;
-  if (readout === undefined && sidecar.EffectiveEchoSpacing !== undefined) readout = totalReadoutTimeSec(sidecar.EffectiveEchoSpacing, v.dims[pe.axis]);
-  if (readout === undefined) fail('READOUT_TIME_MISSING', 'a field map was given but the total readout time is unknown');
-  if (!(readout > 0) || !Number.isFinite(readout)) fail('INVALID_ARGUMENT', `the total readout time must be a positive number of seconds, got ${readout}`);
-  return { fieldMapHz, totalReadoutTimeSec: readout, phaseEncodeAxis: pe.axis, phaseEncodeSign: pe.sign };
+  const readout = b0Readout(sidecar, v.dims, {
+    ...(options.phaseEncodingDirection !== undefined ? { phaseEncodingDirection: options.phaseEncodingDirection } : {}),
+    ...(options.totalReadoutTimeSec !== undefined ? { totalReadoutTimeSec: options.totalReadoutTimeSec } : {}),
+  });
+  return { fieldMapHz, ...readout };
 }
 
 function isVolume(x: unknown): x is Volume {

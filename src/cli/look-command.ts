@@ -5,6 +5,7 @@ import { openRun } from '../io/open-run.js';
 import { checkOutputFolder } from '../io/output-folder.js';
 import { lookAtRun, type LookOptions } from '../look/look-at-run.js';
 import { lookConsoleLines } from '../look/look-console-lines.js';
+import { cliB0 } from './b0-inputs.js';
 import { FORCE_HELP, finiteNumber, nonNegativeInt, positiveNumber, withExitCodes } from './cli-common.js';
 
 interface LookCliOptions {
@@ -19,6 +20,9 @@ interface LookCliOptions {
   flipAngleDeg?: number;
   figures: boolean;
   force?: boolean;
+  fieldMap?: string;
+  pePair?: string;
+  b0: boolean;
 }
 
 /**
@@ -41,6 +45,9 @@ export function registerLook(program: Command): Command {
     .option('--spike-cutoff-z <z>', 'robust z cutoff for single-voxel spikes', finiteNumber, 6)
     .option('--t1-sec <s>', 'T1 for the steady-state model check (default grey matter at 3 T, 1.331 s)', positiveNumber)
     .option('--flip-angle-deg <deg>', 'flip angle when the sidecar has none', positiveNumber)
+    .option('--field-map <file>', 'B0 field map in Hz (on the run\'s grid, or on another grid with an sform/qform): the look maps the shift along phase encode and where the signal is lost (default: a BIDS _fieldmap or a _dir-<label>_epi pair found beside the run or in ../fmap)')
+    .option('--pe-pair <a,b>', 'two images with opposite phase-encode directions (BIDS _dir-<label>_epi, with sidecars), joined by a comma: the field is estimated from them')
+    .option('--no-b0', 'do not look for a field map or a reversed phase-encode pair beside the run')
     .option('--no-figures', 'write maps, series and findings only')
     .option('--force', FORCE_HELP)
     .addHelpText('after', `
@@ -49,7 +56,7 @@ Example:
   boldsweep spec look-sub-01 --out smoothing.yaml      (next: a starting spec from the findings)`)
     .action(async (path: string, opts: LookCliOptions) => {
       // refuse an unsafe output folder before the work, not after it
-      checkOutputFolder(opts.out, { force: opts.force, inputs: [path, opts.mask] });
+      checkOutputFolder(opts.out, { force: opts.force, inputs: [path, opts.mask, opts.fieldMap, ...(opts.pePair?.split(',') ?? [])] });
       const run = await openRun(path);
       const options: LookOptions = {
         detrendOrder: opts.detrendOrder, volumeCutoffZ: opts.volumeCutoffZ, sliceCutoffZ: opts.sliceCutoffZ, spikeCutoffZ: opts.spikeCutoffZ,
@@ -58,6 +65,8 @@ Example:
       if (opts.t1Sec !== undefined) options.t1Sec = opts.t1Sec;
       if (opts.flipAngleDeg !== undefined) options.flipAngleDeg = opts.flipAngleDeg;
       if (opts.mask) options.mask = (await readNifti(opts.mask)).volume;
+      const b0 = await cliB0(path, run, { ...(opts.fieldMap ? { fieldMap: opts.fieldMap } : {}), ...(opts.pePair ? { pePair: opts.pePair } : {}), find: opts.b0 });
+      if (b0) options.b0 = { fieldMapHz: b0.fieldMapHz, source: b0.source, pairUnwarped: b0.pairUnwarped };
       const look = lookAtRun(run, options);
       const source = run.files.image ?? path;
       // the figure code (vega, vega-lite) loads only now: no other command holds it
@@ -65,6 +74,9 @@ Example:
       const files = await writeLookFolder(run.volume, look, opts.out, { source, sourceSha256: await hashFile(source), figures: opts.figures, force: opts.force, inputs: [path, opts.mask] });
       console.log(lookConsoleLines(look, path).join('\n'));
       console.log(`recommendation: drop ${look.recommendation.dropInitialVolumes} initial volume(s); censor ${look.recommendation.censorVolumes.length ? look.recommendation.censorVolumes.join(', ') : 'none'}`);
+      if (look.b0) console.log(`B0 field from ${look.b0.source}: shift up to ${look.b0.maxAbsShiftVoxels.toFixed(1)} voxels in the mask; signal lost (dephasing or folding) in ${look.b0.lostNearMask} voxels in or next to the mask (${look.b0.lostInMask} inside it)`);
+      const pa = look.b0?.pairAgreement;
+      if (pa) console.log(`reversed phase-encode pair in the mask: correlation ${pa.correlationBefore.toFixed(3)} -> ${pa.correlationAfter.toFixed(3)}, mean |difference| ${pa.meanAbsDifferenceBefore.toFixed(1)} -> ${pa.meanAbsDifferenceAfter.toFixed(1)} after unwarping each`);
       console.log(`tSNR in the mask: median ${look.summaries.tsnr.median.toFixed(1)} (quartiles ${look.summaries.tsnr.q1.toFixed(1)}-${look.summaries.tsnr.q3.toFixed(1)})`);
       console.log(`wrote ${files.length} files to ${opts.out}`);
       console.log(`next: boldsweep spec ${opts.out} --out smoothing.yaml`);

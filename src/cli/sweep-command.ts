@@ -18,9 +18,8 @@ import { runSweep } from '../sweep/runner.js';
 import { shareVolume } from '../sweep/shared-volume.js';
 import { terminalProgress } from '../sweep/terminal-progress.js';
 import { readMotionTable } from '../io/motion-table-tsv.js';
-import { readNifti } from '../io/nifti-read.js';
-import { assertSameGrid, voxelsPerVolume } from '../core/volume.js';
 import { FORCE_HELP, numberList, positiveInt, withExitCodes } from './cli-common.js';
+import { cliB0 } from './b0-inputs.js';
 
 interface SweepCliOptions {
   spec: string;
@@ -41,6 +40,7 @@ interface SweepCliOptions {
   sidecar?: string;
   motionTable?: string;
   fieldMap?: string;
+  pePair?: string;
   force?: boolean;
 }
 
@@ -62,6 +62,7 @@ export function registerSweepCommand(program: Command): Command {
     .option('--sidecar <file>', 'BIDS sidecar JSON when it is not beside the run as <name>.json')
     .option('--motion-table <file>', 'the head\'s position at each volume (TSV: shiftXMm shiftYMm shiftZMm rotXDeg rotYDeg rotZDeg, one row per volume): planted activations move with the head')
     .option('--field-map <file>', 'B0 field map in Hz on the run\'s grid: planted activations are displaced along phase encode (needs PhaseEncodingDirection and TotalReadoutTime or EffectiveEchoSpacing in the sidecar)')
+    .option('--pe-pair <a,b>', 'two images with opposite phase-encode directions (BIDS _dir-<label>_epi with sidecars) joined by a comma, for the unwarp step\'s method reversed-pe')
     .option('--workers <n>', 'worker threads (default: the spec\'s workers)', positiveInt)
     .option('--shard <i/N>', 'run only shard i of N (1-based), e.g. one task of a cluster job array; merge with "boldsweep gather"')
     .option('--cache <dir>', 'stage cache folder; an interrupted sweep resumes from it (default: <out>/cache)')
@@ -81,7 +82,7 @@ Example:
   boldsweep sweep sub-01_task-motor_bold.nii.gz --spec smoothing.yaml --look look-sub-01 --out sweep-sub-01
   boldsweep report sweep-sub-01      (next: the recommendation and the report)`)
     .action(async (runPath: string, o: SweepCliOptions) => {
-      const inputs = [runPath, o.mask, o.placement, o.exclude, o.events, o.sidecar, o.look, o.motionTable, o.fieldMap];
+      const inputs = [runPath, o.mask, o.placement, o.exclude, o.events, o.sidecar, o.look, o.motionTable, o.fieldMap, ...(o.pePair?.split(',') ?? [])];
       checkOutputFolder(o.out, { force: o.force, inputs });
       let spec = readSweepSpec(o.spec);
       let run = await openRun(runPath, { sharedMemory: true, ...(o.events ? { events: o.events } : {}), ...(o.sidecar ? { sidecar: o.sidecar } : {}) });
@@ -110,12 +111,9 @@ Example:
         exclude: o.exclude ? await maskFromFile(o.exclude, { above: o.excludeAbove ?? 0, growVoxels: o.excludeGrow }) : null,
       };
       const motionTable = o.motionTable ? await readMotionTable(o.motionTable) : null;
-      let fieldMapHz: Float32Array | null = null;
-      if (o.fieldMap) {
-        const field = (await readNifti(o.fieldMap)).volume;
-        assertSameGrid(field, run.volume, ['field map', 'run']);
-        fieldMapHz = field.data.subarray(0, voxelsPerVolume(field));
-      }
+      // a field map on another grid is carried onto the run's through both affines (FIELD_MAP_NO_AFFINE without them)
+      const fieldMapHz = o.fieldMap ? (await cliB0(runPath, run, { fieldMap: o.fieldMap, find: false }))!.fieldMapHz : null;
+      const phaseEncodePair = o.pePair ? (await cliB0(runPath, run, { pePair: o.pePair, find: false }))!.pair : null;
       const brainMask = await buildMask(masks.brain, run.volume);
       const placementMask = await buildMask(masks.placement, run.volume, { brain: brainMask });
       const excludeMask = masks.exclude ? await buildMask(masks.exclude, run.volume) : undefined;
@@ -127,7 +125,7 @@ Example:
       const bar = o.progress ? terminalProgress() : null;
       let result;
       try {
-        result = await runSweep(run, spec, { workers: o.workers, shard: o.shard ?? null, cacheDir, brainMask, placementMask, excludeMask, motionTable, fieldMapHz, onProgress: bar?.update });
+        result = await runSweep(run, spec, { workers: o.workers, shard: o.shard ?? null, cacheDir, brainMask, placementMask, excludeMask, motionTable, fieldMapHz, phaseEncodePair, onProgress: bar?.update });
       } finally {
         bar?.stop();
       }

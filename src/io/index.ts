@@ -18,3 +18,4 @@ export { findRunSiblings, siblingCandidates, type RunSiblings } from './run-sibl
 export { hashFile } from './hash-file.js';
 export { OUTPUT_MARKER, checkOutputFolder, claimOutputFolder, addOutputFiles, prepareOutputFiles, settleOutputSet, readOutputMarker, type OutputMarker, type ClaimOptions } from './output-folder.js';
 export { parseMotionTable, readMotionTable, motionTableToTsv, MOTION_TABLE_COLUMNS } from './motion-table-tsv.js';
+export { findB0Siblings, type B0Siblings } from './find-b0-siblings.js';

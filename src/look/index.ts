@@ -33,3 +33,4 @@ export { medianOf } from './median-of.js';
 export { summariseInMask, type MapSummary } from './map-summary.js';
 export { orthonormalDrift, detrendSeries } from './orthonormal-drift.js';
 export { voxelRasterRows, type VoxelRasterRows } from './voxel-raster-rows.js';
+export { signalLossLook, SIGNAL_LOSS_NEAR_MASK_VOXELS, type LookB0 } from './signal-loss-look.js';

@@ -19,6 +19,7 @@ import { trimmedDvars } from './trimmed-dvars.js';
 import { volumeOutliers, type VolumeOutliers } from './volume-outliers.js';
 import { screenSpikeVoxels } from './spike-screen.js';
 import { voxelSpikes, type VoxelSpike } from './voxel-spikes.js';
+import { signalLossLook, type LookB0 } from './signal-loss-look.js';
 import { rankFindings } from './rank-findings.js';
 import { sliceFindings } from './slice-findings.js';
 import { spikeFindings } from './spike-findings.js';
@@ -81,6 +82,12 @@ export interface LookOptions {
   flipAngleDeg?: number;
   /** Most spike findings listed (volumes with the strongest spikes first; default 20). */
   maxSpikeFindings?: number;
+  /**
+   * A B0 field in Hz on the run's grid (a field map, or the field a reversed phase-encode pair gives)
+   * and where it came from: the look adds its shift map, the signal-loss map and a `signal-loss`
+   * finding (see signalLossLook). __Default value:__ none
+   */
+  b0?: { fieldMapHz: Float32Array; source: string; pairUnwarped?: { imageA: Float32Array; imageB: Float32Array; unwarpedA: Float32Array; unwarpedB: Float32Array } | null } | null;
 }
 
 /** Everything a look found: maps, traces, findings and the recommendation. */
@@ -130,9 +137,11 @@ export interface LookResult {
   /** One line per finding, same order. */
   verdicts: string[];
   recommendation: { dropInitialVolumes: number; censorVolumes: number[]; why: string[] };
-  settings: Required<Omit<LookOptions, 'mask' | 'flipAngleDeg' | 'dropInitialVolumes'>> & { dropInitialVolumes: number | 'auto'; ddof: number; maskSource: 'otsu' | 'user' };
+  settings: Required<Omit<LookOptions, 'mask' | 'flipAngleDeg' | 'dropInitialVolumes' | 'b0'>> & { dropInitialVolumes: number | 'auto'; ddof: number; maskSource: 'otsu' | 'user' };
   dims: [number, number, number, number];
   trSec: number;
+  /** What the B0 field given in the options does (shift map, lost signal); absent without one. */
+  b0?: LookB0 | null;
   /**
    * Guidance on slice-timing correction at the run's TR (shift or model, the aliased cardiac and
    * respiratory frequencies: sliceTimingGuidance), or null without a TR.
@@ -311,8 +320,11 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
   const explainedVolume = new Set(sl.wholeVolumeEvents);
   const unexplained = spikes.filter((s) => !explainedVolume.has(s.volume));
   findings.push(...spikeFindings(unexplained, { cutoffZ: spikeCutoffZ, voxelsForCensor: SPIKE_VOXELS_FOR_CENSOR, maxIsolated: maxSpikeFindings }));
-  const ranked = rankFindings(findings);
   const skipped: SkippedCheck[] = [];
+  const b0Look = options.b0 ? signalLossLook(options.b0, [nx, ny, nz], sidecar, mask.mask) : null;
+  if (b0Look?.finding) findings.push(b0Look.finding);
+  if (b0Look?.skipped) skipped.push({ check: 'signal lost to the B0 field (shift map, dephasing and folding)', ...b0Look.skipped });
+  const ranked = rankFindings(findings);
   if (unclearMask) {
     skipped.push({
       check: 'automatic brain mask',
@@ -357,6 +369,7 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
     recommendation: { dropInitialVolumes: drop, censorVolumes, why },
     settings: { detrendOrder, volumeCutoffZ, sliceCutoffZ, spikeCutoffZ, steadyCutoffZ, t1Sec: model?.t1Sec ?? options.t1Sec ?? GREY_MATTER_T1_SEC_3T, maxSpikeFindings, dropInitialVolumes: options.dropInitialVolumes ?? 'auto', ddof: stats.ddof, maskSource: mask.source },
     dims: [nx, ny, nz, nt], trSec,
+    ...(b0Look ? { b0: b0Look.b0 } : {}),
     sliceTiming: trSec > 0 ? sliceTimingGuidance(trSec) : null,
   };
   spareSums = sums; // nothing returned above refers to the sums' arrays

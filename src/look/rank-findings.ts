@@ -15,6 +15,8 @@ export const CONSEQUENCE_TIER: Readonly<Record<FindingKind, number>> = {
   'slice-bright': 5,
   'unstable-voxel': 7,
   'voxel-spike': 8,
+  // lost signal changes no volume; it marks where nothing can be found, listed after the volume events
+  'signal-loss': 9,
 };
 
 /**

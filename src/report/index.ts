@@ -12,7 +12,7 @@ export { traceChartSpec, lookTracesSpec, voxelTimeCourseSpec, LOOK_COLOURS } fro
 export { voxelRasterImage, voxelRasterPng, voxelRasterSvg, RASTER_Z_LIMIT } from './voxel-raster-figure.js';
 export { lookPageHtml } from './look-page.js';
 export { tableHtml, type TableHtmlOptions } from './table-html.js';
-export { lookFigures, chosenVoxels, maskCentre, type LookFigure } from './look-figures.js';
+export { lookFigures, b0Figures, chosenVoxels, maskCentre, type LookFigure } from './look-figures.js';
 export { writeLookFolder, lookSummaryJson, lookSeriesTsv } from './write-look-folder.js';
 // sweep report: charts, recommendation text, methods, decision record, HTML
 export { metricChart, type MetricChartOptions } from './chart-metric.js';

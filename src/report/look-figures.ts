@@ -1,5 +1,7 @@
 import type { Volume } from '../core/volume.js';
+import { makeVolume } from '../core/volume.js';
 import type { LookResult } from '../look/look-at-run.js';
+import { SIGNAL_LOSS_NEAR_MASK_VOXELS, type LookB0 } from '../look/signal-loss-look.js';
 import { maskRings } from '../look/mask-rings.js';
 import { voxelRasterRows } from '../look/voxel-raster-rows.js';
 import { lookTracesSpec, voxelTimeCourseSpec } from './look-charts.js';
@@ -92,9 +94,35 @@ export async function lookFigures(run: Volume, look: LookResult): Promise<LookFi
     { file: 'tsnr-grid.svg', title: `tSNR, axial slices (${drift})`, kind: 'svg', data: sliceGridSvg(look.maps.tsnr, { title: `tSNR inside the ${maskWords}, axial slices`, unit: 'tSNR (mean / temporal SD), dimensionless', colourMap: 'viridis', mask }) },
     { file: 'sd-grid.svg', title: `Temporal SD over ${kept}, ${drift}`, kind: 'svg', data: sliceGridSvg(look.maps.sd, { title: `Temporal SD inside the ${maskWords}, axial slices`, unit: 'temporal SD, scanner units', colourMap: 'magma', mask }) },
   ];
+  if (look.b0) figures.push(...b0Figures(look, look.b0));
   const rows = voxelRasterRows(run, mask, { firstVolume: look.recommendation.dropInitialVolumes });
   figures.push({ file: 'voxel-raster.svg', title: 'Voxel raster: every sampled voxel by depth below the mask surface, per-volume measures fused on top', kind: 'svg', data: await voxelRasterSvg(look, rows) });
   figures.push({ file: 'traces.svg', title: 'Per-volume traces: global mean, standardised DVARS, DVARS %', kind: 'svg', data: await renderSvg(lookTracesSpec(look)) });
   figures.push({ file: 'voxel-time-courses.svg', title: 'Time courses of chosen voxels', kind: 'svg', data: await renderSvg(voxelTimeCourseSpec(run, look, chosenVoxels(look))) });
   return figures;
+}
+
+/**
+ * The B0 figures of a look: the shift map along phase encode inside the brain mask (diverging
+ * colours, symmetric range), and the lost-signal map outlined on the mean image, axial slices.
+ * @param look - the look (its mean map and mask)
+ * @param b0 - its B0 summary
+ * @returns two figures
+ * @example b0Figures(look, look.b0!)
+ */
+export function b0Figures(look: LookResult, b0: LookB0): LookFigure[] {
+  const like = look.maps.mean;
+  const map = (data: Float32Array) => makeVolume({ dims: [like.dims[0], like.dims[1], like.dims[2], 1], spacingMm: [...like.spacingMm], trSec: 0, affine: new Float64Array(like.affine), data });
+  const axis = ['i', 'j', 'k'][b0.axis];
+  const range = Math.max(0.5, Math.min(b0.maxAbsShiftVoxels, 5));
+  return [
+    {
+      file: 'b0-shift-grid.svg', title: `Shift along phase encode (${axis}) from ${b0.source}, up to ${b0.maxAbsShiftVoxels.toFixed(1)} voxels in the brain mask`, kind: 'svg',
+      data: sliceGridSvg(map(b0.shiftVoxels), { title: `Shift of the signal along phase encode (${axis}): field (Hz) x total readout time`, unit: `voxels along +${axis} (range clipped at ${range.toFixed(1)})`, colourMap: 'diverging', min: -range, max: range, mask: look.mask.mask }),
+    },
+    {
+      file: 'signal-loss-grid.svg', title: `Signal lost to the B0 field: ${b0.lostNearMask} voxels in or next to the brain mask (${b0.lostInMask} inside it), outlined on the mean image`, kind: 'svg',
+      data: sliceGridSvg(look.maps.mean, { title: 'Where unwarping cannot restore the signal (dephasing or folded shift), outlined on the mean signal', unit: 'mean signal, scanner units', colourMap: 'grey', mask: b0.lostNear, outside: 'show', outlineLabel: `signal lost (in or within ${SIGNAL_LOSS_NEAR_MASK_VOXELS} voxels of the brain mask)` }),
+    },
+  ];
 }

@@ -52,7 +52,7 @@ export function sliceGridSvg(map: Volume, options: MapFigureOptions & { step?: n
   if (options.mask && options.outline !== false) {
     const [r, g, b] = MASK_OUTLINE_RGB;
     parts.push(`<rect x="${margin + barW + 24}" y="${barY + 2}" width="18" height="8" fill="none" stroke="rgb(${r},${g},${b})" stroke-width="2"/>`);
-    parts.push(svgText(margin + barW + 48, barY + 10, 'brain mask outline', { size: 11, fill: '#444' }));
+    parts.push(svgText(margin + barW + 48, barY + 10, options.outlineLabel ?? 'brain mask outline', { size: 11, fill: '#444' }));
   }
   return svgDocument(width, barY + 50, parts);
 }

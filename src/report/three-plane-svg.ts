@@ -25,6 +25,8 @@ export interface MapFigureOptions {
   outside?: 'hide' | 'show';
   /** With a mask: draw its outline (default true). */
   outline?: boolean;
+  /** Legend text of the outline. __Default value:__ 'brain mask outline' */
+  outlineLabel?: string;
   /** Display scale (default 1.5 pixels per mm). */
   pixelsPerMm?: number;
 }
@@ -71,7 +73,7 @@ export function threePlaneSvg(map: Volume, point: readonly [number, number, numb
   if (options.mask && options.outline !== false) {
     const [r, g, b] = MASK_OUTLINE_RGB;
     parts.push(`<rect x="${margin + barW + 24}" y="${bottom + 8}" width="18" height="8" fill="none" stroke="rgb(${r},${g},${b})" stroke-width="2"/>`);
-    parts.push(svgText(margin + barW + 48, bottom + 16, 'brain mask outline', { size: 11, fill: '#444' }));
+    parts.push(svgText(margin + barW + 48, bottom + 16, options.outlineLabel ?? 'brain mask outline', { size: 11, fill: '#444' }));
   }
   return svgDocument(width, bottom + 56, parts);
 }

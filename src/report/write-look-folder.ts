@@ -1,3 +1,5 @@
+import { makeVolume } from '../core/volume.js';
+import { SIGNAL_LOSS_NEAR_MASK_VOXELS } from '../look/signal-loss-look.js';
 import { randomBytes } from 'node:crypto';
 import { existsSync } from 'node:fs';
 import { mkdir, rename, rm } from 'node:fs/promises';
@@ -48,6 +50,10 @@ export function lookSummaryJson(look: LookResult, source: LookSource | string): 
     dvarsFromFewVoxels: look.dvarsFromFewVoxels,
     recommendation: look.recommendation,
     findings: look.findings,
+    ...(look.b0 ? { b0: {
+      source: look.b0.source, phaseEncodeAxis: look.b0.axis, maxAbsShiftVoxels: look.b0.maxAbsShiftVoxels, lostVoxelsInMask: look.b0.lostInMask, lostVoxelsNearMask: look.b0.lostNearMask, nearMaskVoxels: SIGNAL_LOSS_NEAR_MASK_VOXELS,
+      dephasedVoxelsInMask: look.b0.dephasedInMask, foldedVoxelsInMask: look.b0.foldedInMask, lostPercentOfMask: look.b0.lostPercentOfMask, criterion: look.b0.criterion, ...(look.b0.pairAgreement ? { pairAgreementInMask: look.b0.pairAgreement } : {}),
+    } } : {}),
   };
 }
 
@@ -108,7 +114,11 @@ export async function writeLookFolder(run: Volume, look: LookResult, outDir: str
   const files: string[] = [];
   try {
     await mkdir(tmp);
-    for (const [name, map] of Object.entries({ mean: look.maps.mean, sd: look.maps.sd, tsnr: look.maps.tsnr, mask: look.maps.mask })) {
+    const like = look.maps.mean;
+    const b0Map = (data: Float32Array) => makeVolume({ dims: [like.dims[0], like.dims[1], like.dims[2], 1], spacingMm: [...like.spacingMm], trSec: 0, affine: new Float64Array(like.affine), data });
+    // with a B0 field: its shift map (voxels along phase encode) and the lost-signal map (0/1)
+    const b0Maps = look.b0 ? { 'b0-shift-voxels': b0Map(look.b0.shiftVoxels), 'signal-loss': b0Map(Float32Array.from(look.b0.lost)) } : {};
+    for (const [name, map] of Object.entries({ mean: look.maps.mean, sd: look.maps.sd, tsnr: look.maps.tsnr, mask: look.maps.mask, ...b0Maps })) {
       await writeNifti(join(tmp, `${name}.nii.gz`), map, { datatype: 'float32', description: `boldsweep look: ${name}` });
       files.push(`${name}.nii.gz`);
     }

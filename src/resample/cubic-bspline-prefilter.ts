@@ -69,9 +69,17 @@ let scratchYp = new Float64Array(0);
 let scratchYm = new Float64Array(0);
 
 /** Starting sums of the two recursions as index/weight lists (norm included), for lines of length n. */
-interface InitTaps { causalIdx: Int32Array; causalW: Float64Array; antiIdx: Int32Array; antiW: Float64Array }
+export interface InitTaps { causalIdx: Int32Array; causalW: Float64Array; antiIdx: Int32Array; antiW: Float64Array }
 
-function initTaps(n: number, mode: 'mirror' | 'reflect' | 'wrap'): InitTaps {
+/**
+ * The starting sums of the prefilter's two recursions for lines of length n under a mode, as index and
+ * weight lists (exact over the mode's periodic extension, truncated where z^j < 1e-18).
+ * @param n - line length
+ * @param mode - line extension
+ * @returns the taps
+ * @example const t = initTaps(64, 'mirror')
+ */
+export function initTaps(n: number, mode: 'mirror' | 'reflect' | 'wrap'): InitTaps {
   const z = CUBIC_BSPLINE_POLE;
   const period = mode === 'mirror' ? 2 * n - 2 : mode === 'reflect' ? 2 * n : n;
   const terms = Math.min(period, HORIZON);
@@ -88,8 +96,18 @@ function initTaps(n: number, mode: 'mirror' | 'reflect' | 'wrap'): InitTaps {
 /**
  * Prefilter B lines at once: line b, sample k is at c[o + b + k * stride] (B contiguous lines, as
  * the y and z passes of an x-fastest volume are), so every inner loop runs over contiguous memory.
+ * @param c - values in, coefficients out
+ * @param o - offset of the first line's first sample
+ * @param lines - B
+ * @param n - line length
+ * @param stride - distance between a line's samples
+ * @param t - {@link initTaps} for n
+ * @param yp - scratch, at least n x B
+ * @param ym - scratch, at least B
+ * @returns nothing
+ * @example prefilterBatch(c, 0, 64, 64, 64, initTaps(64, 'mirror'), yp, ym)
  */
-function prefilterBatch(c: Float64Array, o: number, lines: number, n: number, stride: number, t: InitTaps, yp: Float64Array, ym: Float64Array): void {
+export function prefilterBatch(c: Float64Array, o: number, lines: number, n: number, stride: number, t: InitTaps, yp: Float64Array, ym: Float64Array): void {
   const z = CUBIC_BSPLINE_POLE;
   const alpha = (-6 * z) / (1 - z * z);
   for (let b = 0; b < lines; b++) yp[b] = 0;
@@ -121,8 +139,17 @@ function prefilterBatch(c: Float64Array, o: number, lines: number, n: number, st
   }
 }
 
-/** Prefilter one line in place at c[o + k] (the x pass: samples contiguous). */
-function prefilterRow(c: Float64Array, o: number, n: number, t: InitTaps, yp: Float64Array): void {
+/**
+ * Prefilter one line in place at c[o + k] (the x pass: samples contiguous).
+ * @param c - values in, coefficients out
+ * @param o - offset of the line
+ * @param n - line length
+ * @param t - {@link initTaps} for n
+ * @param yp - scratch, at least n
+ * @returns nothing
+ * @example prefilterRow(c, 0, 64, initTaps(64, 'mirror'), yp)
+ */
+export function prefilterRow(c: Float64Array, o: number, n: number, t: InitTaps, yp: Float64Array): void {
   const z = CUBIC_BSPLINE_POLE;
   const alpha = (-6 * z) / (1 - z * z);
   let sum = 0;

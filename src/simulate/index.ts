@@ -20,3 +20,5 @@ export { physioTraces, type PhysioRates, type PhysioTraces } from './physio-trac
 export { smoothGaussianField } from './smooth-gaussian-field.js';
 export { simulatedMotionTable, type MotionJerk, type MotionSpec } from './simulated-motion-table.js';
 export { phantomAcquisitionModel } from './phantom-acquisition-model.js';
+export { simulatePhaseEncodePair, PHASE_ENCODE_PAIR_VOLUMES, type PhantomPhaseEncodePair } from './simulate-phase-encode-pair.js';
+export { writePhaseEncodePair } from './write-phase-encode-pair.js';

@@ -8,6 +8,8 @@ import { MAX_FWHM_MM, smoothStep, type SmoothStepParams } from './smooth-step.js
 import { INTERPOLATION_KERNELS, type InterpolationKernel } from '../resample/interpolation-kernel.js';
 import { kernelSimplicity, resampleOutputFrame, resampleStep, type ResampleStepParams } from './resample-step.js';
 import { detrendStep, highpassStep, type DetrendParams, type HighpassParams } from './temporal-filter.js';
+import { UNWARP_KERNELS, type UnwarpKernel } from '../acquire/plan-unwarp.js';
+import { UNWARP_METHODS, unwarpEstimate, unwarpSimplicity, unwarpStep, type UnwarpEstimate, type UnwarpMethod, type UnwarpStepParams } from './unwarp-step.js';
 import { SLICE_TIME_METHODS, sliceTimeStep, type SliceTimeMethod, type SliceTimeParams } from './slice-time-step.js';
 import { SLICE_ORDERS, type SliceOrder } from '../acquire/slice-order-timing.js';
 
@@ -100,6 +102,22 @@ const dropInitialVolumes: StepDefinition<DropInitialVolumesParams> = {
   describe: (p) => `drop ${p.count} volumes`,
 };
 
+const unwarp: StepDefinition<UnwarpStepParams, UnwarpEstimate> = {
+  schema: z.object({
+    method: z.enum(UNWARP_METHODS as unknown as [UnwarpMethod, ...UnwarpMethod[]]),
+    kernel: z.enum(UNWARP_KERNELS as unknown as [UnwarpKernel, ...UnwarpKernel[]]).default('linear'),
+    jacobian: z.boolean().default(true),
+  }).strict(),
+  version: 1,
+  kind: 'geometric',
+  // the output stays on the run's grid, undistorted: the frame's kind does not change
+  estimate: unwarpEstimate,
+  apply: unwarpStep,
+  labels: { method: { name: 'distortion correction', unit: '' }, kernel: { name: 'unwarping interpolation', unit: '' }, jacobian: { name: 'Jacobian intensity correction', unit: '' } },
+  simplicity: (p) => unwarpSimplicity(p.method),
+  describe: (p) => (p.method === 'none' ? 'no unwarping' : `unwarp ${p.method}${p.kernel && p.kernel !== 'linear' ? ` ${p.kernel}` : ''}${p.jacobian === false ? ' (no Jacobian)' : ''}`),
+};
+
 const sliceTimeMethods = SLICE_TIME_METHODS as unknown as [SliceTimeMethod, ...SliceTimeMethod[]];
 const sliceOrders = SLICE_ORDERS as unknown as [SliceOrder, ...SliceOrder[]];
 // data left as acquired < two taps < four taps < every sample
@@ -130,7 +148,7 @@ const sliceTime: StepDefinition<SliceTimeParams> = {
 
 /**
  * Register the steps boldsweep ships with: smooth, percent-signal-change, grand-mean-scale,
- * highpass, detrend, drop-initial-volumes, resample, slice-time (called once by the registry module).
+ * highpass, detrend, drop-initial-volumes, resample, unwarp, slice-time (called once by the registry module).
  * @param register - the registry's registerStep
  * @returns nothing
  * @example registerBuiltinSteps(registerStep)
@@ -143,5 +161,6 @@ export function registerBuiltinSteps(register: <P>(name: string, definition: Ste
   register('detrend', detrend);
   register('drop-initial-volumes', dropInitialVolumes);
   register('resample', resample);
+  register('unwarp', unwarp as StepDefinition<unknown>);
   register('slice-time', sliceTime);
 }

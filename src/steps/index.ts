@@ -9,6 +9,7 @@ export { type DropInitialVolumesParams, type ShiftedEvents, shiftEvents, dropIni
 export { requireMask } from './require-mask.js';
 export { type StepDefinition, type RegisterStepOptions, registerStep, getStep, listSteps, parseStepParams, applyStep, describeStep, stepModules, stepVersion } from './registry.js';
 export { type ResampleStepParams, kernelSimplicity, resampleOutputFrame, resampleStep, resampleTargetGrid } from './resample-step.js';
+export { type UnwarpStepParams, type UnwarpEstimate, type UnwarpMethod, UNWARP_METHODS, UNWARP_PAIR_SMOOTH_FWHM_VOXELS, unwarpEstimate, unwarpStep, unwarpSimplicity } from './unwarp-step.js';
 export { type SliceTimeParams, type SliceTimeMethod, SLICE_TIME_METHODS, sliceTimeStep } from './slice-time-step.js';
 export { type ShiftMethod, SHIFT_METHODS, shiftSliceSeries } from './shift-slice-series.js';
 export { shiftSeriesLinear } from './shift-series-linear.js';

@@ -2,6 +2,7 @@ import type { Frame, Grid } from '../core/grid-frame.js';
 import type { Volume } from '../core/volume.js';
 import type { BoldEvent, Sidecar } from '../io/run-types.js';
 import type { NuisanceRegressor } from '../model/design.js';
+import type { PhaseEncodePair } from '../acquire/phase-encode-pair.js';
 
 /**
  * What a step does to a run, as the sweep and the report need to know it:
@@ -63,6 +64,17 @@ export interface StepContext {
    * axis, when known (sidecar SliceTiming, or handed on by an earlier step). __Default value:__ null
    */
   sliceTimesSec?: Float64Array | null;
+  /**
+   * B0 field map, Hz, on the run's grid (head in its reference position), when the caller has one
+   * (a sweep's `fieldMapHz`): the `unwarp` step's method field-map reads it. __Default value:__ none
+   */
+  fieldMapHz?: Float32Array | null;
+  /**
+   * Images of the head with opposite phase-encode directions, on the run's grid, when the caller has
+   * them (a sweep's `phaseEncodePair`): the `unwarp` step's method reversed-pe reads them.
+   * __Default value:__ none
+   */
+  phaseEncodePair?: PhaseEncodePair | null;
   /**
    * True when the model is to sample the task regressors of each slice at that slice's own time in
    * `sliceTimesSec` (one design per slice time; the `slice-time` step's method 'model', which leaves

@@ -69,12 +69,19 @@ function sharedRunVolume(ctx: SweepContext): Volume {
 
 /**
  * The context the first step sees: the run's sidecar, the task events, the brain mask, the raw
- * frame, and the slice acquisition times from the sidecar's SliceTiming (when it has one per slice).
+ * frame, the slice acquisition times from the sidecar's SliceTiming (when it has one per slice), and
+ * the sweep's field map and reversed phase-encode pair when it has them (for the unwarp step).
  */
 function initialContext(ctx: SweepContext, events: BoldEvent[]): StepContext {
   const times = ctx.sidecar?.SliceTiming;
   const sliceTimesSec = times && times.length === ctx.run.dims[2] ? Float64Array.from(times) : null;
-  return { sidecar: ctx.sidecar, events, mask: ctx.brainMask, frame: { kind: 'raw' }, sliceTimesSec };
+  // the field map and the reversed phase-encode pair go to the steps (unwarp) only when there are any,
+  // so contexts of sweeps without them keep their bytes
+  const a = ctx.acquisition;
+  return {
+    sidecar: ctx.sidecar, events, mask: ctx.brainMask, frame: { kind: 'raw' }, sliceTimesSec,
+    ...(a.fieldMapHz ? { fieldMapHz: a.fieldMapHz } : {}), ...(a.phaseEncodePair ? { phaseEncodePair: a.phaseEncodePair } : {}),
+  };
 }
 
 /** The estimate of key `key` (null key: the step estimates nothing). */

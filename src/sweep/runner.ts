@@ -22,6 +22,7 @@ import { parseShard, shardCells, type Shard } from './shard.js';
 import { sharedBytes } from './shared-volume.js';
 import { claimOutputFolder } from '../io/output-folder.js';
 import { acquisitionModel } from '../acquire/acquisition-model.js';
+import { checkPhaseEncodePair, type PhaseEncodePair } from '../acquire/phase-encode-pair.js';
 import type { MotionRow } from '../acquire/rigid-motion-affine.js';
 import type { Vec3 } from '../core/affine.js';
 import { parseSweepSpec } from './parse-sweep-spec.js';
@@ -97,6 +98,11 @@ export interface SweepOptions {
    * and TotalReadoutTime or EffectiveEchoSpacing). __Default value:__ none
    */
   fieldMapHz?: Float32Array | null;
+  /**
+   * Images of the head with opposite phase-encode directions on the run's grid, for the `unwarp`
+   * step's method reversed-pe (they do not change planting). __Default value:__ none
+   */
+  phaseEncodePair?: PhaseEncodePair | null;
   /** Called as cells finish. */
   onProgress?: (p: SweepProgress) => void;
   /** Keep group stages on disk after their cells are done. __Default value:__ false */
@@ -244,7 +250,11 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
   // stops the sweep before any work; workers build the same model again from the same inputs
   acquisitionModel({ volume, sidecar: run.sidecar }, { motionTable, fieldMapHz, ...(options.rotationCentreMm ? { rotationCentreMm: options.rotationCentreMm } : {}), sliceTimesSec: spec.acquisition.sliceTiming === 'sidecar' ? 'sidecar' : null });
   const acquisitionKey = motionTable || fieldMapHz ? { motion: motionTable, centre: options.rotationCentreMm ?? null, field: fieldMapHz ? sha(new Uint8Array(fieldMapHz.buffer, fieldMapHz.byteOffset, fieldMapHz.byteLength)) : null } : null;
-  const contextHash = stableHash({ brain: sha(brainMask), placement: sha(placementMask), score: sha(scoreMask), events, ...(acquisitionKey ? { acquisition: acquisitionKey } : {}) });
+  const pair = options.phaseEncodePair ?? null;
+  if (pair) checkPhaseEncodePair(pair, n);
+  const floatsSha = (a: Float32Array) => sha(new Uint8Array(a.buffer, a.byteOffset, a.byteLength));
+  const pairKey = pair ? { a: floatsSha(pair.imageA), b: floatsSha(pair.imageB), directions: [pair.directionA, pair.directionB], readout: pair.totalReadoutTimeSec } : null;
+  const contextHash = stableHash({ brain: sha(brainMask), placement: sha(placementMask), score: sha(scoreMask), events, ...(acquisitionKey ? { acquisition: acquisitionKey } : {}), ...(pairKey ? { phaseEncodePair: pairKey } : {}) });
 
   // 3. estimates, plan and shard
   // worker threads import the modules that register the recipe's user steps; a user step registered
@@ -263,7 +273,7 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
   const baseContext = (stageMode: SweepContext['stageMode'], progress: Int32Array | null): SweepContext => ({
     run: { dims: [...volume.dims], spacingMm: [...volume.spacingMm], trSec: volume.trSec, affine: Array.from(volume.affine), data: volume.data },
     ...masks,
-    acquisition: { motionTable, rotationCentreMm: options.rotationCentreMm ?? null, fieldMapHz: sharedField, sliceTiming: spec.acquisition.sliceTiming },
+    acquisition: { motionTable, rotationCentreMm: options.rotationCentreMm ?? null, fieldMapHz: sharedField, sliceTiming: spec.acquisition.sliceTiming, ...(pair ? { phaseEncodePair: pair } : {}) },
     events, sidecar: run.sidecar, threshold: spec.threshold, cacheDir, stageMode, progress, stepModules: modules, estimates,
   });
   const estimatePlans = planSweep(spec, inputs).estimates;

@@ -1,5 +1,6 @@
 import type { Vec3 } from '../core/affine.js';
 import type { MotionRow } from '../acquire/rigid-motion-affine.js';
+import type { PhaseEncodePair } from '../acquire/phase-encode-pair.js';
 import type { StepNote } from '../steps/step-types.js';
 import type { BoldEvent, Sidecar } from '../io/run-types.js';
 import type { CellGroup, CellPlan } from './plan.js';
@@ -29,6 +30,8 @@ export interface SweepAcquisition {
   fieldMapHz: Float32Array | null;
   /** Plant each slice at its own acquisition time (the sidecar's SliceTiming). */
   sliceTiming: 'sidecar' | 'none';
+  /** Reversed phase-encode pair for the unwarp step (not used by planting). __Default value:__ none */
+  phaseEncodePair?: PhaseEncodePair | null;
 }
 
 export interface SweepContext {
