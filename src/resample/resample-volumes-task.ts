@@ -4,6 +4,7 @@ import { cubicBSplinePrefilter } from './cubic-bspline-prefilter.js';
 import { extendCoefficients } from './extend-coefficients.js';
 import type { InterpolationKernel } from './interpolation-kernel.js';
 import { resampleVoxels } from './resample-voxels.js';
+import { trilinearKernel } from './trilinear-wasm.js';
 
 /**
  * Resample volumes tStart..tEnd-1 of a run: the unit of work shared by the main thread and the
@@ -62,12 +63,21 @@ export function resampleVolumesTask(task: ResampleVolumesTask): number {
       extendedScratch = x.values;
       source = x.values; sourceDims = x.dims; pad = c.pad; margin = CUBIC_MARGIN;
     } else if (task.kernel === 'linear') {
-      const x = extendCoefficients(volume, task.sourceDims, task.mode, LINEAR_MARGIN, extendedVoxelScratch);
-      extendedVoxelScratch = x.values;
+      // without a displacement field resampleVoxels runs the WebAssembly kernel: extend straight into its memory
+      const into = task.displacementVox ? extendedVoxelScratch : linearKernelSource(task.sourceDims, m);
+      const x = extendCoefficients(volume, task.sourceDims, task.mode, LINEAR_MARGIN, into);
+      if (task.displacementVox) extendedVoxelScratch = x.values;
       source = x.values; sourceDims = x.dims; margin = LINEAR_MARGIN;
     }
     const map = task.srcFromOut.length === 1 ? task.srcFromOut[0] : task.srcFromOut[t];
     resampleVoxels({ source, sourceDims, pad, margin, srcFromOut: map, displacementVox: task.displacementVox, outDims: task.outDims, kernel: task.kernel, mode: task.mode, cval: task.cval }, task.output.subarray(m * t, m * (t + 1)));
   }
   return task.tEnd - task.tStart;
+}
+
+/** Where the trilinear kernel reads its source (LINEAR_MARGIN planes each side), as a Float32Array over its memory. */
+function linearKernelSource(dims: readonly [number, number, number], outValues: number): Float32Array {
+  const values = (dims[0] + 2 * LINEAR_MARGIN) * (dims[1] + 2 * LINEAR_MARGIN) * (dims[2] + 2 * LINEAR_MARGIN);
+  const k = trilinearKernel(values, outValues);
+  return new Float32Array(k.memory.buffer, k.sourceAt, values);
 }

@@ -1,0 +1,79 @@
+// AssemblyScript: compiled to dist/kernels/trilinear.wasm by scripts/build-kernels.mjs at build time
+// and loaded by src/resample/trilinear-wasm.ts. See DEVELOPERS.md, "WebAssembly kernels".
+//
+// The interior of the linear kernel of resampleVoxels (src/resample/resample-voxels.ts, rowLinear and
+// trilinear), one whole output volume per call, in the same order of Float64 operations, so the bytes
+// equal that routine's:
+//   for each output row (j, k): x = m1 j + m2 k + m3 + pad (likewise y, z), then per voxel the position
+//   steps by the map's first column (x += m0, y += m4, z += m8: a running sum, as in rowLinear);
+//   inside the fast-path box [lx, hx] x [ly, hy] x [lz, hz]: trilinear value from the eight taps (floor
+//   by truncation: positions there are >= 0), lerps along x, then y, then z;
+//   else, in constant mode, outside the grid proper [e, gx] x [e, gy] x [e, gz]: cval;
+//   else: the voxel is left to the caller's generic path: its index and position go to a list.
+//
+// Parameters (Float64 at `params`): m0..m11 (the first three rows of the output -> source voxel map,
+// row-major), pad, lx, hx, ly, hy, lz, hz, e, gx, gy, gz, cval. The source is Float32, x fastest, nx
+// values a row and sxy a plane (margin included); the output Float32, ox x oy x oz. Each list entry is
+// 32 bytes: px, py, pz (Float64) and the output index (Int32). Returns the number of entries.
+
+/** Offsets of the parameters (in Float64 values) at `params`. */
+const PAD = 12, LX = 13, HX = 14, LY = 15, HY = 16, LZ = 17, HZ = 18, E = 19, GX = 20, GY = 21, GZ = 22, CVAL = 23;
+
+@inline function prm(params: usize, i: i32): f64 { return load<f64>(params + (<usize>i << 3)); }
+
+/** Trilinear resampling of one volume (see the file header). */
+export function linearVolume(params: usize, src: usize, nx: i32, sxy: i32, out: usize, ox: i32, oy: i32, oz: i32, constant: i32, list: usize): i32 {
+  const m0 = prm(params, 0), m1 = prm(params, 1), m2 = prm(params, 2), m3 = prm(params, 3);
+  const m4 = prm(params, 4), m5 = prm(params, 5), m6 = prm(params, 6), m7 = prm(params, 7);
+  const m8 = prm(params, 8), m9 = prm(params, 9), m10 = prm(params, 10), m11 = prm(params, 11);
+  const pad = prm(params, PAD);
+  const lx = prm(params, LX), hx = prm(params, HX), ly = prm(params, LY), hy = prm(params, HY), lz = prm(params, LZ), hz = prm(params, HZ);
+  const e = prm(params, E), gx = prm(params, GX), gy = prm(params, GY), gz = prm(params, GZ);
+  const cval = <f32>prm(params, CVAL);
+  let count = 0;
+  let p = 0;
+  for (let k = 0; k < oz; k++) {
+    const fk = <f64>k;
+    for (let j = 0; j < oy; j++) {
+      const fj = <f64>j;
+      let x = m1 * fj + m2 * fk + m3 + pad;
+      let y = m5 * fj + m6 * fk + m7 + pad;
+      let z = m9 * fj + m10 * fk + m11 + pad;
+      for (let i = 0; i < ox; i++, p++) {
+        const o = out + (<usize>p << 2);
+        if (x >= lx && x <= hx && y >= ly && y <= hy && z >= lz && z <= hz) {
+          const i0 = <i32>x, j0 = <i32>y, k0 = <i32>z;
+          const fx = x - <f64>i0, fy = y - <f64>j0, fz = z - <f64>k0;
+          const q = i0 + nx * j0 + sxy * k0;
+          // the x-neighbours of each of the four rows in one 64-bit load, widened to two Float64 lanes;
+          // lanes then pair the rows so each lerp below is one vector operation on two scalar lerps
+          const r = src + (<usize>q << 2), rz = r + (<usize>sxy << 2), ry = <usize>nx << 2;
+          const v0 = f64x2.promote_low_f32x4(v128.load64_zero(r)); // a, b
+          const v1 = f64x2.promote_low_f32x4(v128.load64_zero(r + ry)); // c, d
+          const v2 = f64x2.promote_low_f32x4(v128.load64_zero(rz)); // e, f
+          const v3 = f64x2.promote_low_f32x4(v128.load64_zero(rz + ry)); // g, h
+          const vx = f64x2.splat(fx), vy = f64x2.splat(fy);
+          const ac = v128.shuffle<f64>(v0, v1, 0, 2), bd = v128.shuffle<f64>(v0, v1, 1, 3);
+          const eg = v128.shuffle<f64>(v2, v3, 0, 2), fh = v128.shuffle<f64>(v2, v3, 1, 3);
+          const abcd = f64x2.add(ac, f64x2.mul(vx, f64x2.sub(bd, ac))); // ab, cd
+          const efgh = f64x2.add(eg, f64x2.mul(vx, f64x2.sub(fh, eg))); // ef, gh
+          const l = v128.shuffle<f64>(abcd, efgh, 0, 2), h = v128.shuffle<f64>(abcd, efgh, 1, 3); // (ab, ef), (cd, gh)
+          const lh = f64x2.add(l, f64x2.mul(vy, f64x2.sub(h, l))); // lo, hi
+          const lo = f64x2.extract_lane(lh, 0), hi = f64x2.extract_lane(lh, 1);
+          store<f32>(o, <f32>(lo + fz * (hi - lo)));
+        } else if (constant != 0 && !(x >= e && x <= gx && y >= e && y <= gy && z >= e && z <= gz)) {
+          store<f32>(o, cval);
+        } else {
+          const at = list + (<usize>count << 5);
+          store<f64>(at, x);
+          store<f64>(at + 8, y);
+          store<f64>(at + 16, z);
+          store<i32>(at + 24, p);
+          count++;
+        }
+        x += m0; y += m4; z += m8;
+      }
+    }
+  }
+  return count;
+}
