@@ -12,17 +12,26 @@
 //   else: the voxel is left to the caller's generic path: its index and position go to a list.
 //
 // Parameters (Float64 at `params`): m0..m11 (the first three rows of the output -> source voxel map,
-// row-major), pad, lx, hx, ly, hy, lz, hz, e, gx, gy, gz, cval. The source is Float32, x fastest, nx
-// values a row and sxy a plane (margin included); the output Float32, ox x oy x oz. Each list entry is
-// 32 bytes: px, py, pz (Float64) and the output index (Int32). Returns the number of entries.
+// row-major), pad, lx, hx, ly, hy, lz, hz, e, gx, gy, gz, cval. The source is Float32, x fastest,
+// nx x ny x nz. Positions and bounds count `shift` planes of margin that the source does not hold
+// (the caller's virtual margin: in constant and nearest mode the fast path reads a margin value only
+// with weight 0, at a position exactly on the grid's last voxel, so that tap reads the voxel itself
+// instead: a + 0 (a - a) = a + 0 (b - a) for finite b); the taps are read at the position minus
+// `shift`. The output is Float32, ox x oy x oz. Each list entry is 32 bytes: px, py, pz (Float64) and
+// the output index (Int32). Returns the number of entries.
 
 /** Offsets of the parameters (in Float64 values) at `params`. */
 const PAD = 12, LX = 13, HX = 14, LY = 15, HY = 16, LZ = 17, HZ = 18, E = 19, GX = 20, GY = 21, GZ = 22, CVAL = 23;
 
 @inline function prm(params: usize, i: i32): f64 { return load<f64>(params + (<usize>i << 3)); }
+/** The Float32 values at ptr and ptr + 4 as two Float64 lanes; the one at ptr twice when `full` is false. */
+@inline function pair(ptr: usize, full: bool): v128 {
+  return f64x2.promote_low_f32x4(full ? v128.load64_zero(ptr) : v128.load32_splat(ptr));
+}
 
 /** Trilinear resampling of one volume (see the file header). */
-export function linearVolume(params: usize, src: usize, nx: i32, sxy: i32, out: usize, ox: i32, oy: i32, oz: i32, constant: i32, list: usize): i32 {
+export function linearVolume(params: usize, src: usize, nx: i32, ny: i32, nz: i32, shift: i32, out: usize, ox: i32, oy: i32, oz: i32, constant: i32, list: usize): i32 {
+  const sxy = nx * ny;
   const m0 = prm(params, 0), m1 = prm(params, 1), m2 = prm(params, 2), m3 = prm(params, 3);
   const m4 = prm(params, 4), m5 = prm(params, 5), m6 = prm(params, 6), m7 = prm(params, 7);
   const m8 = prm(params, 8), m9 = prm(params, 9), m10 = prm(params, 10), m11 = prm(params, 11);
@@ -44,14 +53,17 @@ export function linearVolume(params: usize, src: usize, nx: i32, sxy: i32, out: 
         if (x >= lx && x <= hx && y >= ly && y <= hy && z >= lz && z <= hz) {
           const i0 = <i32>x, j0 = <i32>y, k0 = <i32>z;
           const fx = x - <f64>i0, fy = y - <f64>j0, fz = z - <f64>k0;
-          const q = i0 + nx * j0 + sxy * k0;
+          const ii = i0 - shift, jj = j0 - shift, kk = k0 - shift;
+          const r = src + (<usize>(ii + nx * jj + sxy * kk) << 2);
           // the x-neighbours of each of the four rows in one 64-bit load, widened to two Float64 lanes;
-          // lanes then pair the rows so each lerp below is one vector operation on two scalar lerps
-          const r = src + (<usize>q << 2), rz = r + (<usize>sxy << 2), ry = <usize>nx << 2;
-          const v0 = f64x2.promote_low_f32x4(v128.load64_zero(r)); // a, b
-          const v1 = f64x2.promote_low_f32x4(v128.load64_zero(r + ry)); // c, d
-          const v2 = f64x2.promote_low_f32x4(v128.load64_zero(rz)); // e, f
-          const v3 = f64x2.promote_low_f32x4(v128.load64_zero(rz + ry)); // g, h
+          // lanes then pair the rows so each lerp below is one vector operation on two scalar lerps.
+          // On the last voxel of an axis (weight 0 for the next one) the voxel itself stands in for it.
+          const ry = jj < ny - 1 ? <usize>nx << 2 : 0, rz = r + (kk < nz - 1 ? <usize>sxy << 2 : 0);
+          const full = ii < nx - 1;
+          const v0 = pair(r, full); // a, b
+          const v1 = pair(r + ry, full); // c, d
+          const v2 = pair(rz, full); // e, f
+          const v3 = pair(rz + ry, full); // g, h
           const vx = f64x2.splat(fx), vy = f64x2.splat(fy);
           const ac = v128.shuffle<f64>(v0, v1, 0, 2), bd = v128.shuffle<f64>(v0, v1, 1, 3);
           const eg = v128.shuffle<f64>(v2, v3, 0, 2), fh = v128.shuffle<f64>(v2, v3, 1, 3);
@@ -75,5 +87,23 @@ export function linearVolume(params: usize, src: usize, nx: i32, sxy: i32, out: 
       }
     }
   }
+  return count;
+}
+
+/**
+ * How many of the n Float32 values at `at` are NaN or +-Infinity (exponent bits all ones), four at a
+ * time: what resampleRun's threads report for the volumes they read.
+ */
+export function countNonFinite(at: usize, n: i32): i32 {
+  const expBits = i32x4.splat(0x7f800000);
+  let counts = i32x4.splat(0);
+  let i = 0;
+  for (; i + 4 <= n; i += 4) {
+    const v = v128.load(at + (<usize>i << 2));
+    // lanes of -1 where all exponent bits are set
+    counts = i32x4.sub(counts, i32x4.eq(v128.and(v, expBits), expBits));
+  }
+  let count = i32x4.extract_lane(counts, 0) + i32x4.extract_lane(counts, 1) + i32x4.extract_lane(counts, 2) + i32x4.extract_lane(counts, 3);
+  for (; i < n; i++) if ((load<i32>(at + (<usize>i << 2)) & 0x7f800000) == 0x7f800000) count++;
   return count;
 }

@@ -1,5 +1,6 @@
 import type { Affine } from '../core/affine.js';
 import type { BoundaryMode } from '../core/boundary-mode.js';
+import { fail } from '../core/fail.js';
 import { extendIndex } from './extend-index.js';
 import { foldCoordinate } from './fold-coordinate.js';
 import { kernelTaps, LANCZOS_RADIUS, type InterpolationKernel } from './interpolation-kernel.js';
@@ -21,6 +22,14 @@ export interface ResampleVoxelsInput {
    * positions near the edges read them directly. __Default value:__ 0
    */
   margin?: number;
+  /**
+   * Linear kernel, `constant` or `nearest` mode, no displacement field only: positions are taken as
+   * if `virtualMargin` planes of mode-extended values surrounded `source` (same positions, same bytes
+   * as an extended source with that margin), but the source holds none: in these modes the fast path
+   * reads a margin value only with weight 0, and then reads the edge voxel instead. It spares the copy
+   * into a larger array. __Default value:__ 0
+   */
+  virtualMargin?: number;
   /** Row-major 4x4: output voxel index -> source voxel index (unpadded). */
   srcFromOut: Affine;
   /**
@@ -116,6 +125,7 @@ function axisTaps(x: number, n: number, stride: number, shift: number, kernel: I
 export function resampleVoxels(input: ResampleVoxelsInput, out: Float32Array): Float32Array {
   const { kernel } = input;
   if (kernel === 'linear' && !input.displacementVox) return linearByKernel(input, out);
+  if (input.virtualMargin) fail('INVALID_ARGUMENT', 'virtualMargin is for the linear kernel without a displacement field only');
   // one row routine per kernel keeps each loop monomorphic (linear reads Float32 voxels, cubic
   // Float64 coefficients) and lets the interior of the grid skip the boundary handling
   const row = kernel === 'linear' ? rowLinear : kernel === 'cubic' ? rowCubic : rowGeneric;
@@ -174,8 +184,9 @@ const rowGeneric: Row = (input, out, p0, count, x, y, z) => {
  * without its margin, [e, g] on each axis.
  */
 function linearBounds(input: ResampleVoxelsInput): { lx: number; hx: number; ly: number; hy: number; lz: number; hz: number; e: number; gx: number; gy: number; gz: number } {
-  const nx = input.sourceDims[0], ny = input.sourceDims[1], nz = input.sourceDims[2];
-  const e = input.margin ?? 0, edge = input.mode === 'constant' || input.mode === 'nearest';
+  const vm = 2 * (input.virtualMargin ?? 0);
+  const nx = input.sourceDims[0] + vm, ny = input.sourceDims[1] + vm, nz = input.sourceDims[2] + vm;
+  const e = (input.margin ?? 0) + (input.virtualMargin ?? 0), edge = input.mode === 'constant' || input.mode === 'nearest';
   const lx = edge ? e : 0;
   return {
     lx, ly: lx, lz: lx,
@@ -188,12 +199,14 @@ function linearBounds(input: ResampleVoxelsInput): { lx: number; hx: number; ly:
  * The linear kernel without a displacement field: the WebAssembly kernel (trilinear-wasm.ts) does the
  * fast path and constant mode's cval, with the positions and operations of rowLinear, so the bytes are
  * the same; the voxels it leaves (near the edges in the other modes) go through the generic path here.
- * A source already in the kernel's memory at its source address (resampleVolumesTask extends it there)
+ * A source already in the kernel's memory at its source address (resampleVolumesTask puts it there)
  * is not copied.
  */
 function linearByKernel(input: ResampleVoxelsInput, out: Float32Array): Float32Array {
   const src = input.source as Float32Array;
-  const [nx, ny] = input.sourceDims;
+  const [nx, ny, nz] = input.sourceDims;
+  const vm = input.virtualMargin ?? 0;
+  if (vm !== 0 && input.mode !== 'constant' && input.mode !== 'nearest') fail('INVALID_ARGUMENT', `virtualMargin is for constant and nearest mode only, not ${input.mode}`);
   const [ox, oy, oz] = input.outDims;
   const count = ox * oy * oz;
   const k = trilinearKernel(src.length, count);
@@ -205,13 +218,14 @@ function linearByKernel(input: ResampleVoxelsInput, out: Float32Array): Float32A
   params[12] = input.pad + b.e;
   params[13] = b.lx; params[14] = b.hx; params[15] = b.ly; params[16] = b.hy; params[17] = b.lz; params[18] = b.hz;
   params[19] = b.e; params[20] = b.gx; params[21] = b.gy; params[22] = b.gz; params[23] = input.cval;
-  const left = k.linearVolume(0, k.sourceAt, nx, nx * ny, k.outAt, ox, oy, oz, input.mode === 'constant' ? 1 : 0, LIST_AT);
+  const left = k.linearVolume(0, k.sourceAt, nx, ny, nz, vm, k.outAt, ox, oy, oz, input.mode === 'constant' ? 1 : 0, LIST_AT);
   out.set(new Float32Array(buffer, k.outAt, count));
   if (left > 0) {
     const at = new Float64Array(buffer, LIST_AT, (left * LIST_ENTRY_BYTES) >> 3);
     const index = new Int32Array(buffer, LIST_AT, (left * LIST_ENTRY_BYTES) >> 2);
     const f = LIST_ENTRY_BYTES >> 3, w = LIST_ENTRY_BYTES >> 2;
-    for (let q = 0; q < left; q++) out[index[q * w + 6]] = generic(input, at[q * f], at[q * f + 1], at[q * f + 2]);
+    // the list holds positions counting the virtual margin; generic reads the source as it is
+    for (let q = 0; q < left; q++) out[index[q * w + 6]] = generic(input, at[q * f] - vm, at[q * f + 1] - vm, at[q * f + 2] - vm);
   }
   return out;
 }

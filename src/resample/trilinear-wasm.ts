@@ -22,10 +22,12 @@ export interface TrilinearKernel {
   /** Byte address of the output values. */
   outAt: number;
   /**
-   * (params, src, nx, sxy, out, ox, oy, oz, constant, list) -> number of list entries; see
+   * (params, src, nx, ny, nz, shift, out, ox, oy, oz, constant, list) -> number of list entries; see
    * kernels/trilinear.ts.
    */
-  linearVolume: (params: number, src: number, nx: number, sxy: number, out: number, ox: number, oy: number, oz: number, constant: number, list: number) => number;
+  linearVolume: (params: number, src: number, nx: number, ny: number, nz: number, shift: number, out: number, ox: number, oy: number, oz: number, constant: number, list: number) => number;
+  /** (at, n) -> how many of the n Float32 values at byte address `at` are NaN or infinite. */
+  countNonFinite: (at: number, n: number) => number;
 }
 
 /** Byte address of the list of generic-path voxels (after the 32 Float64 parameters). */
@@ -54,7 +56,7 @@ export function trilinearKernel(sourceValues: number, outValues: number): Trilin
   if (current && current.bytes >= bytes) return { ...current, sourceAt, outAt };
   const pages = Math.max(1, Math.ceil(bytes / 65536));
   const { memory, exports } = loadKernelModule('trilinear').instantiate(pages);
-  current = { memory, bytes: pages * 65536, sourceAt, outAt, linearVolume: exports.linearVolume as TrilinearKernel['linearVolume'] };
+  current = { memory, bytes: pages * 65536, sourceAt, outAt, linearVolume: exports.linearVolume as TrilinearKernel['linearVolume'], countNonFinite: exports.countNonFinite as TrilinearKernel['countNonFinite'] };
   return current;
 }
 

@@ -3,7 +3,9 @@ import type { BoundaryMode } from '../../src/core/boundary-mode.js';
 import { createRng } from '../../src/core/random.js';
 import { loadKernelModule } from '../../src/core/load-kernel-module.js';
 import { extendCoefficients } from '../../src/resample/extend-coefficients.js';
+import { scanNonFinite } from '../../src/io/non-finite.js';
 import { resampleVoxels } from '../../src/resample/resample-voxels.js';
+import { trilinearKernel } from '../../src/resample/trilinear-wasm.js';
 
 // The linear kernel without a displacement field runs kernels/trilinear.ts; with one (here all zeros,
 // so every position is the same number) it runs the TypeScript row routine. Both must give the same
@@ -27,9 +29,19 @@ function map(deg: number, shift: [number, number, number]): Float64Array {
 }
 
 describe('WebAssembly trilinear kernel', () => {
-  it('is the module built from kernels/trilinear.ts: imports its memory, exports linearVolume only', () => {
+  it('is the module built from kernels/trilinear.ts: imports its memory, exports linearVolume and countNonFinite only', () => {
     const { exports } = loadKernelModule('trilinear').instantiate(1);
-    expect(Object.keys(exports)).toEqual(['linearVolume']);
+    expect(Object.keys(exports).sort()).toEqual(['countNonFinite', 'linearVolume']);
+  });
+  it('countNonFinite counts NaN and both infinities (any count, any alignment), as scanNonFinite does', () => {
+    const values = new Float32Array(103);
+    createRng(3).fillNormal(values, 0, 1e30);
+    values[0] = NaN; values[5] = Infinity; values[6] = -Infinity; values[101] = NaN; values[102] = 3.4e38;
+    for (const [from, len] of [[0, 103], [1, 101], [2, 3], [7, 0], [100, 3]]) {
+      const k = trilinearKernel(len, 1);
+      new Float32Array(k.memory.buffer, k.sourceAt, len).set(values.subarray(from, from + len));
+      expect(k.countNonFinite(k.sourceAt, len)).toBe(scanNonFinite(values.subarray(from, from + len), false).count);
+    }
   });
   const rng = createRng(9);
   const image = new Float32Array(DIMS[0] * DIMS[1] * DIMS[2]);
@@ -47,6 +59,11 @@ describe('WebAssembly trilinear kernel', () => {
           const byRows = resampleVoxels({ ...input, displacementVox: new Float32Array(3 * m) }, new Float32Array(m));
           expect(Buffer.from(byKernel.buffer).equals(Buffer.from(byRows.buffer))).toBe(true);
           if (deg !== 0) expect(byKernel.some((v) => v === -7.25)).toBe(mode === 'constant');
+          if (margin === 1 && (mode === 'constant' || mode === 'nearest')) {
+            // the same positions over the image itself, its margin only virtual: the same bits again
+            const virtual = resampleVoxels({ ...input, source: image, sourceDims: DIMS, margin: 0, virtualMargin: 1 }, new Float32Array(m));
+            expect(Buffer.from(virtual.buffer).equals(Buffer.from(byRows.buffer))).toBe(true);
+          }
         });
       }
     }
