@@ -39,6 +39,9 @@ export function linearVolume(params: usize, src: usize, nx: i32, ny: i32, nz: i3
   const lx = prm(params, LX), hx = prm(params, HX), ly = prm(params, LY), hy = prm(params, HY), lz = prm(params, LZ), hz = prm(params, HZ);
   const e = prm(params, E), gx = prm(params, GX), gy = prm(params, GY), gz = prm(params, GZ);
   const cval = <f32>prm(params, CVAL);
+  // in the position's frame (virtual margin included): the source's first voxel and the last voxel of each axis
+  const nxf = <f64>nx, sxyf = <f64>sxy, first = <f64>shift * (1 + nxf + sxyf);
+  const lastX = <f64>(nx - 1 + shift), lastY = <f64>(ny - 1 + shift), lastZ = <f64>(nz - 1 + shift);
   let count = 0;
   let p = 0;
   for (let k = 0; k < oz; k++) {
@@ -51,15 +54,17 @@ export function linearVolume(params: usize, src: usize, nx: i32, ny: i32, nz: i3
       for (let i = 0; i < ox; i++, p++) {
         const o = out + (<usize>p << 2);
         if (x >= lx && x <= hx && y >= ly && y <= hy && z >= lz && z <= hz) {
-          const i0 = <i32>x, j0 = <i32>y, k0 = <i32>z;
-          const fx = x - <f64>i0, fy = y - <f64>j0, fz = z - <f64>k0;
-          const ii = i0 - shift, jj = j0 - shift, kk = k0 - shift;
-          const r = src + (<usize>(ii + nx * jj + sxy * kk) << 2);
+          // floor by truncation (positions here are >= 0), as a Float64: x - trunc(x) is the fraction
+          // the row routine computes from its integer; one conversion to an integer for the address
+          // (each float -> integer conversion costs about as much as the interpolation)
+          const tx = f64.trunc(x), ty = f64.trunc(y), tz = f64.trunc(z);
+          const fx = x - tx, fy = y - ty, fz = z - tz;
+          const r = src + (<usize><i32>(tx + ty * nxf + tz * sxyf - first) << 2);
           // the x-neighbours of each of the four rows in one 64-bit load, widened to two Float64 lanes;
           // lanes then pair the rows so each lerp below is one vector operation on two scalar lerps.
           // On the last voxel of an axis (weight 0 for the next one) the voxel itself stands in for it.
-          const ry = jj < ny - 1 ? <usize>nx << 2 : 0, rz = r + (kk < nz - 1 ? <usize>sxy << 2 : 0);
-          const full = ii < nx - 1;
+          const ry = ty < lastY ? <usize>nx << 2 : 0, rz = r + (tz < lastZ ? <usize>sxy << 2 : 0);
+          const full = tx < lastX;
           const v0 = pair(r, full); // a, b
           const v1 = pair(r + ry, full); // c, d
           const v2 = pair(rz, full); // e, f
