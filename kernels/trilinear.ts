@@ -21,6 +21,8 @@
 // the output index (Int32). Returns the number of entries.
 
 /** Offsets of the parameters (in Float64 values) at `params`. */
+/** 2^52: adding it to a non-negative integer below 2^52 leaves that integer in the low mantissa bits. */
+const TWO_52: f64 = 4503599627370496.0;
 const PAD = 12, LX = 13, HX = 14, LY = 15, HY = 16, LZ = 17, HZ = 18, E = 19, GX = 20, GY = 21, GZ = 22, CVAL = 23;
 
 @inline function prm(params: usize, i: i32): f64 { return load<f64>(params + (<usize>i << 3)); }
@@ -55,11 +57,12 @@ export function linearVolume(params: usize, src: usize, nx: i32, ny: i32, nz: i3
         const o = out + (<usize>p << 2);
         if (x >= lx && x <= hx && y >= ly && y <= hy && z >= lz && z <= hz) {
           // floor by truncation (positions here are >= 0), as a Float64: x - trunc(x) is the fraction
-          // the row routine computes from its integer; one conversion to an integer for the address
-          // (each float -> integer conversion costs about as much as the interpolation)
+          // the row routine computes from its integer. The address's index (an integer below 2^31,
+          // exact in Float64) is read from the low bits of 2^52 + index, without a float -> integer
+          // conversion (V8's saturating ones cost about as much as the interpolation)
           const tx = f64.trunc(x), ty = f64.trunc(y), tz = f64.trunc(z);
           const fx = x - tx, fy = y - ty, fz = z - tz;
-          const r = src + (<usize><i32>(tx + ty * nxf + tz * sxyf - first) << 2);
+          const r = src + (<usize><i32>reinterpret<i64>(tx + ty * nxf + tz * sxyf - first + TWO_52) << 2);
           // the x-neighbours of each of the four rows in one 64-bit load, widened to two Float64 lanes;
           // lanes then pair the rows so each lerp below is one vector operation on two scalar lerps.
           // On the last voxel of an axis (weight 0 for the next one) the voxel itself stands in for it.
