@@ -9,7 +9,8 @@
 //   inside the fast-path box [lx, hx] x [ly, hy] x [lz, hz]: trilinear value from the eight taps (floor
 //   by truncation: positions there are >= 0), lerps along x, then y, then z;
 //   else, in constant mode, outside the grid proper [e, gx] x [e, gy] x [e, gz]: cval;
-//   else: the voxel is left to the caller's generic path: its index and position go to a list.
+//   else: the voxel is left to the caller's generic path: its index goes to a list (the caller replays
+//   the row's running sum to get its position).
 //
 // Parameters (Float64 at `params`): m0..m11 (the first three rows of the output -> source voxel map,
 // row-major), pad, lx, hx, ly, hy, lz, hz, e, gx, gy, gz, cval. The source is Float32, x fastest,
@@ -17,8 +18,8 @@
 // (the caller's virtual margin: in constant and nearest mode the fast path reads a margin value only
 // with weight 0, at a position exactly on the grid's last voxel, so that tap reads the voxel itself
 // instead: a + 0 (a - a) = a + 0 (b - a) for finite b); the taps are read at the position minus
-// `shift`. The output is Float32, ox x oy x oz. Each list entry is 32 bytes: px, py, pz (Float64) and
-// the output index (Int32). Returns the number of entries.
+// `shift`. The output is Float32, ox x oy x oz. Each list entry is the output index (Int32), ascending.
+// Returns the number of entries.
 
 /** Offsets of the parameters (in Float64 values) at `params`. */
 /** 2^52: adding it to a non-negative integer below 2^52 leaves that integer in the low mantissa bits. */
@@ -84,11 +85,7 @@ export function linearVolume(params: usize, src: usize, nx: i32, ny: i32, nz: i3
         } else if (constant != 0 && !(x >= e && x <= gx && y >= e && y <= gy && z >= e && z <= gz)) {
           store<f32>(o, cval);
         } else {
-          const at = list + (<usize>count << 5);
-          store<f64>(at, x);
-          store<f64>(at + 8, y);
-          store<f64>(at + 16, z);
-          store<i32>(at + 24, p);
+          store<i32>(list + (<usize>count << 2), p);
           count++;
         }
         x += m0; y += m4; z += m8;

@@ -220,14 +220,32 @@ function linearByKernel(input: ResampleVoxelsInput, out: Float32Array): Float32A
   params[19] = b.e; params[20] = b.gx; params[21] = b.gy; params[22] = b.gz; params[23] = input.cval;
   const left = k.linearVolume(0, k.sourceAt, nx, ny, nz, vm, k.outAt, ox, oy, oz, input.mode === 'constant' ? 1 : 0, LIST_AT);
   out.set(new Float32Array(buffer, k.outAt, count));
-  if (left > 0) {
-    const at = new Float64Array(buffer, LIST_AT, (left * LIST_ENTRY_BYTES) >> 3);
-    const index = new Int32Array(buffer, LIST_AT, (left * LIST_ENTRY_BYTES) >> 2);
-    const f = LIST_ENTRY_BYTES >> 3, w = LIST_ENTRY_BYTES >> 2;
-    // the list holds positions counting the virtual margin; generic reads the source as it is
-    for (let q = 0; q < left; q++) out[index[q * w + 6]] = generic(input, at[q * f] - vm, at[q * f + 1] - vm, at[q * f + 2] - vm);
-  }
+  if (left > 0) listedByGeneric(input, new Int32Array(buffer, LIST_AT, (left * LIST_ENTRY_BYTES) >> 2), params[12], out);
   return out;
+}
+
+/**
+ * The voxels the trilinear kernel listed (output indices, ascending), by the generic taps. Each
+ * position is the kernel's: the row's start, then its running sum replayed up to the voxel (the same
+ * additions in the same order, so the same number); positions count the virtual margin, which
+ * generic, reading the source as it is, does not.
+ */
+function listedByGeneric(input: ResampleVoxelsInput, listed: Int32Array, pad: number, out: Float32Array): void {
+  const m = input.srcFromOut, vm = input.virtualMargin ?? 0;
+  const [ox, oy] = input.outDims;
+  let row = -1, at = 0, x = 0, y = 0, z = 0;
+  for (let q = 0; q < listed.length; q++) {
+    const p = listed[q], r = Math.floor(p / ox), i = p - r * ox;
+    if (r !== row) {
+      const j = r % oy, k = Math.floor(r / oy);
+      x = m[1] * j + m[2] * k + m[3] + pad;
+      y = m[5] * j + m[6] * k + m[7] + pad;
+      z = m[9] * j + m[10] * k + m[11] + pad;
+      row = r; at = 0;
+    }
+    for (; at < i; at++) { x += m[0]; y += m[4]; z += m[8]; }
+    out[p] = generic(input, x - vm, y - vm, z - vm);
+  }
 }
 
 const rowLinear: Row = (input, out, p0, count, x, y, z) => {

@@ -9,7 +9,7 @@ import { loadKernelModule, type KernelMemory } from '../core/load-kernel-module.
  * in TypeScript, about 1.6 ms CPU here (Node 20, measured on the loaded 2-core machine; see DEVELOPERS.md).
  *
  * Memory layout of one call (byte addresses): the parameters (32 Float64) at 0, the list of voxels
- * left to the generic path (32 bytes each, at most one per output voxel) at {@link LIST_AT}, then the
+ * left to the generic path (their output indices, at most one per output voxel) at {@link LIST_AT}, then the
  * source (Float32) and the output (Float32). The memory is made at the size a call needs and never
  * grown (see src/core/load-kernel-module.ts).
  */
@@ -33,8 +33,8 @@ export interface TrilinearKernel {
 /** Byte address of the list of generic-path voxels (after the 32 Float64 parameters). */
 export const LIST_AT = 256;
 
-/** Bytes of one list entry: px, py, pz (Float64) and the output index (Int32), padded. */
-export const LIST_ENTRY_BYTES = 32;
+/** Bytes of one list entry: the output index (Int32); the caller recomputes the position. */
+export const LIST_ENTRY_BYTES = 4;
 
 let current: TrilinearKernel | null = null;
 
