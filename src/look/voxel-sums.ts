@@ -26,8 +26,9 @@ export interface VoxelSumsPlan {
  * block two voxels at a time, and one pair's rows (one cache line per row) stay in the first-level cache
  * between its two loops. The block should still fit the second-level cache (2 MiB a core on the
  * development machine), where the copy leaves it for the kernel: with 4 MiB blocks the look took about a
- * quarter more CPU time than with 1 MiB ones (1310-voxel rows for 200 volumes) on the shared machine,
- * where the third-level cache is contended (December 2026).
+ * quarter more CPU time than with 1 MiB ones (1310-voxel rows for 200 volumes) while the machine was
+ * loaded (its third-level cache contended); at load 1-2 both took the same within the noise
+ * (December 2026).
  */
 const BLOCK_BYTES = 1024 * 1024;
 
