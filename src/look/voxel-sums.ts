@@ -24,9 +24,13 @@ export interface VoxelSumsPlan {
  * Bytes of the block of rows copied per kernel call. Each row copy is one call, so long rows matter:
  * 4096-voxel rows copied 118 MB in half the time of 328-voxel rows (Node 20). The kernel goes through the
  * block two voxels at a time, and one pair's rows (one cache line per row) stay in the first-level cache
- * between its two loops, so the block itself need not fit any cache.
+ * between its two loops. The block should still fit the second-level cache (2 MiB a core on the
+ * development machine), where the copy leaves it for the kernel: with 4 MiB blocks the look took about a
+ * quarter more CPU time than with 1 MiB ones (1310-voxel rows for 200 volumes) while the machine was
+ * loaded (its third-level cache contended); at load 1-2 both took the same within the noise
+ * (December 2026).
  */
-const BLOCK_BYTES = 4 * 1024 * 1024;
+const BLOCK_BYTES = 1024 * 1024;
 
 /**
  * Per-voxel time sums of a run in one streamed read (see src/look/voxel-sums-wasm.ts for the sums).

@@ -1,8 +1,10 @@
 import type { Affine } from '../core/affine.js';
 import type { BoundaryMode } from '../core/boundary-mode.js';
+import { fail } from '../core/fail.js';
 import { extendIndex } from './extend-index.js';
 import { foldCoordinate } from './fold-coordinate.js';
 import { kernelTaps, LANCZOS_RADIUS, type InterpolationKernel } from './interpolation-kernel.js';
+import { LIST_AT, LIST_ENTRY_BYTES, trilinearKernel } from './trilinear-wasm.js';
 
 /** What {@link resampleVoxels} reads and writes (plain data: it also travels to worker threads). */
 export interface ResampleVoxelsInput {
@@ -20,6 +22,14 @@ export interface ResampleVoxelsInput {
    * positions near the edges read them directly. __Default value:__ 0
    */
   margin?: number;
+  /**
+   * Linear kernel, `constant` or `nearest` mode, no displacement field only: positions are taken as
+   * if `virtualMargin` planes of mode-extended values surrounded `source` (same positions, same bytes
+   * as an extended source with that margin), but the source holds none: in these modes the fast path
+   * reads a margin value only with weight 0, and then reads the edge voxel instead. It spares the copy
+   * into a larger array. __Default value:__ 0
+   */
+  virtualMargin?: number;
   /** Row-major 4x4: output voxel index -> source voxel index (unpadded). */
   srcFromOut: Affine;
   /**
@@ -114,6 +124,8 @@ function axisTaps(x: number, n: number, stride: number, shift: number, kernel: I
  */
 export function resampleVoxels(input: ResampleVoxelsInput, out: Float32Array): Float32Array {
   const { kernel } = input;
+  if (kernel === 'linear' && !input.displacementVox) return linearByKernel(input, out);
+  if (input.virtualMargin) fail('INVALID_ARGUMENT', 'virtualMargin is for the linear kernel without a displacement field only');
   // one row routine per kernel keeps each loop monomorphic (linear reads Float32 voxels, cubic
   // Float64 coefficients) and lets the interior of the grid skip the boundary handling
   const row = kernel === 'linear' ? rowLinear : kernel === 'cubic' ? rowCubic : rowGeneric;
@@ -164,19 +176,85 @@ const rowGeneric: Row = (input, out, p0, count, x, y, z) => {
   }
 };
 
+/**
+ * Where rowLinear takes its fast path and where constant mode writes cval without the generic path.
+ * Fast path: both taps of every axis inside the array; with a margin (extendCoefficients) a position
+ * up to the grid's last voxel reads it directly, and in constant and nearest mode a position outside
+ * the grid proper is left to the generic path (cval, or the clamped position). Grid proper: the array
+ * without its margin, [e, g] on each axis.
+ */
+function linearBounds(input: ResampleVoxelsInput): { lx: number; hx: number; ly: number; hy: number; lz: number; hz: number; e: number; gx: number; gy: number; gz: number } {
+  const vm = 2 * (input.virtualMargin ?? 0);
+  const nx = input.sourceDims[0] + vm, ny = input.sourceDims[1] + vm, nz = input.sourceDims[2] + vm;
+  const e = (input.margin ?? 0) + (input.virtualMargin ?? 0), edge = input.mode === 'constant' || input.mode === 'nearest';
+  const lx = edge ? e : 0;
+  return {
+    lx, ly: lx, lz: lx,
+    hx: edge ? Math.min(nx - 2, nx - 1 - e) : nx - 2, hy: edge ? Math.min(ny - 2, ny - 1 - e) : ny - 2, hz: edge ? Math.min(nz - 2, nz - 1 - e) : nz - 2,
+    e, gx: nx - 1 - e, gy: ny - 1 - e, gz: nz - 1 - e,
+  };
+}
+
+/**
+ * The linear kernel without a displacement field: the WebAssembly kernel (trilinear-wasm.ts) does the
+ * fast path and constant mode's cval, with the positions and operations of rowLinear, so the bytes are
+ * the same; the voxels it leaves (near the edges in the other modes) go through the generic path here.
+ * A source already in the kernel's memory at its source address (resampleVolumesTask puts it there)
+ * is not copied.
+ */
+function linearByKernel(input: ResampleVoxelsInput, out: Float32Array): Float32Array {
+  const src = input.source as Float32Array;
+  const [nx, ny, nz] = input.sourceDims;
+  const vm = input.virtualMargin ?? 0;
+  if (vm !== 0 && input.mode !== 'constant' && input.mode !== 'nearest') fail('INVALID_ARGUMENT', `virtualMargin is for constant and nearest mode only, not ${input.mode}`);
+  const [ox, oy, oz] = input.outDims;
+  const count = ox * oy * oz;
+  const k = trilinearKernel(src.length, count);
+  const buffer = k.memory.buffer;
+  if (src.buffer !== buffer || src.byteOffset !== k.sourceAt) new Float32Array(buffer, k.sourceAt, src.length).set(src);
+  const b = linearBounds(input);
+  const params = new Float64Array(buffer, 0, LIST_AT >> 3);
+  params.set(input.srcFromOut.subarray(0, 12));
+  params[12] = input.pad + b.e;
+  params[13] = b.lx; params[14] = b.hx; params[15] = b.ly; params[16] = b.hy; params[17] = b.lz; params[18] = b.hz;
+  params[19] = b.e; params[20] = b.gx; params[21] = b.gy; params[22] = b.gz; params[23] = input.cval;
+  const left = k.linearVolume(0, k.sourceAt, nx, ny, nz, vm, k.outAt, ox, oy, oz, input.mode === 'constant' ? 1 : 0, LIST_AT);
+  out.set(new Float32Array(buffer, k.outAt, count));
+  if (left > 0) listedByGeneric(input, new Int32Array(buffer, LIST_AT, (left * LIST_ENTRY_BYTES) >> 2), params[12], out);
+  return out;
+}
+
+/**
+ * The voxels the trilinear kernel listed (output indices, ascending), by the generic taps. Each
+ * position is the kernel's: the row's start, then its running sum replayed up to the voxel (the same
+ * additions in the same order, so the same number); positions count the virtual margin, which
+ * generic, reading the source as it is, does not.
+ */
+function listedByGeneric(input: ResampleVoxelsInput, listed: Int32Array, pad: number, out: Float32Array): void {
+  const m = input.srcFromOut, vm = input.virtualMargin ?? 0;
+  const [ox, oy] = input.outDims;
+  let row = -1, at = 0, x = 0, y = 0, z = 0;
+  for (let q = 0; q < listed.length; q++) {
+    const p = listed[q], r = Math.floor(p / ox), i = p - r * ox;
+    if (r !== row) {
+      const j = r % oy, k = Math.floor(r / oy);
+      x = m[1] * j + m[2] * k + m[3] + pad;
+      y = m[5] * j + m[6] * k + m[7] + pad;
+      z = m[9] * j + m[10] * k + m[11] + pad;
+      row = r; at = 0;
+    }
+    for (; at < i; at++) { x += m[0]; y += m[4]; z += m[8]; }
+    out[p] = generic(input, x - vm, y - vm, z - vm);
+  }
+}
+
 const rowLinear: Row = (input, out, p0, count, x, y, z) => {
   const m = input.srcFromOut, disp = input.displacementVox ?? null, src = input.source as Float32Array;
-  const nx = input.sourceDims[0], ny = input.sourceDims[1], nz = input.sourceDims[2], sxy = nx * ny;
-  // fast-path bounds: both taps of every axis inside the array; with a margin (extendCoefficients) a
-  // position up to the grid's last voxel reads it directly, and in constant and nearest mode a
-  // position outside the grid proper is left to the generic path (cval, or the clamped position)
-  const e = input.margin ?? 0, edge = input.mode === 'constant' || input.mode === 'nearest';
-  const lx = edge ? e : 0, ly = lx, lz = lx;
-  const hx = edge ? Math.min(nx - 2, nx - 1 - e) : nx - 2, hy = edge ? Math.min(ny - 2, ny - 1 - e) : ny - 2, hz = edge ? Math.min(nz - 2, nz - 1 - e) : nz - 2;
-  // constant mode: a position outside the grid proper (the array without its margin) is cval, as
-  // foldCoordinate decides, without the generic path's call
+  const nx = input.sourceDims[0], sxy = nx * input.sourceDims[1];
+  const { lx, hx, ly, hy, lz, hz, e, gx, gy, gz } = linearBounds(input);
+  // constant mode: a position outside the grid proper is cval, as foldCoordinate decides, without the
+  // generic path's call
   const constant = input.mode === 'constant', cval = input.cval;
-  const gx = nx - 1 - e, gy = ny - 1 - e, gz = nz - 1 - e;
   const dx = m[0], dy = m[4], dz = m[8];
   for (let p = p0, end = p0 + count; p < end; p++, x += dx, y += dy, z += dz) {
     let px = x, py = y, pz = z;
