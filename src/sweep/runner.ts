@@ -10,7 +10,6 @@ import { stepModules } from '../steps/registry.js';
 import { calibratedCriticalValue } from '../model/threshold-calibrated.js';
 import { childSeed } from '../core/child-seed.js';
 import { NULL_DESIGN, nullDesignCount } from './spec.js';
-import { plantDesignNorm } from './plant-design-norm.js';
 import { randomBlockEvents } from './random-block-events.js';
 import { collectGarbage } from './collect-garbage.js';
 import { SCORECARD_METRICS } from './cell-metrics.js';
@@ -28,7 +27,9 @@ import { parseSweepSpec } from './parse-sweep-spec.js';
 import type { SweepSpec, SweepSpecInput } from './spec.js';
 import { stableHash } from './stable-hash.js';
 import { readCachedCell, readCachedEstimate, readCachedTsnr, removeGroupStage } from './stage-cache.js';
+import { plantDesignNorm } from './plant-design-norm.js';
 import { releaseWorkBuffer } from './work-buffer.js';
+import { releaseVoxelSumsKernels } from '../look/voxel-sums-wasm.js';
 
 /**
  * The cell pipeline, loaded only when tasks run in this thread: with worker threads the main thread
@@ -412,6 +413,8 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
     // (2 MB instead of V8's default) lowers its resident memory without slowing it measurably (demo
     // run, 4 plantings, 3 runs each: peak 337 MB with 4 MB, 330 MB with 2 MB, 328 MB with 1 MB; the
     // same processor time within the machine's noise)
+    // this thread sums over time no more while the workers run (the look, when there was one, did)
+    releaseVoxelSumsKernels();
     const pool = createWorkerPool<SweepJob, CellResult[] | TsnrResult | NullResult>(new URL('./sweep-worker.js', import.meta.url), { size: Math.min(workers, jobCount), resourceLimits: { maxYoungGenerationSizeMb: 2 } });
     const timer = setInterval(report, 250);
     try {
