@@ -27,7 +27,6 @@ import { parseSweepSpec } from './parse-sweep-spec.js';
 import type { SweepSpec, SweepSpecInput } from './spec.js';
 import { stableHash } from './stable-hash.js';
 import { readCachedCell, readCachedEstimate, readCachedTsnr, removeGroupStage } from './stage-cache.js';
-import { plantDesignNorm } from './plant-design-norm.js';
 import { releaseWorkBuffer } from './work-buffer.js';
 import { releaseVoxelSumsKernels } from '../look/voxel-sums-wasm.js';
 
@@ -409,12 +408,12 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
       releaseWorkBuffer(); // the cells' reusable run-sized array (worker threads drop theirs when they end)
     }
   } else {
+    // this thread sums over time no more while the workers run (the look, when there was one, did)
+    releaseVoxelSumsKernels();
     // a sweep worker's data are typed arrays outside the JavaScript heap: a small young generation
     // (2 MB instead of V8's default) lowers its resident memory without slowing it measurably (demo
     // run, 4 plantings, 3 runs each: peak 337 MB with 4 MB, 330 MB with 2 MB, 328 MB with 1 MB; the
     // same processor time within the machine's noise)
-    // this thread sums over time no more while the workers run (the look, when there was one, did)
-    releaseVoxelSumsKernels();
     const pool = createWorkerPool<SweepJob, CellResult[] | TsnrResult | NullResult>(new URL('./sweep-worker.js', import.meta.url), { size: Math.min(workers, jobCount), resourceLimits: { maxYoungGenerationSizeMb: 2 } });
     const timer = setInterval(report, 250);
     try {
@@ -453,6 +452,9 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
     if (!notes.has(c.settingIndex)) notes.set(c.settingIndex, r.notes);
   }
   const scorecard: Scorecard = { sweepKey: plan.sweepKey, varied: Object.keys(spec.vary), metrics: [...SCORECARD_METRICS], rows, seconds };
+  // loaded only now: it brings the design and HRF code (and with it about 230 @stdlib modules), which
+  // the main thread otherwise never needs while the workers run, when its resident memory counts most
+  const { plantDesignNorm } = await import('./plant-design-norm.js');
   return {
     spec, plan: { settings: plan.settings, plants: plan.plants, splitAt: plan.splitAt, sweepKey: plan.sweepKey }, scorecard, curves,
     notes: [...notes.entries()].sort((a, b) => a[0] - b[0]).map(([settingIndex, ns]) => ({ settingIndex, notes: ns })),
