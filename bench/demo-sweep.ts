@@ -20,9 +20,6 @@ import { fileURLToPath } from 'node:url';
 import { runBytes } from '../src/core/volume.js';
 import { openRun } from '../src/io/open-run.js';
 import { TISSUE_LABEL } from '../src/simulate/tissue-properties.js';
-import { demoPhantomSpec } from '../src/simulate/phantom-spec.js';
-import { simulatePhantomRun } from '../src/simulate/simulate-phantom-run.js';
-import { writePhantomRun } from '../src/simulate/write-phantom-run.js';
 import { defaultSmoothingSpec } from '../src/sweep/default-spec.js';
 import { buildMask, maskFromFile } from '../src/sweep/mask-source.js';
 import { runSweep } from '../src/sweep/runner.js';
@@ -40,6 +37,10 @@ async function demoData(): Promise<{ dir: string; temp: boolean }> {
   const dir = join(root, 'data-demo');
   if (existsSync(join(dir, `${STEM}_bold.nii.gz`))) return { dir, temp: false };
   const tmp = mkdtempSync(join(tmpdir(), 'boldsweep-demo-data-'));
+  // loaded only here: the measured child should hold what the demo command holds, not the phantom code
+  const { demoPhantomSpec } = await import('../src/simulate/phantom-spec.js');
+  const { simulatePhantomRun } = await import('../src/simulate/simulate-phantom-run.js');
+  const { writePhantomRun } = await import('../src/simulate/write-phantom-run.js');
   await writePhantomRun(tmp, simulatePhantomRun(demoPhantomSpec()), STEM);
   return { dir: tmp, temp: true };
 }

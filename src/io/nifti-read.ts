@@ -1,7 +1,6 @@
 import { basename } from 'node:path';
 import { open, type FileHandle } from 'node:fs/promises';
-import { constants as bufferConstants } from 'node:buffer';
-import { constants as zlibConstants, gunzipSync } from 'node:zlib';
+import { createGunzip } from 'node:zlib';
 import { affineSpacing } from '../core/affine.js';
 import { fail } from '../core/fail.js';
 import { makeVolume, type Volume } from '../core/volume.js';
@@ -28,10 +27,17 @@ export interface ReadNiftiOptions {
   sharedMemory?: boolean;
 }
 
-/** Compressed bytes inflated to find the header of a .gz file: 4 KiB inflate to at most ~4 MB (deflate's ratio is below 1032:1). */
-const GZIP_PROBE_BYTES = 4096;
-/** Plain files are read in slices of this size when they need conversion (a multiple of every voxel size). */
-const READ_SLICE_BYTES = 8 << 20;
+/**
+ * A .nii.gz is read and inflated in pieces of this size, below glibc malloc's initial mmap threshold
+ * (128 KiB), so no piece is an mmapped block whose release would raise it (see readCompressed).
+ */
+const INFLATE_PIECE_BYTES = 64 * 1024;
+/**
+ * Plain files are read in slices of this size when they need conversion: a multiple of every voxel
+ * size (1, 2, 3, 4, 8, 16 bytes) and below glibc malloc's initial mmap threshold (128 KiB), for the
+ * reason given at readCompressed.
+ */
+const READ_SLICE_BYTES = 96 * 1024;
 /** Largest single read the file system call accepts comfortably (below 2^31). */
 const MAX_READ_BYTES = 1 << 30;
 const LITTLE_ENDIAN_HOST = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1;
@@ -41,8 +47,8 @@ const LITTLE_ENDIAN_HOST = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1;
  * bytes) into one Float32Array, applying scl_slope/scl_inter (slope 0 or non-finite means none).
  * Voxel->world follows nifti1.h: sform if sform_code > 0, else qform if qform_code > 0, else voxel
  * sizes only (`info.transformSource` says which); lengths are converted to mm (m, mm, um) and
- * pixdim[4] to seconds (s, ms, us). Memory: the .gz bytes, their decompressed copy and the output;
- * a plain file is converted slice by slice (float32 in host order is read straight into the output).
+ * pixdim[4] to seconds (s, ms, us). Memory: the output and pieces of 64-96 KiB; a .gz file is read
+ * and inflated piece by piece, a plain file is converted slice by slice (float32 in host order is read straight into the output).
  * Headers claiming any dimension above 2^15 or more than 2^31 voxels are refused before allocating.
  * @param path - the image file
  * @param options - what to do with NaN/Inf voxels
@@ -181,40 +187,99 @@ async function readPlain(fh: FileHandle, probe: Uint8Array, size: number, path: 
   return { header, data: out };
 }
 
+/**
+ * Inflate a .nii.gz in pieces of {@link INFLATE_PIECE_BYTES}, converting each piece's voxels straight
+ * into the output: neither the compressed file nor its decompressed copy is ever held whole. Why it
+ * matters beyond the bytes themselves: glibc's malloc raises its mmap threshold (and its trim
+ * threshold, to twice that) to the size of the largest mmapped block a program frees, process-wide;
+ * freeing one decompressed copy of a run (tens of MB) so left every later mid-sized array of every
+ * thread in malloc's arenas, untrimmed, about 35 MB more at a demo sweep's peak.
+ */
 async function readCompressed(fh: FileHandle, path: string, shared: boolean): Promise<{ header: NiftiHeaderFacts; data: Float32Array }> {
-  let packed: Buffer;
-  try {
-    packed = await fh.readFile();
-  } catch (e) {
-    fail('READ_FAILED', `cannot read ${path} (${(e as Error).message})`, { file: path, cause: e });
-  }
-  let head: Buffer;
-  try {
-    head = gunzipSync(packed.subarray(0, GZIP_PROBE_BYTES), { finishFlush: zlibConstants.Z_SYNC_FLUSH });
-  } catch (e) {
-    gzipFailure(e, path, 'header');
-  }
-  const header = parseNiftiHeader(head, path);
-  const need = dataBytesOf(header);
-  const total = header.voxOffset + need;
-  if (total + 1 > bufferConstants.MAX_LENGTH) {
-    fail('READ_FAILED', `the decompressed file would be ${total} bytes, more than this Node.js can hold in one buffer (${bufferConstants.MAX_LENGTH}); decompress it to .nii first (plain files are read in slices)`, { file: path });
-  }
-  let whole: Buffer;
-  try {
-    // one output buffer of exactly the expected size (+1 byte to tell "ends there" from "goes on")
-    whole = gunzipSync(packed, { chunkSize: Math.max(64 * 1024, total + 1), maxOutputLength: total + 1 });
-  } catch (e) {
-    if ((e as NodeJS.ErrnoException).code === 'ERR_BUFFER_TOO_LARGE') {
-      fail('NIFTI_SIZE_MISMATCH', `decompressed data are longer than the ${total} bytes the header describes (vox_offset ${header.voxOffset} + ${header.dims4.join('x')} ${header.datatype.name} voxels)`, { file: path, cause: e });
+  const gunzip = createGunzip({ chunkSize: INFLATE_PIECE_BYTES });
+  const source = fh.createReadStream({ start: 0, highWaterMark: INFLATE_PIECE_BYTES, autoClose: false, emitClose: false });
+  source.on('error', (e) => gunzip.destroy(Object.assign(new Error(e.message), { readFailed: true, cause: e })));
+  source.pipe(gunzip);
+  let head: Uint8Array = new Uint8Array(0);
+  let header: NiftiHeaderFacts | null = null;
+  let out: Float32Array | null = null;
+  let need = 0;
+  let skip = 0; // decompressed bytes between the header probe and vox_offset still to pass over
+  let dataDone = 0; // data bytes seen so far
+  const carry = new Uint8Array(16); // a voxel split between two pieces
+  let carried = 0;
+  let slope = 0;
+  let inter = 0;
+  const startData = (h: NiftiHeaderFacts): void => {
+    header = h;
+    need = dataBytesOf(h);
+    out = floatArray(need / h.datatype.bytes, shared);
+    ({ slope, inter } = effectiveScaling(h));
+  };
+  const takeData = (piece: Uint8Array): void => {
+    const h = header!;
+    const size = h.datatype.bytes;
+    if (dataDone + piece.byteLength > need) {
+      fail('NIFTI_SIZE_MISMATCH', `decompressed data are longer than the ${h.voxOffset + need} bytes the header describes (vox_offset ${h.voxOffset} + ${h.dims4.join('x')} ${h.datatype.name} voxels)`, { file: path });
     }
-    gzipFailure(e, path, 'data');
+    let p = piece;
+    if (carried > 0) {
+      const fill = Math.min(size - carried, p.byteLength);
+      carry.set(p.subarray(0, fill), carried);
+      carried += fill;
+      p = p.subarray(fill);
+      if (carried === size) {
+        convertVoxels(carry.subarray(0, size), h.datatype, h.littleEndian, slope, inter, out!, (dataDone - (carried - fill)) / size);
+        carried = 0;
+      }
+    }
+    const whole = p.byteLength - (p.byteLength % size);
+    const at = dataDone + piece.byteLength - p.byteLength;
+    if (whole > 0) convertVoxels(p.subarray(0, whole), h.datatype, h.littleEndian, slope, inter, out!, at / size);
+    if (whole < p.byteLength) {
+      carry.set(p.subarray(whole), 0);
+      carried = p.byteLength - whole;
+    }
+    dataDone += piece.byteLength;
+  };
+  /** Decompressed bytes in file order: the header probe, then the bytes up to vox_offset, then the voxels. */
+  const feed = (chunk: Uint8Array, last: boolean): void => {
+    let piece = chunk;
+    if (header === null) {
+      const joined = new Uint8Array(head.byteLength + piece.byteLength);
+      joined.set(head, 0);
+      joined.set(piece, head.byteLength);
+      if (joined.byteLength < HEADER_PROBE_BYTES && !last) {
+        head = joined;
+        return;
+      }
+      startData(parseNiftiHeader(joined, path));
+      head = new Uint8Array(0);
+      piece = joined;
+      skip = header!.voxOffset;
+    }
+    if (skip > 0) {
+      const n = Math.min(skip, piece.byteLength);
+      skip -= n;
+      piece = piece.subarray(n);
+    }
+    if (piece.byteLength > 0) takeData(piece);
+  };
+  try {
+    for await (const chunk of gunzip as AsyncIterable<Buffer>) feed(chunk, false);
+  } catch (e) {
+    if ((e as { name?: string }).name === 'BoldsweepError') throw e;
+    if ((e as { readFailed?: boolean }).readFailed) fail('READ_FAILED', `cannot read ${path} (${(e as Error).message})`, { file: path, cause: e });
+    gzipFailure(e, path, header === null ? 'header' : 'data');
+  } finally {
+    source.unpipe(gunzip);
+    source.destroy();
+    gunzip.destroy();
   }
-  checkDataLength(header, whole.byteLength - header.voxOffset, need, path);
-  const out = floatArray(need / header.datatype.bytes, shared);
-  const { slope, inter } = effectiveScaling(header);
-  convertVoxels(whole.subarray(header.voxOffset, total), header.datatype, header.littleEndian, slope, inter, out, 0);
-  return { header, data: out };
+  if (header === null) feed(new Uint8Array(0), true); // the whole file is shorter than the header probe
+  const h = header as unknown as NiftiHeaderFacts;
+  checkDataLength(h, dataDone - skip, need, path);
+  return { header: h, data: out! };
 }
 
 function checkDataLength(h: NiftiHeaderFacts, have: number, need: number, path: string): void {

@@ -113,3 +113,14 @@ export function voxelSumsKernels(p: number, bytes: number): VoxelSumsKernels {
   }
   return current;
 }
+
+/**
+ * Let go of the kept instance and its memory (the block of rows: about 4 MB), for a thread that will
+ * not sum again for a long while: a sweep's worker after its tSNR tasks, the main thread after the
+ * look. The next call makes a new instance (the compiled module is kept).
+ * @returns nothing
+ * @example releaseVoxelSumsKernels()
+ */
+export function releaseVoxelSumsKernels(): void {
+  current = null;
+}

@@ -3,7 +3,7 @@ import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
 /** Dependencies whose versions shape the numbers or the charts. */
-const RECORDED = ['nifti-reader-js', 'zod', '@stdlib/random-base-mt19937', '@stdlib/random-base-normal', '@stdlib/stats-base-dists-t-quantile', '@stdlib/stats-base-dists-normal-quantile', 'vega', 'vega-lite', 'danfojs'];
+const RECORDED = ['nifti-reader-js', 'zod', '@stdlib/stats-base-dists-t-quantile', '@stdlib/stats-base-dists-normal-quantile', 'vega', 'vega-lite', 'danfojs'];
 
 /**
  * The folder holding boldsweep's package.json (found from this file, in src/ or dist/src/).

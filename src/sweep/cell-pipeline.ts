@@ -31,6 +31,7 @@ import { readGroupStage, writeCachedCell, writeCachedEstimate, writeCachedTsnr, 
 import { applyStagePatch, stagePatch, type StagePatch } from './stage-patch.js';
 import { sharesMemory } from './shares-memory.js';
 import { adoptWorkBuffer, currentWorkBuffer, releaseWorkBuffer, workBuffer } from './work-buffer.js';
+import { releaseVoxelSumsKernels } from '../look/voxel-sums-wasm.js';
 import { fail } from '../core/fail.js';
 import type { CellPlan, CellGroup } from './plan.js';
 import type { RecipeStep } from './spec.js';
@@ -505,6 +506,10 @@ export async function runTsnrTask(task: TsnrTask): Promise<TsnrResult> {
   for (let v = 0; v < brain.length; v++) if (brain[v] && Number.isFinite(stats.tsnr[v])) inMask.push(stats.tsnr[v]);
   const result: TsnrResult = { key: task.key, tsnrMedian: inMask.length ? medianOf(inMask) : null, seconds: (performance.now() - t0) / 1000 };
   if (ctx.cacheDir) await writeCachedTsnr(ctx.cacheDir, result);
+  // the cells never sum over time: let the sums' block memory (about 4 MB) go, and collect it with this
+  // task's maps now (left to V8, they stayed through the next tasks: 7 such memories at a demo sweep's peak)
+  releaseVoxelSumsKernels();
+  collectGarbage();
   return result;
 }
 

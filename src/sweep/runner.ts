@@ -10,7 +10,6 @@ import { stepModules } from '../steps/registry.js';
 import { calibratedCriticalValue } from '../model/threshold-calibrated.js';
 import { childSeed } from '../core/child-seed.js';
 import { NULL_DESIGN, nullDesignCount } from './spec.js';
-import { plantDesignNorm } from './plant-design-norm.js';
 import { randomBlockEvents } from './random-block-events.js';
 import { collectGarbage } from './collect-garbage.js';
 import { SCORECARD_METRICS } from './cell-metrics.js';
@@ -30,6 +29,7 @@ import type { SweepSpec, SweepSpecInput } from './spec.js';
 import { stableHash } from './stable-hash.js';
 import { readCachedCell, readCachedEstimate, readCachedTsnr, removeGroupStage } from './stage-cache.js';
 import { releaseWorkBuffer } from './work-buffer.js';
+import { releaseVoxelSumsKernels } from '../look/voxel-sums-wasm.js';
 
 /**
  * The cell pipeline, loaded only when tasks run in this thread: with worker threads the main thread
@@ -418,6 +418,8 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
       releaseWorkBuffer(); // the cells' reusable run-sized array (worker threads drop theirs when they end)
     }
   } else {
+    // this thread sums over time no more while the workers run (the look, when there was one, did)
+    releaseVoxelSumsKernels();
     // a sweep worker's data are typed arrays outside the JavaScript heap: a small young generation
     // (2 MB instead of V8's default) lowers its resident memory without slowing it measurably (demo
     // run, 4 plantings, 3 runs each: peak 337 MB with 4 MB, 330 MB with 2 MB, 328 MB with 1 MB; the
@@ -460,6 +462,9 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
     if (!notes.has(c.settingIndex)) notes.set(c.settingIndex, r.notes);
   }
   const scorecard: Scorecard = { sweepKey: plan.sweepKey, varied: Object.keys(spec.vary), metrics: [...SCORECARD_METRICS], rows, seconds };
+  // loaded only now: it brings the design and HRF code (and with it about 230 @stdlib modules), which
+  // the main thread otherwise never needs while the workers run, when its resident memory counts most
+  const { plantDesignNorm } = await import('./plant-design-norm.js');
   return {
     spec, plan: { settings: plan.settings, plants: plan.plants, splitAt: plan.splitAt, sweepKey: plan.sweepKey }, scorecard, curves,
     notes: [...notes.entries()].sort((a, b) => a[0] - b[0]).map(([settingIndex, ns]) => ({ settingIndex, notes: ns })),

@@ -1,9 +1,12 @@
-import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { gzipSync } from 'node:zlib';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { isBoldsweepError } from '../../src/core/errors.js';
 import { readNifti } from '../../src/io/nifti-read.js';
+import { niftiHeaderBytes, niftiVoxelBytes } from '../../src/io/nifti-write.js';
+import { makeVolume } from '../../src/core/volume.js';
 import { HAVE_NIFTI_TOOL, niftiToolDescription } from './nifti-tool.js';
 
 // Reference files and values written by test/reference/make_nifti_fixtures.py (numpy + struct, from the
@@ -159,6 +162,36 @@ describe('sharedMemory: the run read straight into a SharedArrayBuffer', () => {
       expect(shared.volume.data.buffer).toBeInstanceOf(SharedArrayBuffer);
       expect(plain.volume.data.buffer).not.toBeInstanceOf(SharedArrayBuffer);
       expect(Buffer.from(shared.volume.data.buffer).equals(Buffer.from(plain.volume.data.buffer))).toBe(true);
+    });
+  }
+});
+
+describe('.nii.gz read piece by piece: the same values as the plain file', () => {
+  // Runs larger than one inflate piece (64 KiB), with vox_offset 353 so voxels straddle the piece
+  // boundaries, and with two gzip members one after the other (gzip allows it; RFC 1952, 1996, sec. 2.2).
+  const dir = mkdtempSync(join(tmpdir(), 'boldsweep-gz-pieces-'));
+  afterAll(() => rmSync(dir, { recursive: true, force: true }));
+  const dims: [number, number, number, number] = [13, 11, 7, 61]; // 61061 voxels: 122 KB as int16, 244 KB as float32
+  const values = new Float32Array(13 * 11 * 7 * 61);
+  let s = 12345;
+  for (let i = 0; i < values.length; i++) { s = (s * 1103515245 + 12345) % 2147483648; values[i] = Math.round((s / 2147483648) * 2000 - 1000) * 0.5; }
+  const volume = makeVolume({ dims, spacingMm: [2, 2, 2], trSec: 2, affine: new Float64Array([2, 0, 0, 0, 0, 2, 0, 0, 0, 0, 2, 0, 0, 0, 0, 1]), data: values });
+  for (const datatype of ['int16', 'float32'] as const) {
+    it(`${datatype}, vox_offset 353, one and two gzip members`, async () => {
+      const header = Buffer.from(niftiHeaderBytes(volume, datatype, datatype === 'int16' ? 0.5 : 1, 0, '', ''));
+      header.writeFloatLE(353, 108); // vox_offset
+      const plainBytes = Buffer.concat([header, Buffer.alloc(1), Buffer.from(niftiVoxelBytes(values, datatype, 0.5, 0))]);
+      writeFileSync(join(dir, `${datatype}.nii`), plainBytes);
+      writeFileSync(join(dir, `${datatype}.nii.gz`), gzipSync(plainBytes));
+      const cut = 70001;
+      writeFileSync(join(dir, `${datatype}-2.nii.gz`), Buffer.concat([gzipSync(plainBytes.subarray(0, cut)), gzipSync(plainBytes.subarray(cut))]));
+      const plain = await readNifti(join(dir, `${datatype}.nii`));
+      expect(Array.from(plain.volume.data.subarray(0, 5))).toEqual(Array.from(values.subarray(0, 5)));
+      for (const f of [`${datatype}.nii.gz`, `${datatype}-2.nii.gz`]) {
+        const gz = await readNifti(join(dir, f), { sharedMemory: true });
+        expect(gz.info.compressed).toBe(true);
+        expect(Buffer.from(gz.volume.data.buffer).equals(Buffer.from(plain.volume.data.buffer))).toBe(true);
+      }
     });
   }
 });
