@@ -243,6 +243,7 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
   // the model is built once here so bad input (a table of another length, a missing readout time)
   // stops the sweep before any work; workers build the same model again from the same inputs
   acquisitionModel({ volume, sidecar: run.sidecar }, { motionTable, fieldMapHz, ...(options.rotationCentreMm ? { rotationCentreMm: options.rotationCentreMm } : {}), sliceTimesSec: spec.acquisition.sliceTiming === 'sidecar' ? 'sidecar' : null });
+  if (!motionTable && modelNeedsMotion(spec)) fail('MOTION_TABLE_MISSING', 'the spec\'s model asks for motion regressors or censoring by framewise displacement (model.motionRegressors, model.censorFdMm), but the sweep has no motion table');
   const acquisitionKey = motionTable || fieldMapHz ? { motion: motionTable, centre: options.rotationCentreMm ?? null, field: fieldMapHz ? sha(new Uint8Array(fieldMapHz.buffer, fieldMapHz.byteOffset, fieldMapHz.byteLength)) : null } : null;
   const contextHash = stableHash({ brain: sha(brainMask), placement: sha(placementMask), score: sha(scoreMask), events, ...(acquisitionKey ? { acquisition: acquisitionKey } : {}) });
 
@@ -458,6 +459,19 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
     ...(nullResults.length ? { nullCalibration: nullResults.sort((a, b) => a.settingIndex - b.settingIndex).map((r) => nullCalibration(r, spec)) } : {}),
     stats: { cellsInPlan: plan.cells.length, cellsRun: total, cellsComputed: computed, cellsFromCache: fromCache, estimatesComputed, tasks: jobCount, workers: useThreads ? Math.min(workers, jobCount) : jobCount ? 1 : 0, wallSeconds: (performance.now() - t0) / 1000 },
   };
+}
+
+/**
+ * Whether any setting's model takes terms from the motion table (motion regressors or censoring by
+ * framewise displacement), fixed in the spec's model or varied.
+ * @param spec - a validated spec
+ * @returns true when a motion table is needed
+ * @example modelNeedsMotion({ ...spec, vary: { 'model.motionRegressors': [0, 24] } }) // true
+ */
+export function modelNeedsMotion(spec: Pick<SweepSpec, 'model' | 'vary'>): boolean {
+  const uses = (key: string, v: unknown) => (key === 'motionRegressors' ? typeof v === 'number' && v > 0 : key === 'censorFdMm' ? typeof v === 'number' : false);
+  if (uses('motionRegressors', spec.model.motionRegressors) || uses('censorFdMm', spec.model.censorFdMm)) return true;
+  return Object.entries(spec.vary).some(([k, values]) => k.startsWith('model.') && values.some((v) => uses(k.slice(6), v)));
 }
 
 /** A null task's result as the sweep reports it: the calibrated threshold and the measured rates. */
