@@ -33,3 +33,4 @@ export { medianOf } from './median-of.js';
 export { summariseInMask, type MapSummary } from './map-summary.js';
 export { orthonormalDrift, detrendSeries } from './orthonormal-drift.js';
 export { voxelRasterRows, type VoxelRasterRows } from './voxel-raster-rows.js';
+export { motionEdgeSignature, type MotionEdgeSignature } from './motion-edge-signature.js';
