@@ -1,6 +1,5 @@
 import { fail } from '../core/fail.js';
 import { voxelsPerVolume, type Volume } from '../core/volume.js';
-import { maskRings } from './mask-rings.js';
 
 /** The per-volume motion edge signature of a run: see {@link motionEdgeSignature}. */
 export interface MotionEdgeSignature {
@@ -21,7 +20,8 @@ export interface MotionEdgeSignature {
  * the brain's intensity in at one edge and out at the opposite one, so the two changes have opposite
  * signs and the difference is large; a global change (scanner drift, a global signal) moves both edges
  * the same way and cancels. Definitions:
- * - edge voxels: the mask's outer layer (ring 1 of `maskRings`: removed by one erosion with the 6-neighbour cross);
+ * - edge voxels: the mask's outer layer (ring 1 of `maskRings`: the voxels one erosion with the
+ *   6-neighbour cross removes, i.e. with a face neighbour outside the mask or the grid);
  * - an edge voxel faces +i when its +i neighbour is outside the mask (or the grid), -i likewise; a
  *   voxel open on both sides of an axis (a one-voxel-thin part) counts on neither side of it;
  * - each voxel's change is in % of its mean over the two volumes compared, (x_t - x_{t-1}) /
@@ -44,33 +44,12 @@ export function motionEdgeSignature(run: Volume, mask: ArrayLike<number>): Motio
   const n = voxelsPerVolume(run);
   if (nt < 2) fail('NOT_4D', `the edge signature compares volumes: the run has ${nt}`);
   if (mask.length !== n) fail('GRID_MISMATCH', `the mask has ${mask.length} voxels, the run ${n} per volume`);
-  const rings = maskRings(mask, [nx, ny, nz], 2, 0);
-  const inside = (i: number, j: number, k: number) => i >= 0 && j >= 0 && k >= 0 && i < nx && j < ny && k < nz && !!mask[i + nx * (j + ny * k)];
-  const edge: number[] = [];
-  const plus: number[][] = [[], [], []];
-  const minus: number[][] = [[], [], []];
-  for (let k = 0; k < nz; k++) for (let j = 0; j < ny; j++) for (let i = 0; i < nx; i++) {
-    const v = i + nx * (j + ny * k);
-    if (rings[v] !== 1) continue;
-    const e = edge.length;
-    let used = false;
-    const open: Array<[boolean, boolean]> = [
-      [!inside(i + 1, j, k), !inside(i - 1, j, k)],
-      [!inside(i, j + 1, k), !inside(i, j - 1, k)],
-      [!inside(i, j, k + 1), !inside(i, j, k - 1)],
-    ];
-    open.forEach(([p, m], a) => {
-      if (p === m) return; // closed on both sides, or open on both (thin)
-      (p ? plus : minus)[a].push(e);
-      used = true;
-    });
-    if (used) edge.push(v);
-  }
+  const { edge, plus, minus } = edgeSides(mask, [nx, ny, nz]);
   for (let a = 0; a < 3; a++) if (plus[a].length === 0 || minus[a].length === 0) fail('INVALID_ARGUMENT', `the mask has no edge facing ${plus[a].length ? '-' : '+'}${'ijk'[a]}: give a brain mask that lies inside the field of view`);
   // each edge voxel's mean over the run
   const m = edge.length;
-  const mean = new Float64Array(m);
   const data = run.data;
+  const mean = new Float64Array(m);
   for (let t = 0; t < nt; t++) {
     const base = t * n;
     for (let e = 0; e < m; e++) mean[e] += data[base + edge[e]];
@@ -79,16 +58,18 @@ export function motionEdgeSignature(run: Volume, mask: ArrayLike<number>): Motio
   for (let e = 0; e < m; e++) floor[e] = Math.abs(mean[e] / nt) / 10;
   const change = new Float64Array(m);
   const axes: [Float64Array, Float64Array, Float64Array] = [new Float64Array(nt), new Float64Array(nt), new Float64Array(nt)];
-  const plusIdx = plus.map((l) => Int32Array.from(l));
-  const minusIdx = minus.map((l) => Int32Array.from(l));
+  let before = new Float64Array(m), now = new Float64Array(m);
+  for (let e = 0; e < m; e++) before[e] = data[edge[e]];
   for (let t = 1; t < nt; t++) {
-    const now = t * n, before = (t - 1) * n;
+    const base = t * n;
     for (let e = 0; e < m; e++) {
-      const a = data[before + edge[e]], b = data[now + edge[e]];
+      const a = before[e], b = data[base + edge[e]];
+      now[e] = b;
       const level = Math.max(Math.abs(a + b) / 2, floor[e]);
       change[e] = level > 0 ? (100 * (b - a)) / level : 0;
     }
-    for (let a = 0; a < 3; a++) axes[a][t] = meanAt(change, plusIdx[a]) - meanAt(change, minusIdx[a]);
+    for (let a = 0; a < 3; a++) axes[a][t] = meanAt(change, plus[a]) - meanAt(change, minus[a]);
+    [before, now] = [now, before];
   }
   const rms = (x: Float64Array) => {
     let s = 0;
@@ -99,6 +80,36 @@ export function motionEdgeSignature(run: Volume, mask: ArrayLike<number>): Motio
     axes, rmsPct: [rms(axes[0]), rms(axes[1]), rms(axes[2])],
     voxels: { plus: [plus[0].length, plus[1].length, plus[2].length], minus: [minus[0].length, minus[1].length, minus[2].length] },
   };
+}
+
+/**
+ * The mask voxels that face + or - along some axis (a face neighbour outside the mask or the grid: the
+ * voxels one erosion removes, ring 1 of maskRings, found here in one pass without the erosion), and per
+ * axis the positions (in `edge`) of those facing + and those facing -; a voxel open on both sides of
+ * an axis counts on neither side of it.
+ */
+function edgeSides(mask: ArrayLike<number>, dims: [number, number, number]): { edge: Int32Array; plus: Int32Array[]; minus: Int32Array[] } {
+  const [nx, ny, nz] = dims;
+  const strides = [1, nx, nx * ny];
+  const edge: number[] = [];
+  const plus: number[][] = [[], [], []];
+  const minus: number[][] = [[], [], []];
+  for (let k = 0, v = 0; k < nz; k++) for (let j = 0; j < ny; j++) for (let i = 0; i < nx; i++, v++) {
+    if (!mask[v]) continue;
+    const at = [i, j, k];
+    const e = edge.length;
+    let used = false;
+    for (let a = 0; a < 3; a++) {
+      const size = dims[a], s = strides[a];
+      const openPlus = at[a] === size - 1 || !mask[v + s];
+      const openMinus = at[a] === 0 || !mask[v - s];
+      if (openPlus === openMinus) continue; // closed on both sides, or open on both (thin)
+      (openPlus ? plus : minus)[a].push(e);
+      used = true;
+    }
+    if (used) edge.push(v);
+  }
+  return { edge: Int32Array.from(edge), plus: plus.map((l) => Int32Array.from(l)), minus: minus.map((l) => Int32Array.from(l)) };
 }
 
 function meanAt(x: Float64Array, idx: Int32Array): number {
