@@ -89,6 +89,7 @@ Example:
         const expected = basename(siblingCandidates(runPath).events[0]);
         fail('EVENTS_MISSING', `the spec plants and models the run's own task timing, but ${o.events ? `${o.events} holds no events` : `there is no events file ${expected} beside ${basename(runPath)}`} (pass one with --events <file>)`);
       }
+      const motionTable = o.motionTable ? await readMotionTable(o.motionTable) : null;
       if (o.look) {
         const look = readLookFolder(o.look);
         const sha = await hashFile(run.files.image ?? runPath);
@@ -98,8 +99,11 @@ Example:
         spec = applied.spec;
         for (const n of applied.notes) console.log(`look: ${n}`);
         if (!applied.notes.length) console.log(`look: the spec treats the look's findings (drop ${look.dropInitialVolumes}, censor ${look.censorVolumes.join(', ') || 'none'})`);
+        // what applying the look does not settle (volumes moved above the FD threshold: a model choice)
+        for (const w of untreatedFindings(spec, look)) console.error(`warning: ${w}`);
       } else {
-        const warnings = untreatedFindings(spec, lookAtRun(run).recommendation);
+        const own = lookAtRun(run, { motionTable });
+        const warnings = untreatedFindings(spec, { ...own.recommendation, movedVolumes: own.motion.aboveThreshold, fdThresholdMm: own.motion.fdThresholdMm });
         for (const w of warnings) console.error(`warning: ${w}`);
         if (warnings.length) console.error(`warning: the sweep runs as the spec says; to treat these, pass --look <dir> (from "boldsweep look ${basename(runPath)} --out <dir>") or edit ${o.spec}`);
       }
@@ -109,7 +113,6 @@ Example:
         placement: o.placement ? await maskFromFile(o.placement, { values: o.placementValues }) : { kind: 'brain' },
         exclude: o.exclude ? await maskFromFile(o.exclude, { above: o.excludeAbove ?? 0, growVoxels: o.excludeGrow }) : null,
       };
-      const motionTable = o.motionTable ? await readMotionTable(o.motionTable) : null;
       let fieldMapHz: Float32Array | null = null;
       if (o.fieldMap) {
         const field = (await readNifti(o.fieldMap)).volume;
