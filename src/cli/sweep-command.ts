@@ -40,6 +40,7 @@ interface SweepCliOptions {
   events?: string;
   sidecar?: string;
   motionTable?: string;
+  estimateMotion: boolean;
   fieldMap?: string;
   force?: boolean;
 }
@@ -60,7 +61,8 @@ export function registerSweepCommand(program: Command): Command {
     .option('--look <dir>', 'look folder of this run ("boldsweep look"): its bright first volumes are dropped and abrupt changes censored where the spec leaves them open')
     .option('--events <file>', 'events TSV (onset, duration, trial_type) when it is not beside the run as <name>_events.tsv')
     .option('--sidecar <file>', 'BIDS sidecar JSON when it is not beside the run as <name>.json')
-    .option('--motion-table <file>', 'the head\'s position at each volume (TSV: shiftXMm shiftYMm shiftZMm rotXDeg rotYDeg rotZDeg, one row per volume): planted activations move with the head')
+    .option('--motion-table <file>', 'the head\'s position at each volume (TSV: shiftXMm shiftYMm shiftZMm rotXDeg rotYDeg rotZDeg, one row per volume): planted activations move with the head, and the model\'s motion regressors and FD censoring use it')
+    .option('--no-estimate-motion', 'without --motion-table, keep the planted activations still instead of estimating the run\'s motion (rigid, least squares, to the middle volume; cached) and planting with it')
     .option('--field-map <file>', 'B0 field map in Hz on the run\'s grid: planted activations are displaced along phase encode (needs PhaseEncodingDirection and TotalReadoutTime or EffectiveEchoSpacing in the sidecar)')
     .option('--workers <n>', 'worker threads (default: the spec\'s workers)', positiveInt)
     .option('--shard <i/N>', 'run only shard i of N (1-based), e.g. one task of a cluster job array; merge with "boldsweep gather"')
@@ -130,12 +132,13 @@ Example:
       const bar = o.progress ? terminalProgress() : null;
       let result;
       try {
-        result = await runSweep(run, spec, { workers: o.workers, shard: o.shard ?? null, cacheDir, brainMask, placementMask, excludeMask, motionTable, fieldMapHz, onProgress: bar?.update });
+        result = await runSweep(run, spec, { workers: o.workers, shard: o.shard ?? null, cacheDir, brainMask, placementMask, excludeMask, motionTable, estimateMotion: o.estimateMotion, fieldMapHz, onProgress: bar?.update });
       } finally {
         bar?.stop();
       }
       await writeSweepFolder(o.out, { result, run: runFacts(run), masks }, { force: o.force, inputs });
       const s = result.stats;
+      if (result.motion?.source === 'estimated') console.log(`planted activations move with the run's estimated motion (${result.motion.method}; ${result.motion.fromCache ? 'from the cache' : `${result.motion.seconds.toFixed(1)} s`})`);
       console.log(`${s.cellsRun} cells (${s.cellsComputed} computed, ${s.cellsFromCache} from cache) in ${s.wallSeconds.toFixed(1)} s; wrote ${join(o.out, 'scorecard.tsv')}`);
       if (result.shard && result.shard.count > 1) console.log(`next: when all ${result.shard.count} shards are done: boldsweep gather <shard folders...> --out <folder>, then boldsweep report <folder>`);
       else console.log(`next: boldsweep report ${o.out}`);
