@@ -22,6 +22,7 @@ interface LookCliOptions {
   figures: boolean;
   force?: boolean;
   motionTable?: string;
+  estimateMotion?: boolean;
   fdThresholdMm: number;
 }
 
@@ -46,6 +47,7 @@ export function registerLook(program: Command): Command {
     .option('--t1-sec <s>', 'T1 for the steady-state model check (default grey matter at 3 T, 1.331 s)', positiveNumber)
     .option('--flip-angle-deg <deg>', 'flip angle when the sidecar has none', positiveNumber)
     .option('--motion-table <file>', 'the head\'s position at each volume (TSV: shiftXMm shiftYMm shiftZMm rotXDeg rotYDeg rotZDeg, one row per volume): framewise displacement, its finding and figures')
+    .option('--estimate-motion', 'without --motion-table, estimate the head motion as a quick screen (rigid, least squares, to the middle volume, coarse levels 4 and 2 only; takes longer than the rest of the look)')
     .option('--fd-threshold-mm <mm>', 'framewise displacement above which a volume is reported (0.5 mm: common practice, and Power et al. 2012\'s)', positiveNumber, 0.5)
     .option('--no-figures', 'write maps, series and findings only')
     .option('--force', FORCE_HELP)
@@ -69,7 +71,14 @@ Example:
         options.motionTable = await readMotionTable(opts.motionTable);
         options.motionTableMethod = `given: ${basename(opts.motionTable)}`;
       }
-      const look = lookAtRun(run, options);
+      let look = lookAtRun(run, options);
+      if (opts.estimateMotion && !opts.motionTable) {
+        // the registration code loads only when asked for
+        const { estimateLookMotion } = await import('../look/estimate-look-motion.js');
+        const { withLookMotion } = await import('../look/with-look-motion.js');
+        const { table, method } = await estimateLookMotion(run.volume, look.mask.mask);
+        look = withLookMotion(look, run.volume, table, 'estimated', method);
+      }
       const source = run.files.image ?? path;
       // the figure code (vega, vega-lite) loads only now: no other command holds it
       const { writeLookFolder } = await import('../report/write-look-folder.js');

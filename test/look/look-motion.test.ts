@@ -5,6 +5,7 @@ import { describe, expect, it } from 'vitest';
 import { lookAtRun } from '../../src/look/look-at-run.js';
 import { framewiseDisplacement } from '../../src/model/framewise-displacement.js';
 import { writeLookFolder } from '../../src/report/write-look-folder.js';
+import { withLookMotion } from '../../src/look/with-look-motion.js';
 import { movingPhantom } from '../sweep/sweep-test-runs.js';
 
 // The look's head motion on a phantom whose head wanders slowly and coughs once: a 2 mm, 1.5 degree
@@ -65,4 +66,19 @@ describe('the look and head motion', () => {
       rmSync(dir, { recursive: true, force: true });
     }
   }, 60_000);
+});
+
+describe('a motion table added to a finished look', () => {
+  it('withLookMotion gives the look the table\'s FD and finding, ranked, and keeps the rest', () => {
+    const plain = lookAtRun(run.volume);
+    const moved = withLookMotion(plain, run.volume, run.motionTable, 'estimated', 'a test table');
+    const direct = lookAtRun(run.volume, { motionTable: run.motionTable });
+    expect(moved.motion.source).toBe('estimated');
+    expect(moved.motion.aboveThreshold).toEqual(direct.motion.aboveThreshold);
+    expect(moved.findings.map((f) => f.kind)).toEqual(direct.findings.map((f) => f.kind));
+    expect(moved.verdicts).toEqual(moved.findings.map((f) => f.verdict));
+    expect(moved.findings.find((f) => f.kind === 'head-motion')!.reason).toContain('estimated motion table (a test table)');
+    expect(moved.maps).toBe(plain.maps);
+    expect(plain.findings.some((f) => f.kind === 'head-motion')).toBe(false); // not modified
+  });
 });
