@@ -76,7 +76,7 @@ Example:
         // the registration code loads only when asked for
         const { estimateLookMotion } = await import('../look/estimate-look-motion.js');
         const { withLookMotion } = await import('../look/with-look-motion.js');
-        const { table, method } = await estimateLookMotion(run.volume, look.mask.mask);
+        const { table, method } = await estimateLookMotion(run.volume, look.mask.mask, look.recommendation.dropInitialVolumes);
         look = withLookMotion(look, run.volume, table, 'estimated', method);
       }
       const source = run.files.image ?? path;

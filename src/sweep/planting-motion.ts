@@ -1,5 +1,5 @@
 import type { Vec3 } from '../core/affine.js';
-import type { Volume } from '../core/volume.js';
+import { makeVolume, voxelsPerVolume, type Volume } from '../core/volume.js';
 import type { MotionRow } from '../acquire/rigid-motion-affine.js';
 import { estimateRunMotion } from '../register/estimate-run-motion.js';
 import { stableHash } from './stable-hash.js';
@@ -7,7 +7,7 @@ import { readCachedEstimate, writeCachedEstimate } from './stage-cache.js';
 
 /**
  * The stated setting of the motion estimate a sweep plants with when it is given no motion table:
- * every volume registered rigidly (6 parameters) to the middle volume (index floor(nt / 2)) by least
+ * every kept volume registered rigidly (6 parameters) to the middle one (see plantingMotion) by least
  * squares (Gauss-Newton), multi-resolution levels 4, 2, 1, weighted by the sweep's brain mask. The
  * registration engine splits the volumes into chunks by its worker count and starts each volume from
  * the previous one's estimate within a chunk, so the count is fixed here: the same run gives the same
@@ -51,23 +51,36 @@ interface StoredMotion {
  * @param brainMask - the sweep's brain mask (registration weights)
  * @param hashes - SHA-256 of the run and of the brain mask (what the key is made of)
  * @param cacheDir - the sweep's cache folder, or null to keep nothing
+ * @param fromVolume - first volume estimated: the fewest initial volumes any setting drops. Volumes
+ *   before it (not yet at steady state, brighter than the rest, which a least-squares cost would take
+ *   for motion) are given the first estimated volume's pose. __Default value:__ 0
  * @returns the motion table, its rotation centre, the reference index and how it was obtained
  * @throws BoldsweepError from the registration (REGISTRATION_NOT_CONVERGED naming the volume, NON_FINITE_VOXELS, ...)
  * @example const motion = await plantingMotion(run.volume, brainMask, { runHash, maskHash }, 'out/cache')
  */
-export async function plantingMotion(volume: Volume, brainMask: Uint8Array, hashes: { runHash: string; maskHash: string }, cacheDir: string | null): Promise<PlantingMotion> {
+export async function plantingMotion(volume: Volume, brainMask: Uint8Array, hashes: { runHash: string; maskHash: string }, cacheDir: string | null, fromVolume = 0): Promise<PlantingMotion> {
   const s = PLANTING_MOTION_SETTINGS;
-  const key = stableHash({ stage: 'planting-motion', version: PLANTING_MOTION_VERSION, settings: s, ...hashes });
-  const method = `rigid (6 parameters), least squares, every volume to the middle volume (${Math.floor(volume.dims[3] / 2)}), levels ${s.levels.join(', ')}, weighted by the brain mask`;
+  const nt = volume.dims[3];
+  const from = Math.max(0, Math.min(fromVolume, nt - 2));
+  const middle = from + Math.floor((nt - from) / 2);
+  const key = stableHash({ stage: 'planting-motion', version: PLANTING_MOTION_VERSION, settings: s, fromVolume: from, ...hashes });
+  const method = `rigid (6 parameters), least squares, every volume${from ? ` from volume ${from} on (the earlier ones, dropped, take volume ${from}'s pose)` : ''} to the middle volume (${middle}), levels ${s.levels.join(', ')}, weighted by the brain mask`;
   const cached = cacheDir ? readCachedEstimate(cacheDir, key) : null;
   if (cached) {
     const v = cached.value as StoredMotion;
     return { table: v.table, centreMm: v.centreMm, referenceIndex: v.referenceIndex, method, key, seconds: 0, fromCache: true };
   }
   const t0 = performance.now();
-  const m = await estimateRunMotion(volume, { reference: s.reference, model: s.model, cost: s.cost, levels: s.levels, mask: brainMask, workers: s.workers });
-  const table: MotionRow[] = m.rows.map((r, t) => ({ volume: t, shiftXMm: r.shiftXMm, shiftYMm: r.shiftYMm, shiftZMm: r.shiftZMm, rotXDeg: r.rotXDeg, rotYDeg: r.rotYDeg, rotZDeg: r.rotZDeg }));
-  const value: StoredMotion = { table, centreMm: [...m.centreMm] as Vec3, referenceIndex: m.referenceIndex ?? Math.floor(volume.dims[3] / 2) };
+  const n = voxelsPerVolume(volume);
+  // the kept volumes as a view (no copy)
+  const kept = from === 0 ? volume : makeVolume({ dims: [volume.dims[0], volume.dims[1], volume.dims[2], nt - from], spacingMm: [...volume.spacingMm], trSec: volume.trSec, affine: volume.affine, data: volume.data.subarray(from * n) });
+  const m = await estimateRunMotion(kept, { reference: s.reference, model: s.model, cost: s.cost, levels: s.levels, mask: brainMask, workers: s.workers });
+  const row = (t: number): MotionRow => {
+    const r = m.rows[Math.max(0, t - from)];
+    return { volume: t, shiftXMm: r.shiftXMm, shiftYMm: r.shiftYMm, shiftZMm: r.shiftZMm, rotXDeg: r.rotXDeg, rotYDeg: r.rotYDeg, rotZDeg: r.rotZDeg };
+  };
+  const table: MotionRow[] = Array.from({ length: nt }, (_, t) => row(t));
+  const value: StoredMotion = { table, centreMm: [...m.centreMm] as Vec3, referenceIndex: from + (m.referenceIndex ?? Math.floor((nt - from) / 2)) };
   const seconds = (performance.now() - t0) / 1000;
   if (cacheDir) await writeCachedEstimate(cacheDir, { key, value, hash: stableHash({ estimate: value }), seconds });
   return { ...value, method, key, seconds, fromCache: false };

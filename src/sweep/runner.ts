@@ -256,7 +256,7 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
     // estimated once on the unplanted run (cached): the poses planting follows, and the model's table
     const { plantingMotion } = await import('./planting-motion.js');
     if (options.cacheDir) await claimOutputFolder(options.cacheDir, { force: true, optionName: 'cacheDir' });
-    const m = await plantingMotion(volume, brainMask, { runHash, maskHash: sha(brainMask) }, options.cacheDir ?? null);
+    const m = await plantingMotion(volume, brainMask, { runHash, maskHash: sha(brainMask) }, options.cacheDir ?? null, fewestDropped(spec));
     motionTable = m.table;
     rotationCentreMm = m.centreMm;
     motionInfo = { source: 'estimated', method: m.method, seconds: m.seconds, fromCache: m.fromCache, table: m.table };
@@ -494,6 +494,19 @@ export function modelNeedsMotion(spec: Pick<SweepSpec, 'model' | 'vary'>): boole
   const uses = (key: string, v: unknown) => (key === 'motionRegressors' ? typeof v === 'number' && v > 0 : key === 'censorFdMm' ? typeof v === 'number' : false);
   if (uses('motionRegressors', spec.model.motionRegressors) || uses('censorFdMm', spec.model.censorFdMm)) return true;
   return Object.entries(spec.vary).some(([k, values]) => k.startsWith('model.') && values.some((v) => uses(k.slice(6), v)));
+}
+
+/**
+ * The fewest initial volumes any setting of the spec drops (drop-initial-volumes, fixed or varied).
+ * @param spec - a validated spec
+ * @returns a count (0 without the step)
+ * @example fewestDropped({ ...spec, vary: { 'drop-initial-volumes.count': [2, 4] } }) // 2
+ */
+export function fewestDropped(spec: Pick<SweepSpec, 'recipe' | 'vary'>): number {
+  const step = spec.recipe.find((s) => s.step === 'drop-initial-volumes');
+  if (!step) return 0;
+  const counts = [Number(step.params.count ?? 0), ...(spec.vary['drop-initial-volumes.count'] ?? []).map(Number)];
+  return Math.max(0, Math.min(...counts.filter(Number.isFinite)));
 }
 
 /** A null task's result as the sweep reports it: the calibrated threshold and the measured rates. */
