@@ -5,7 +5,7 @@ import { fdCensorVolumes } from '../../src/model/fd-censor-volumes.js';
 import { framewiseDisplacement } from '../../src/model/framewise-displacement.js';
 import { parseSweepSpec } from '../../src/sweep/parse-sweep-spec.js';
 import { planSweep } from '../../src/sweep/plan.js';
-import { modelNeedsMotion, runSweep, type SweepResult } from '../../src/sweep/runner.js';
+import { fewestDropped, modelNeedsMotion, runSweep, type SweepResult } from '../../src/sweep/runner.js';
 import type { SweepSpecInput } from '../../src/sweep/spec.js';
 import { movingPhantom } from './sweep-test-runs.js';
 
@@ -54,15 +54,22 @@ describe('motion regressors and censoring by framewise displacement in a sweep',
     expect(modelNeedsMotion(parseSweepSpec({ ...spec(), vary: { 'model.motionRegressors': [0] } }))).toBe(false);
   });
 
+  it('the motion estimate starts at the fewest initial volumes any setting drops', () => {
+    const drop = (count: number, vary?: number[]) => fewestDropped(parseSweepSpec({ ...spec(), recipe: [{ step: 'drop-initial-volumes', params: { count } }, { step: 'smooth', params: { fwhmMm: 6 } }], vary: vary ? { 'drop-initial-volumes.count': vary } : {} }));
+    expect(fewestDropped(parseSweepSpec(spec()))).toBe(0);
+    expect(drop(3)).toBe(3);
+    expect(drop(3, [4, 2])).toBe(2);
+  });
+
   it('a spec without the motion options plans the same keys as one that never knew them (absent = none)', () => {
     const plain = parseSweepSpec({ ...spec(), vary: {} });
     expect('motionRegressors' in plain.model).toBe(false);
     expect('censorFdMm' in plain.model).toBe(false);
   });
 
-  it('asks for the motion table when the model needs one, and refuses counts other than 0, 6, 12, 24', async () => {
+  it('asks for the motion table when the model needs one and it may not estimate it, and refuses counts other than 0, 6, 12, 24', async () => {
     let code: string | undefined;
-    try { await runSweep(run, spec(), { inThisThread: true, brainMask: run.brain }); } catch (e) { code = isBoldsweepError(e) ? e.code : String(e); }
+    try { await runSweep(run, spec(), { inThisThread: true, brainMask: run.brain, estimateMotion: false }); } catch (e) { code = isBoldsweepError(e) ? e.code : String(e); }
     expect(code).toBe('MOTION_TABLE_MISSING');
     expect(() => parseSweepSpec({ ...spec(), vary: { 'model.motionRegressors': [0, 7] } })).toThrow(expect.objectContaining({ code: 'SPEC_INVALID' }));
     expect(() => parseSweepSpec({ ...spec(), vary: {}, model: { censorFdMm: 0 } })).toThrow(expect.objectContaining({ code: 'SPEC_INVALID' }));
