@@ -14,7 +14,7 @@ import { readSweepFolder, writeSweepFolder } from '../report/sweep-folder.js';
 import { gatherResults } from '../sweep/gather.js';
 import { buildMask, maskFromFile, type MaskSource } from '../sweep/mask-source.js';
 import { readSweepSpec } from '../sweep/read-sweep-spec.js';
-import { runSweep } from '../sweep/runner.js';
+import { fewestDropped, runSweep } from '../sweep/runner.js';
 import { shareVolume } from '../sweep/shared-volume.js';
 import { terminalProgress } from '../sweep/terminal-progress.js';
 import { readMotionTable } from '../io/motion-table-tsv.js';
@@ -92,8 +92,11 @@ Example:
         fail('EVENTS_MISSING', `the spec plants and models the run's own task timing, but ${o.events ? `${o.events} holds no events` : `there is no events file ${expected} beside ${basename(runPath)}`} (pass one with --events <file>)`);
       }
       const motionTable = o.motionTable ? await readMotionTable(o.motionTable) : null;
+      // volumes before steady state (by the look) stay out of the motion estimate, dropped or not
+      let steadyFrom = 0;
       if (o.look) {
         const look = readLookFolder(o.look);
+        steadyFrom = look.dropInitialVolumes;
         const sha = await hashFile(run.files.image ?? runPath);
         const sameRun = look.runSha256 ? look.runSha256 === sha : look.dims.join('x') === run.volume.dims.join('x');
         if (!sameRun) fail('LOOK_FROM_OTHER_RUN', `the look folder ${o.look} was made from ${look.runFile ?? 'another run'}${look.runSha256 ? ` (SHA-256 ${look.runSha256.slice(0, 12)}...)` : ''}, not from ${basename(runPath)} (SHA-256 ${sha.slice(0, 12)}...)`);
@@ -105,6 +108,7 @@ Example:
         for (const w of untreatedFindings(spec, look)) console.error(`warning: ${w}`);
       } else {
         const own = lookAtRun(run, { motionTable });
+        steadyFrom = own.recommendation.dropInitialVolumes;
         const warnings = untreatedFindings(spec, { ...own.recommendation, movedVolumes: own.motion.aboveThreshold, fdThresholdMm: own.motion.fdThresholdMm });
         for (const w of warnings) console.error(`warning: ${w}`);
         if (warnings.length) console.error(`warning: the sweep runs as the spec says; to treat these, pass --look <dir> (from "boldsweep look ${basename(runPath)} --out <dir>") or edit ${o.spec}`);
@@ -132,7 +136,7 @@ Example:
       const bar = o.progress ? terminalProgress() : null;
       let result;
       try {
-        result = await runSweep(run, spec, { workers: o.workers, shard: o.shard ?? null, cacheDir, brainMask, placementMask, excludeMask, motionTable, estimateMotion: o.estimateMotion, fieldMapHz, onProgress: bar?.update });
+        result = await runSweep(run, spec, { workers: o.workers, shard: o.shard ?? null, cacheDir, brainMask, placementMask, excludeMask, motionTable, estimateMotion: o.estimateMotion, motionFromVolume: Math.max(steadyFrom, fewestDropped(spec)), fieldMapHz, onProgress: bar?.update });
       } finally {
         bar?.stop();
       }

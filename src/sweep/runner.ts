@@ -100,6 +100,12 @@ export interface SweepOptions {
    */
   estimateMotion?: boolean;
   /**
+   * First volume the motion estimate uses; earlier ones take its pose (volumes before steady state
+   * are brighter than the rest, which a registration can take for movement). __Default value:__ the
+   * fewest initial volumes any setting drops (fewestDropped)
+   */
+  motionFromVolume?: number;
+  /**
    * B0 field map in Hz on the run's grid (head in its reference position), so planted activations are
    * displaced along phase encode as the run's signal is (needs the sidecar's PhaseEncodingDirection
    * and TotalReadoutTime or EffectiveEchoSpacing). __Default value:__ none
@@ -256,7 +262,7 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
     // estimated once on the unplanted run (cached): the poses planting follows, and the model's table
     const { plantingMotion } = await import('./planting-motion.js');
     if (options.cacheDir) await claimOutputFolder(options.cacheDir, { force: true, optionName: 'cacheDir' });
-    const m = await plantingMotion(volume, brainMask, { runHash, maskHash: sha(brainMask) }, options.cacheDir ?? null, fewestDropped(spec));
+    const m = await plantingMotion(volume, brainMask, { runHash, maskHash: sha(brainMask) }, options.cacheDir ?? null, options.motionFromVolume ?? fewestDropped(spec));
     motionTable = m.table;
     rotationCentreMm = m.centreMm;
     motionInfo = { source: 'estimated', method: m.method, seconds: m.seconds, fromCache: m.fromCache, table: m.table };
