@@ -6,6 +6,8 @@ import { lookAtRun } from '../../src/look/look-at-run.js';
 import { framewiseDisplacement } from '../../src/model/framewise-displacement.js';
 import { writeLookFolder } from '../../src/report/write-look-folder.js';
 import { withLookMotion } from '../../src/look/with-look-motion.js';
+import { estimateLookMotion } from '../../src/look/estimate-look-motion.js';
+import { closeSharedWorkerPools } from '../../src/core/worker-pool.js';
 import { movingPhantom } from '../sweep/sweep-test-runs.js';
 
 // The look's head motion on a phantom whose head wanders slowly and coughs once: a 2 mm, 1.5 degree
@@ -81,4 +83,19 @@ describe('a motion table added to a finished look', () => {
     expect(moved.maps).toBe(plain.maps);
     expect(plain.findings.some((f) => f.kind === 'head-motion')).toBe(false); // not modified
   });
+});
+
+describe('the look\'s own motion estimate (asked for)', () => {
+  it('estimateLookMotion at the coarse levels finds the cough, and the look says how the table was made', async () => {
+    const plain = lookAtRun(run.volume);
+    const { table, method } = await estimateLookMotion(run.volume, plain.mask.mask, plain.recommendation.dropInitialVolumes);
+    await closeSharedWorkerPools();
+    expect(table).toHaveLength(80);
+    expect(method).toMatch(/quick screen: rigid, least squares.*coarse levels 4 and 2 only/);
+    const look = withLookMotion(plain, run.volume, table, 'estimated', method);
+    // the cough moved the head by 5.7 mm (FD, true table) out and back: both volumes are above 0.5 mm
+    expect(look.motion.aboveThreshold).toEqual(expect.arrayContaining([40, 41]));
+    // and the wander alone (FD at most 0.25 mm in truth) flags nothing else
+    expect(look.motion.aboveThreshold).toEqual([40, 41]);
+  }, 120_000);
 });
