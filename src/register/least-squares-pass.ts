@@ -39,7 +39,7 @@ export function leastSquaresPass(level: FixedLevel, moving: MovingLevel, transfo
   const xMax = nx - 1, yMax = ny - 1, zMax = nz - 1;
   const data = moving.data;
   const world = level.world, values = level.values, weights = level.weights;
-  const J = level.jacobian as Float64Array;
+  const J = level.jacobian as Float32Array;
   const nc = level.columns;
   b.fill(0);
   outside.fill(0);

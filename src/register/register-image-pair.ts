@@ -44,7 +44,7 @@ export function prepareFixed(fixed: ImageOnGrid, options: RegisterOptions = {}):
   if (levels.length === 0 || levels.some((f) => !Number.isInteger(f) || f < 1 || f > 32)) fail('INVALID_ARGUMENT', `levels must be a non-empty list of integers from 1 to 32 (coarse to fine, e.g. [4, 2, 1]), got [${levels.join(', ')}]`);
   const bins = options.bins ?? DEFAULT_BINS;
   if (!Number.isInteger(bins) || bins < 8 || bins > 256) fail('INVALID_ARGUMENT', `bins must be an integer from 8 to 256, got ${bins}`);
-  const toleranceMm = options.toleranceMm ?? 0.002;
+  const toleranceMm = options.toleranceMm ?? 0.01;
   if (!(toleranceMm > 0) || !Number.isFinite(toleranceMm)) fail('INVALID_ARGUMENT', `toleranceMm must be a positive number, got ${toleranceMm}`);
   if (options.maxIterations !== undefined && (!Number.isInteger(options.maxIterations) || options.maxIterations < 1)) fail('INVALID_ARGUMENT', `maxIterations must be a positive integer, got ${options.maxIterations}`);
   const centreMm: Vec3 = options.centreMm ? [...options.centreMm] as Vec3 : gridCentreMm(fixed.grid);
