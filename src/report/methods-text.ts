@@ -137,8 +137,8 @@ export function methodsText(r: DecisionRecord): MethodsText {
 
   // 3. how the choice was made
   const varied = Object.keys(spec.vary);
-  const candidates = varied.map((k) => `${parameterName(k)} ${spec.vary[k].join(', ')}${unitOf(k) ? ` ${unitOf(k)}` : ''}`).join('; ');
-  const chosenWhat = varied.length ? Object.entries(choice.setting).map(([k, v]) => `a ${parameterName(k)} of ${v}${unitOf(k) ? ` ${unitOf(k)}` : ''}`).join(' and ') : 'the recipe';
+  const candidates = varied.map((k) => `${parameterName(k)} ${spec.vary[k].map((v) => (v === null ? 'none' : v)).join(', ')}${unitOf(k) ? ` ${unitOf(k)}` : ''}`).join('; ');
+  const chosenWhat = varied.length ? Object.entries(choice.setting).map(([k, v]) => (v === null ? `no ${parameterName(k)}` : `a ${parameterName(k)} of ${v}${unitOf(k) ? ` ${unitOf(k)}` : ''}`)).join(' and ') : 'the recipe';
   const sameAsBest = settingLabel(choice.best.setting) === settingLabel(choice.setting);
   const plant = spec.plant.count > 0
     ? `${spec.plant.count} ${spec.plant.shape === 'gaussian' ? 'Gaussian' : 'soft-edged spherical'} activations of ${choice.plantSizeMm} mm ${spec.plant.shape === 'gaussian' ? 'FWHM' : 'diameter'} and ${choice.plantAmplitudePct} % peak signal change, following the task time course, were added at random positions of the unprocessed run`

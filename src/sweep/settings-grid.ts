@@ -109,13 +109,14 @@ export function settingSimplicity(setting: Setting, recipe: ReadonlyArray<{ step
 }
 
 /**
- * A setting in words with units, for people: "smoothing FWHM 6 mm".
+ * A setting in words with units, for people: "smoothing FWHM 6 mm"; a null value reads "none".
  * @param s - the setting
  * @returns the text ("the fixed recipe" when nothing varies)
  * @example settingText({ 'smooth.fwhmMm': 6 }) // 'smoothing FWHM 6 mm'
  */
 export function settingText(s: Setting): string {
   const parts = Object.entries(s).map(([k, v]) => {
+    if (v === null) return `${parameterName(k)} none`; // e.g. no censoring, no drift cutoff
     const unit = parameterUnit(k);
     return `${parameterName(k)} ${v}${unit ? (unit === '%' ? ' %' : ` ${unit}`) : ''}`;
   });

@@ -75,3 +75,11 @@ describe('motion regressors and censoring by framewise displacement in a sweep',
     expect(() => parseSweepSpec({ ...spec(), vary: {}, model: { censorFdMm: 0 } })).toThrow(expect.objectContaining({ code: 'SPEC_INVALID' }));
   });
 });
+
+describe('the motion options in words', () => {
+  it('settingText names them with units, and a null value as none', async () => {
+    const { settingText } = await import('../../src/sweep/settings-grid.js');
+    expect(settingText({ 'model.motionRegressors': 24, 'model.censorFdMm': 0.5 })).toBe('motion regressors 24, censoring above framewise displacement 0.5 mm');
+    expect(settingText({ 'model.censorFdMm': null })).toBe('censoring above framewise displacement none');
+  });
+});
