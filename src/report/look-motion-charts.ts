@@ -50,7 +50,8 @@ export function motionTableSpec(look: LookForMotion, options: { width?: number }
   return {
     $schema: 'https://vega.github.io/schema/vega-lite/v5.json',
     config: { font: FIGURE_FONT },
-    title: { text: `Motion table (${look.motion.source === 'estimated' ? 'estimated: ' : ''}${look.motion.method}): the head's position relative to its reference`, anchor: 'start' },
+    // the method in full goes in the page's caption: a long title would run off the figure
+    title: { text: `Motion table (${look.motion.source === 'estimated' ? 'estimated' : 'given'}): the head's position relative to its reference`, anchor: 'start' },
     vconcat: [
       axisLines(shifts, look, 'Shifts', 'shift, mm', width, 110, 'shift along'),
       axisLines(turns, look, 'Rotations', 'rotation, degrees', width, 110, 'rotation'),
