@@ -8,12 +8,14 @@ export { normalisedMutualInformation } from './normalised-mutual-information.js'
 export { normalisedCorrelation } from './normalised-correlation.js';
 export { nelderMead, type NelderMeadOptions, type NelderMeadResult } from './nelder-mead.js';
 export { solveLinearSystem } from './solve-linear-system.js';
-export { prepareFixedLevel, levelFwhmMm, type FixedLevel, type FixedLevelOptions } from './prepare-fixed-level.js';
+export { prepareFixedLevel, type FixedLevel, type FixedLevelOptions } from './prepare-fixed-level.js';
+export { levelFwhmMm } from './level-fwhm-mm.js';
 export { movingLevel, type MovingLevel } from './moving-level.js';
 export { leastSquaresPass, type LeastSquaresSums } from './least-squares-pass.js';
 export { sampleMoving } from './sample-moving.js';
 export { registerPrepared, type PreparedFixed } from './register-prepared.js';
-export { registerImagePair, prepareFixed, DEFAULT_LEVELS, DEFAULT_BINS } from './register-image-pair.js';
+export { registerImagePair } from './register-image-pair.js';
+export { prepareFixed, checkImage, DEFAULT_LEVELS, DEFAULT_BINS, SAMPLING_SEED } from './prepare-fixed.js';
 export { leastMovingVolume } from './least-moving-volume.js';
 export { registerVolumesTask, type RegisterVolumesTask, type RegisterVolumesResult } from './register-volumes-task.js';
 export { estimateRunMotion, MOTION_REFERENCES, RUN_MOTION_IN_THREAD_BELOW, type MotionReference, type RunMotionOptions, type RunMotion } from './estimate-run-motion.js';

@@ -1,7 +1,7 @@
 import type { Affine, Vec3 } from '../core/affine.js';
 import type { Grid } from '../core/grid-frame.js';
 import { motionParametersAffine } from './motion-parameters-affine.js';
-import { prepareFixed } from './register-image-pair.js';
+import { prepareFixed } from './prepare-fixed.js';
 import { registerPrepared } from './register-prepared.js';
 import type { RegisterOptions } from './registration-types.js';
 

@@ -59,6 +59,12 @@ describe('non-convergence and bad input are typed errors', () => {
     expect(() => run('least-squares')).toThrow(expect.objectContaining({ code: 'REGISTRATION_NOT_CONVERGED', message: expect.stringMatching(/volume 7.*level 4.*cost/) }));
     expect(() => run('normalised-correlation')).toThrow(expect.objectContaining({ code: 'REGISTRATION_NOT_CONVERGED', message: expect.stringMatching(/volume 7.*level 4.*cost/) }));
   });
+  it('least squares refuses an inverted contrast (the fitted intensity scale is negative) instead of returning a pose', () => {
+    const grid = gridOf(head);
+    const pair = movedPair(head, motionParametersAffine([1, 0, 0, 0, 0, 1], gridCentreMm(grid)), 20, 14);
+    const inverted = pair.moving.map((v) => 2000 - v);
+    expect(() => registerImagePair({ data: pair.fixed, grid }, { data: inverted, grid }, { label: 'volume 3' })).toThrow(expect.objectContaining({ code: 'REGISTRATION_NOT_CONVERGED', message: expect.stringMatching(/volume 3.*intensities fall.*cost/) }));
+  });
   it('images that do not overlap', () => {
     const grid = gridOf(head);
     const far = { dims: grid.dims, affine: Float64Array.from(grid.affine) };
