@@ -1,5 +1,7 @@
 import type { Command } from 'commander';
+import { basename } from 'node:path';
 import { hashFile } from '../io/hash-file.js';
+import { readMotionTable } from '../io/motion-table-tsv.js';
 import { readNifti } from '../io/nifti-read.js';
 import { openRun } from '../io/open-run.js';
 import { checkOutputFolder } from '../io/output-folder.js';
@@ -23,6 +25,9 @@ interface LookCliOptions {
   fieldMap?: string;
   pePair?: string;
   b0: boolean;
+  motionTable?: string;
+  estimateMotion?: boolean;
+  fdThresholdMm: number;
 }
 
 /**
@@ -48,6 +53,9 @@ export function registerLook(program: Command): Command {
     .option('--field-map <file>', 'B0 field map in Hz (on the run\'s grid, or on another grid with an sform/qform): the look maps the shift along phase encode and where the signal is lost (default: a BIDS _fieldmap or a _dir-<label>_epi pair found beside the run or in ../fmap)')
     .option('--pe-pair <a,b>', 'two images with opposite phase-encode directions (BIDS _dir-<label>_epi, with sidecars), joined by a comma: the field is estimated from them')
     .option('--no-b0', 'do not look for a field map or a reversed phase-encode pair beside the run')
+    .option('--motion-table <file>', 'the head\'s position at each volume (TSV: shiftXMm shiftYMm shiftZMm rotXDeg rotYDeg rotZDeg, one row per volume): framewise displacement, its finding and figures')
+    .option('--estimate-motion', 'without --motion-table, estimate the head motion as a quick screen (rigid, least squares, to the middle volume, coarse levels 4 and 2 only; takes longer than the rest of the look)')
+    .option('--fd-threshold-mm <mm>', 'framewise displacement above which a volume is reported (0.5 mm: common practice, and Power et al. 2012\'s)', positiveNumber, 0.5)
     .option('--no-figures', 'write maps, series and findings only')
     .option('--force', FORCE_HELP)
     .addHelpText('after', `
@@ -56,7 +64,7 @@ Example:
   boldsweep spec look-sub-01 --out smoothing.yaml      (next: a starting spec from the findings)`)
     .action(async (path: string, opts: LookCliOptions) => {
       // refuse an unsafe output folder before the work, not after it
-      checkOutputFolder(opts.out, { force: opts.force, inputs: [path, opts.mask, opts.fieldMap, ...(opts.pePair?.split(',') ?? [])] });
+      checkOutputFolder(opts.out, { force: opts.force, inputs: [path, opts.mask, opts.motionTable, opts.fieldMap, ...(opts.pePair?.split(',') ?? [])] });
       const run = await openRun(path);
       const options: LookOptions = {
         detrendOrder: opts.detrendOrder, volumeCutoffZ: opts.volumeCutoffZ, sliceCutoffZ: opts.sliceCutoffZ, spikeCutoffZ: opts.spikeCutoffZ,
@@ -67,11 +75,23 @@ Example:
       if (opts.mask) options.mask = (await readNifti(opts.mask)).volume;
       const b0 = await cliB0(path, run, { ...(opts.fieldMap ? { fieldMap: opts.fieldMap } : {}), ...(opts.pePair ? { pePair: opts.pePair } : {}), find: opts.b0 });
       if (b0) options.b0 = { fieldMapHz: b0.fieldMapHz, source: b0.source, pairUnwarped: b0.pairUnwarped };
-      const look = lookAtRun(run, options);
+      options.fdThresholdMm = opts.fdThresholdMm;
+      if (opts.motionTable) {
+        options.motionTable = await readMotionTable(opts.motionTable);
+        options.motionTableMethod = `given: ${basename(opts.motionTable)}`;
+      }
+      let look = lookAtRun(run, options);
+      if (opts.estimateMotion && !opts.motionTable) {
+        // the registration code loads only when asked for
+        const { estimateLookMotion } = await import('../look/estimate-look-motion.js');
+        const { withLookMotion } = await import('../look/with-look-motion.js');
+        const { table, method } = await estimateLookMotion(run.volume, look.mask.mask, look.recommendation.dropInitialVolumes);
+        look = withLookMotion(look, run.volume, table, 'estimated', method);
+      }
       const source = run.files.image ?? path;
       // the figure code (vega, vega-lite) loads only now: no other command holds it
       const { writeLookFolder } = await import('../report/write-look-folder.js');
-      const files = await writeLookFolder(run.volume, look, opts.out, { source, sourceSha256: await hashFile(source), figures: opts.figures, force: opts.force, inputs: [path, opts.mask] });
+      const files = await writeLookFolder(run.volume, look, opts.out, { source, sourceSha256: await hashFile(source), figures: opts.figures, force: opts.force, inputs: [path, opts.mask, opts.motionTable] });
       console.log(lookConsoleLines(look, path).join('\n'));
       console.log(`recommendation: drop ${look.recommendation.dropInitialVolumes} initial volume(s); censor ${look.recommendation.censorVolumes.length ? look.recommendation.censorVolumes.join(', ') : 'none'}`);
       if (look.b0) console.log(`B0 field from ${look.b0.source}: shift up to ${look.b0.maxAbsShiftVoxels.toFixed(1)} voxels in the mask; signal lost (dephasing or folding) in ${look.b0.lostNearMask} voxels in or next to the mask (${look.b0.lostInMask} inside it)`);

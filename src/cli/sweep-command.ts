@@ -14,7 +14,7 @@ import { readSweepFolder, writeSweepFolder } from '../report/sweep-folder.js';
 import { gatherResults } from '../sweep/gather.js';
 import { buildMask, maskFromFile, type MaskSource } from '../sweep/mask-source.js';
 import { readSweepSpec } from '../sweep/read-sweep-spec.js';
-import { runSweep } from '../sweep/runner.js';
+import { fewestDropped, runSweep } from '../sweep/runner.js';
 import { shareVolume } from '../sweep/shared-volume.js';
 import { terminalProgress } from '../sweep/terminal-progress.js';
 import { readMotionTable } from '../io/motion-table-tsv.js';
@@ -39,6 +39,7 @@ interface SweepCliOptions {
   events?: string;
   sidecar?: string;
   motionTable?: string;
+  estimateMotion: boolean;
   fieldMap?: string;
   pePair?: string;
   force?: boolean;
@@ -60,7 +61,8 @@ export function registerSweepCommand(program: Command): Command {
     .option('--look <dir>', 'look folder of this run ("boldsweep look"): its bright first volumes are dropped and abrupt changes censored where the spec leaves them open')
     .option('--events <file>', 'events TSV (onset, duration, trial_type) when it is not beside the run as <name>_events.tsv')
     .option('--sidecar <file>', 'BIDS sidecar JSON when it is not beside the run as <name>.json')
-    .option('--motion-table <file>', 'the head\'s position at each volume (TSV: shiftXMm shiftYMm shiftZMm rotXDeg rotYDeg rotZDeg, one row per volume): planted activations move with the head')
+    .option('--motion-table <file>', 'the head\'s position at each volume (TSV: shiftXMm shiftYMm shiftZMm rotXDeg rotYDeg rotZDeg, one row per volume): planted activations move with the head, and the model\'s motion regressors and FD censoring use it')
+    .option('--no-estimate-motion', 'without --motion-table, keep the planted activations still instead of estimating the run\'s motion (rigid, least squares, to the middle volume; cached) and planting with it')
     .option('--field-map <file>', 'B0 field map in Hz on the run\'s grid: planted activations are displaced along phase encode (needs PhaseEncodingDirection and TotalReadoutTime or EffectiveEchoSpacing in the sidecar)')
     .option('--pe-pair <a,b>', 'two images with opposite phase-encode directions (BIDS _dir-<label>_epi with sidecars) joined by a comma, for the unwarp step\'s method reversed-pe')
     .option('--workers <n>', 'worker threads (default: the spec\'s workers)', positiveInt)
@@ -90,8 +92,12 @@ Example:
         const expected = basename(siblingCandidates(runPath).events[0]);
         fail('EVENTS_MISSING', `the spec plants and models the run's own task timing, but ${o.events ? `${o.events} holds no events` : `there is no events file ${expected} beside ${basename(runPath)}`} (pass one with --events <file>)`);
       }
+      const motionTable = o.motionTable ? await readMotionTable(o.motionTable) : null;
+      // volumes before steady state (by the look) stay out of the motion estimate, dropped or not
+      let steadyFrom = 0;
       if (o.look) {
         const look = readLookFolder(o.look);
+        steadyFrom = look.dropInitialVolumes;
         const sha = await hashFile(run.files.image ?? runPath);
         const sameRun = look.runSha256 ? look.runSha256 === sha : look.dims.join('x') === run.volume.dims.join('x');
         if (!sameRun) fail('LOOK_FROM_OTHER_RUN', `the look folder ${o.look} was made from ${look.runFile ?? 'another run'}${look.runSha256 ? ` (SHA-256 ${look.runSha256.slice(0, 12)}...)` : ''}, not from ${basename(runPath)} (SHA-256 ${sha.slice(0, 12)}...)`);
@@ -99,8 +105,12 @@ Example:
         spec = applied.spec;
         for (const n of applied.notes) console.log(`look: ${n}`);
         if (!applied.notes.length) console.log(`look: the spec treats the look's findings (drop ${look.dropInitialVolumes}, censor ${look.censorVolumes.join(', ') || 'none'})`);
+        // what applying the look does not settle (volumes moved above the FD threshold: a model choice)
+        for (const w of untreatedFindings(spec, look)) console.error(`warning: ${w}`);
       } else {
-        const warnings = untreatedFindings(spec, lookAtRun(run).recommendation);
+        const own = lookAtRun(run, { motionTable });
+        steadyFrom = own.recommendation.dropInitialVolumes;
+        const warnings = untreatedFindings(spec, { ...own.recommendation, movedVolumes: own.motion.aboveThreshold, fdThresholdMm: own.motion.fdThresholdMm });
         for (const w of warnings) console.error(`warning: ${w}`);
         if (warnings.length) console.error(`warning: the sweep runs as the spec says; to treat these, pass --look <dir> (from "boldsweep look ${basename(runPath)} --out <dir>") or edit ${o.spec}`);
       }
@@ -110,7 +120,6 @@ Example:
         placement: o.placement ? await maskFromFile(o.placement, { values: o.placementValues }) : { kind: 'brain' },
         exclude: o.exclude ? await maskFromFile(o.exclude, { above: o.excludeAbove ?? 0, growVoxels: o.excludeGrow }) : null,
       };
-      const motionTable = o.motionTable ? await readMotionTable(o.motionTable) : null;
       // a field map on another grid is carried onto the run's through both affines (FIELD_MAP_NO_AFFINE without them)
       const fieldMapHz = o.fieldMap ? (await cliB0(runPath, run, { fieldMap: o.fieldMap, find: false }))!.fieldMapHz : null;
       const phaseEncodePair = o.pePair ? (await cliB0(runPath, run, { pePair: o.pePair, find: false }))!.pair : null;
@@ -125,12 +134,13 @@ Example:
       const bar = o.progress ? terminalProgress() : null;
       let result;
       try {
-        result = await runSweep(run, spec, { workers: o.workers, shard: o.shard ?? null, cacheDir, brainMask, placementMask, excludeMask, motionTable, fieldMapHz, phaseEncodePair, onProgress: bar?.update });
+        result = await runSweep(run, spec, { workers: o.workers, shard: o.shard ?? null, cacheDir, brainMask, placementMask, excludeMask, motionTable, estimateMotion: o.estimateMotion, motionFromVolume: Math.max(steadyFrom, fewestDropped(spec)), fieldMapHz, phaseEncodePair, onProgress: bar?.update });
       } finally {
         bar?.stop();
       }
       await writeSweepFolder(o.out, { result, run: runFacts(run), masks }, { force: o.force, inputs });
       const s = result.stats;
+      if (result.motion?.source === 'estimated') console.log(`planted activations move with the run's estimated motion (${result.motion.method}; ${result.motion.fromCache ? 'from the cache' : `${result.motion.seconds.toFixed(1)} s`})`);
       console.log(`${s.cellsRun} cells (${s.cellsComputed} computed, ${s.cellsFromCache} from cache) in ${s.wallSeconds.toFixed(1)} s; wrote ${join(o.out, 'scorecard.tsv')}`);
       if (result.shard && result.shard.count > 1) console.log(`next: when all ${result.shard.count} shards are done: boldsweep gather <shard folders...> --out <folder>, then boldsweep report <folder>`);
       else console.log(`next: boldsweep report ${o.out}`);

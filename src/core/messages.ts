@@ -50,6 +50,7 @@ export const ERROR_ADVICE = {
   // acquisition model (head motion, B0 field, slice times)
   MOTION_TABLE_LENGTH: 'A motion table needs one row per volume of the run it describes (the raw run, before any volumes are dropped); give the table of this run.',
   MOTION_TABLE_INVALID: 'Fix the named row of the motion table: shifts in mm and rotations in degrees, all finite, rows in volume order from 0 (a pose must be an invertible affine).',
+  MOTION_TABLE_MISSING: 'Motion regressors and censoring by framewise displacement need the run\'s motion table: give it (--motion-table <tsv> on the command line, the motionTable option of runSweep), or set model.motionRegressors to 0 and model.censorFdMm to null.',
   FIELD_MAP_INVALID: 'Give one 3D field map in Hz with finite values on the run\'s grid (set voxels outside the head to 0, not NaN).',
   READOUT_TIME_MISSING: 'A field map displaces the signal by (Hz x total readout time): set TotalReadoutTime (s) in the BIDS sidecar, or EffectiveEchoSpacing (s) from which it is computed, or pass totalReadoutTimeSec.',
   PHASE_ENCODE_MISSING: 'A field map displaces the signal along the phase-encode axis: set PhaseEncodingDirection (i, j or k, with - for the reversed direction) in the BIDS sidecar, or pass phaseEncodingDirection.',
@@ -62,6 +63,10 @@ export const ERROR_ADVICE = {
   SLICE_TIMING_MISSING: 'Slice-timing correction needs each slice\'s acquisition time: set SliceTiming (seconds, one per slice) in the BIDS sidecar, or give the step an order (ascending, descending, interleaved-odd-first, interleaved-even-first) and a multiband factor.',
   SLICE_AXIS_UNSUPPORTED: 'Slice-timing correction works on slices stacked along the third image axis (SliceEncodingDirection k or k- in the BIDS sidecar): reorient the run so its slices lie along the third axis, or fix SliceEncodingDirection if it is wrong.',
   SLICE_TIME_REFERENCE_INVALID: 'The reference is a slice index from 0 to the slice count - 1, or a time in seconds from 0 to below RepetitionTime; the default (middle of the TR) is usually right.',
+  // registration (motion estimation and alignment)
+  REGISTRATION_NOT_CONVERGED: 'The optimiser stopped without settling (iteration cap reached while the parameters still changed, or the cost rose). Check the two images show the same head (same run, not a blank or corrupted volume), give a brain mask, start nearer (initial parameters), or use more multi-resolution levels (e.g. [8, 4, 2, 1]) for a large displacement.',
+  REGISTRATION_NO_OVERLAP: 'Too few fixed-image samples land inside the moving image: check both affines put the images in the same world space (same units, sform/qform), or start from a closer initial transform.',
+  MOTION_REFERENCE_INVALID: "Give the reference as 'first', 'middle', 'mean', 'least-moving', or a 0-based volume index below the number of volumes.",
   // parallel work
   WORKER_SCRIPT_MISSING: 'Worker threads run compiled JavaScript: build the package first (npm run build) so the worker file exists under dist/.',
   KERNEL_MISSING: 'The WebAssembly kernels are compiled at build time: run npm run build (it writes dist/kernels/ from kernels/).',

@@ -9,7 +9,8 @@ export type FindingKind =
   | 'unstable-voxel'
   | 'non-finite'
   | 'empty-slices'
-  | 'signal-loss';
+  | 'signal-loss'
+  | 'head-motion';
 
 /** One thing the look found, with the numbers behind it and what to do. */
 export interface Finding {

@@ -34,3 +34,7 @@ export { summariseInMask, type MapSummary } from './map-summary.js';
 export { orthonormalDrift, detrendSeries } from './orthonormal-drift.js';
 export { voxelRasterRows, type VoxelRasterRows } from './voxel-raster-rows.js';
 export { signalLossLook, SIGNAL_LOSS_NEAR_MASK_VOXELS, type LookB0 } from './signal-loss-look.js';
+export { motionEdgeSignature, type MotionEdgeSignature } from './motion-edge-signature.js';
+export { lookMotion, type LookMotion } from './look-motion.js';
+export { withLookMotion } from './with-look-motion.js';
+export { estimateLookMotion, LOOK_MOTION_LEVELS } from './estimate-look-motion.js';

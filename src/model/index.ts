@@ -35,3 +35,8 @@ export { clusterTheory, clusterFweP, minClusterVoxels, type ClusterTheory, type 
 export { thresholdClusterExtent, type ClusterExtentOptions, type ClusterExtentDetails, type ClusterInfo } from './threshold-cluster.js';
 export { aliasedFrequencyHz } from './aliased-frequency.js';
 export { type SliceTimingGuidance, type AliasedRhythm, LONG_TR_SEC, PHYSIOLOGICAL_RATES_HZ, sliceTimingGuidance } from './slice-timing-guidance.js';
+// motion in the model
+export { framewiseDisplacement, FD_SPHERE_RADIUS_MM, FD_CENSOR_THRESHOLD_MM, type MotionParameters } from './framewise-displacement.js';
+export { motionExpansion, MOTION_REGRESSOR_COUNTS, type MotionRegressorCount, type MotionColumns } from './motion-expansion.js';
+export { motionRegressors } from './motion-regressors.js';
+export { fdCensorVolumes } from './fd-censor-volumes.js';

@@ -102,7 +102,7 @@ export async function writeReport(dir: string, folder: SweepFolder, options: Rec
   const chosenSetting = recommendation.choice.chosen.setting;
   const sweepLines = [
     `Recipe${recommendation.choice.status === 'chosen' ? ' (with the recommended setting)' : ` (with ${settingText(chosenSetting)}, which is not a recommendation)`}: ${record.recipe.map((s) => `${s.step}(${Object.entries(s.params).map(([k, v]) => `${k}=${JSON.stringify(v)}`).join(', ')})`).join(' -> ')}`,
-    ...Object.entries(spec.vary).map(([k, v]) => `Varied ${parameterLabel(k)}: ${v.join(', ')}`),
+    ...Object.entries(spec.vary).map(([k, v]) => `Varied ${parameterLabel(k)}: ${v.map((x) => (x === null ? 'none' : x)).join(', ')}`),
     // a varied geometric step (interpolation kernel, voxel size): which value detects best and which blurs least
     ...geometricKeys(spec.vary).flatMap((k) => parameterTradeoff(result.scorecard, k, { metric: recommendation.metric }).map((g) => `Trade-off: ${g.text}`)),
     spec.plant.count > 0

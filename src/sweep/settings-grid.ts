@@ -40,6 +40,8 @@ const MODEL_LABELS: Record<string, ParameterLabel> = {
   'model.ar1': { name: 'AR(1) noise model', unit: '' },
   'model.ar1SmoothFwhmMm': { name: 'AR(1) autocorrelation smoothing FWHM', unit: 'mm' },
   'model.highpassCutoffSec': { name: 'model drift cutoff', unit: 's' },
+  'model.motionRegressors': { name: 'motion regressors', unit: '' },
+  'model.censorFdMm': { name: 'censoring above framewise displacement', unit: 'mm' },
 };
 
 /** The label of a "<step>.<param>" or "model.<option>" key, from one place: the step's definition or the model table. */
@@ -107,13 +109,14 @@ export function settingSimplicity(setting: Setting, recipe: ReadonlyArray<{ step
 }
 
 /**
- * A setting in words with units, for people: "smoothing FWHM 6 mm".
+ * A setting in words with units, for people: "smoothing FWHM 6 mm"; a null value reads "none".
  * @param s - the setting
  * @returns the text ("the fixed recipe" when nothing varies)
  * @example settingText({ 'smooth.fwhmMm': 6 }) // 'smoothing FWHM 6 mm'
  */
 export function settingText(s: Setting): string {
   const parts = Object.entries(s).map(([k, v]) => {
+    if (v === null) return `${parameterName(k)} none`; // e.g. no censoring, no drift cutoff
     const unit = parameterUnit(k);
     return `${parameterName(k)} ${v}${unit ? (unit === '%' ? ' %' : ` ${unit}`) : ''}`;
   });
