@@ -27,3 +27,4 @@ export { scorecardFrame } from './scorecard-frame.js';
 export { specDropCount } from './spec-drop-count.js';
 export { untreatedFindings, type LookTreatment } from './untreated-findings.js';
 export { applyLookToSpec } from './apply-look-to-spec.js';
+export { groupLevelTest, type GroupLevelResult } from './group-level-test.js';
