@@ -40,6 +40,7 @@ const MODEL_LABELS: Record<string, ParameterLabel> = {
   'model.ar1': { name: 'AR(1) noise model', unit: '' },
   'model.ar1SmoothFwhmMm': { name: 'AR(1) autocorrelation smoothing FWHM', unit: 'mm' },
   'model.highpassCutoffSec': { name: 'model drift cutoff', unit: 's' },
+  'study.misregistrationMm': { name: 'misregistration SD', unit: 'mm' },
 };
 
 /** The label of a "<step>.<param>" or "model.<option>" key, from one place: the step's definition or the model table. */
@@ -47,7 +48,7 @@ function labelOf(key: string): ParameterLabel | null {
   if (MODEL_LABELS[key]) return MODEL_LABELS[key];
   const dot = key.indexOf('.');
   const step = key.slice(0, dot);
-  if (step === 'model' || !listSteps().includes(step)) return null;
+  if (step === 'model' || step === 'study' || !listSteps().includes(step)) return null;
   return getStep(step).labels[key.slice(dot + 1)] ?? null;
 }
 
