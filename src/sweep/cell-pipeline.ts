@@ -38,6 +38,7 @@ import { thresholdRftBonferroni } from '../model/threshold-rft-bonferroni.js';
 import type { BoldEvent } from '../io/run-types.js';
 import { randomBlockEvents } from './random-block-events.js';
 import { studySubjects } from './study-subjects.js';
+import { FIRST_LEVEL_METRICS, firstLevelSource } from './cell-metrics.js';
 import { groupLevelTest } from './group-level-test.js';
 import { blobTruth } from '../plant/blob-truth.js';
 
@@ -402,7 +403,7 @@ function cellMetrics(score: ReturnType<typeof scoreDetection>, threshold: number
  * Model, threshold and score one preprocessed run.
  * @returns metrics, ROC samples
  */
-function modelAndScore(holder: { volume: Volume | null }, context: StepContext, plantedTruth: PlantTruth, ctx: SweepContext, cell: CellPlan, trialType: string, regressors: readonly NuisanceRegressor[]): { metrics: Record<string, number | null>; tpr: number[]; residualsInWork: boolean } {
+function modelAndScore(holder: { volume: Volume | null }, context: StepContext, plantedTruth: PlantTruth, ctx: SweepContext, cell: CellPlan, trialType: string, regressors: readonly NuisanceRegressor[]): { metrics: Record<string, number | null>; tpr: number[]; residualsInWork: boolean; effectPct: Float32Array; frame: Frame; grid: { dims: number[]; spacingMm: number[] } } {
   const { fit, maps, brain, scoreMask, frame, grid, residualsInWork } = fitCellModel(holder, context, ctx, cell, trialType, regressors, true);
   const truth = truthInFrame(plantedTruth, frame);
   const smooth = estimateSmoothness(fit.residuals!.data, fit.residuals!.dims, brain, grid.spacingMm, { dof: fit.dof });
@@ -412,7 +413,7 @@ function modelAndScore(holder: { volume: Volume | null }, context: StepContext, 
   const curve = hasBothClasses(truth.mask, scoreMask) ? rocCurve(maps.t.data, truth.mask, scoreMask) : undefined;
   const score = scoreDetection({ statistic: maps.t, survivors: thr.survivors, truth, brainMask: scoreMask, effectPct: maps.percentSignalChange, threshold: thr.threshold, thresholdMethod: thr.rule, rocCurve: curve });
   const tpr = score.truthVoxels > 0 && curve ? tprAtFpr(curve.fpr, curve.tpr, DEFAULT_FPR_GRID) : [];
-  return { metrics: cellMetrics(score, thr.threshold, smooth.fwhmMm, maps.dof), tpr, residualsInWork };
+  return { metrics: cellMetrics(score, thr.threshold, smooth.fwhmMm, maps.dof), tpr, residualsInWork, effectPct: maps.percentSignalChange.data, frame, grid };
 }
 
 /**
@@ -521,6 +522,7 @@ async function runStudyTask(task: SweepTask, onCell?: (done: number) => void): P
   const grids: Array<{ dims: number[]; spacingMm: number[] }> = [];
   const notesOf: StepNote[][] = [];
   const secondsOf = task.cells.map(() => 0);
+  const firstLevel: Array<Record<string, number | null>> = [];
   for (const subject of subjects) {
     const own = runs[subject.runIndex];
     const subjectTask: SweepTask = {
@@ -534,11 +536,19 @@ async function runStudyTask(task: SweepTask, onCell?: (done: number) => void): P
       const t0 = performance.now();
       const cell = task.cells[c];
       const plantIt: SubjectPlant = { centresVoxel: subject.centresVoxel, amplitudePct: subject.amplitudePct };
-      const { volume, context, notes, regressors } = await preprocessCell(subjectTask, cell, STUDY_TRIAL_TYPE, holding, plantIt);
+      const { volume, context, notes, regressors, truth } = await preprocessCell(subjectTask, cell, STUDY_TRIAL_TYPE, holding, plantIt);
       const holder = { volume: volume as Volume | null };
-      const { maps, frame, grid: g } = fitCellModel(holder, context, subjectTask.context, cell, STUDY_TRIAL_TYPE, regressors, false);
-      effects[c].push(maps.percentSignalChange.data);
-      if (subject.index === 0) { frames[c] = frame; grids[c] = g; notesOf[c] = notes; }
+      if (subject.index === 0) {
+        // the first subject is also scored as a single run against its own planted blobs: the
+        // single-run question's answer on the same runs, widths and plantings
+        const one = modelAndScore(holder, context, truth, subjectTask.context, cell, STUDY_TRIAL_TYPE, regressors);
+        effects[c].push(one.effectPct);
+        frames[c] = one.frame; grids[c] = one.grid; notesOf[c] = notes;
+        firstLevel[c] = Object.fromEntries(FIRST_LEVEL_METRICS.map((m) => [m, one.metrics[firstLevelSource(m)] ?? null]));
+      } else {
+        const { maps } = fitCellModel(holder, context, subjectTask.context, cell, STUDY_TRIAL_TYPE, regressors, false);
+        effects[c].push(maps.percentSignalChange.data);
+      }
       secondsOf[c] += (performance.now() - t0) / 1000;
     }
     holding.held = null;
@@ -556,7 +566,7 @@ async function runStudyTask(task: SweepTask, onCell?: (done: number) => void): P
     const statistic = makeVolume({ dims: [grids[c].dims[0], grids[c].dims[1], grids[c].dims[2], 1], spacingMm: [grids[c].spacingMm[0], grids[c].spacingMm[1], grids[c].spacingMm[2]], trSec: 0, affine: truth.affine, data: g.t });
     const score = scoreDetection({ statistic, survivors: g.survivors, truth, brainMask: scoreMask, effectPct: g.meanEffect, threshold: g.threshold, thresholdMethod: g.rule, rocCurve: curve });
     const tpr = score.truthVoxels > 0 && curve ? tprAtFpr(curve.fpr, curve.tpr, DEFAULT_FPR_GRID) : [];
-    const result: CellResult = { key: cell.key, metrics: cellMetrics(score, g.threshold, g.fwhmMm, g.dof), tpr, notes: notesOf[c], seconds: secondsOf[c] + (performance.now() - t0) / 1000, groupStage: 'computed' };
+    const result: CellResult = { key: cell.key, metrics: { ...cellMetrics(score, g.threshold, g.fwhmMm, g.dof), ...firstLevel[c] }, tpr, notes: notesOf[c], seconds: secondsOf[c] + (performance.now() - t0) / 1000, groupStage: 'computed' };
     if (ctx.cacheDir) await writeCachedCell(ctx.cacheDir, result);
     out.push(result);
     if (ctx.progress) Atomics.add(ctx.progress, task.index, 1);

@@ -13,7 +13,7 @@ import { NULL_DESIGN, nullDesignCount } from './spec.js';
 import { plantDesignNorm } from './plant-design-norm.js';
 import { randomBlockEvents } from './random-block-events.js';
 import { collectGarbage } from './collect-garbage.js';
-import { SCORECARD_METRICS } from './cell-metrics.js';
+import { FIRST_LEVEL_METRICS, SCORECARD_METRICS } from './cell-metrics.js';
 import { DEFAULT_FPR_GRID, type CurveTable } from '../score/curve-table.js';
 import { planSweep, type CellPlan, type SweepPlan } from './plan.js';
 import type { SweepProgress } from './progress.js';
@@ -463,7 +463,8 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
   }
   report();
 
-  // 7. scorecard
+  // 7. scorecard (a study adds its first subject's single-run columns)
+  const metricColumns: string[] = spec.study ? [...SCORECARD_METRICS, ...FIRST_LEVEL_METRICS] : [...SCORECARD_METRICS];
   const rows: ScorecardRow[] = [];
   const seconds: number[] = [];
   const curves: CurveTable = { fprGrid: [...DEFAULT_FPR_GRID], rows: [] };
@@ -475,14 +476,14 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
     const row: ScorecardRow = { cell: c.index, group: g.index, settingIndex: c.settingIndex };
     for (const k of Object.keys(spec.vary)) row[k] = c.setting[k];
     Object.assign(row, { plantShape: g.plant.shape, plantSizeMm: g.plant.sizeMm, plantAmplitudePct: g.plant.amplitudePct, plantCount: g.plant.count, repeat: g.repeat, plantSeed: g.plantSeed });
-    for (const m of SCORECARD_METRICS) row[m] = r.metrics[m] ?? null;
+    for (const m of metricColumns) row[m] = r.metrics[m] ?? null;
     row.tsnrMedian = tsnrByKey.get(plan.tsnr[c.settingIndex].key)?.tsnrMedian ?? null;
     rows.push(row);
     seconds.push(r.seconds);
     if (r.tpr.length) curves.rows.push({ cell: c.index, tpr: r.tpr });
     if (!notes.has(c.settingIndex)) notes.set(c.settingIndex, r.notes);
   }
-  const scorecard: Scorecard = { sweepKey: plan.sweepKey, varied: Object.keys(spec.vary), metrics: [...SCORECARD_METRICS], rows, seconds };
+  const scorecard: Scorecard = { sweepKey: plan.sweepKey, varied: Object.keys(spec.vary), metrics: metricColumns, rows, seconds };
   return {
     spec, plan: { settings: plan.settings, plants: plan.plants, splitAt: plan.splitAt, sweepKey: plan.sweepKey }, scorecard, curves,
     notes: [...notes.entries()].sort((a, b) => a[0] - b[0]).map(([settingIndex, ns]) => ({ settingIndex, notes: ns })),
