@@ -55,7 +55,7 @@ export const ERROR_ADVICE = {
   PHASE_ENCODE_MISSING: 'A field map displaces the signal along the phase-encode axis: set PhaseEncodingDirection (i, j or k, with - for the reversed direction) in the BIDS sidecar, or pass phaseEncodingDirection.',
   SLICE_TIMING_INVALID: 'Slice times are seconds from the start of each volume, each at least 0 and below RepetitionTime: fix SliceTiming in the BIDS sidecar (check it is in seconds, not milliseconds), or pass slice times made for your acquisition order.',
   // study (group-level sweeps)
-  TOO_FEW_SUBJECTS: 'A group-level test needs at least 3 subjects (2 leave one degree of freedom and no smoothness estimate); set study.subjects to 3 or more (12 or more gives a steadier group map).',
+  TOO_FEW_SUBJECTS: 'A group-level test needs at least 3 subjects, and 5 for the random-field rules (fwe-rft, cluster); set study.subjects accordingly (12 or more gives a steadier group map).',
   STUDY_GRID_MISMATCH: 'Every run of a study must be on one grid (same dimensions, voxel size and voxel-to-world mapping): resample the runs onto one grid first, or give only the runs that share the first run\'s grid.',
   STUDY_RUNS_MISSING: 'Give the study\'s runs as a list of NIfTI files or as a BIDS folder with a task name (every sub-*/func/*_task-<name>_bold.nii.gz); check the folder and the task name.',
   MISREGISTRATION_TOO_LARGE: 'A misregistration SD that large moves activations outside the brain: state the residual misalignment after spatial normalisation (typically a few mm; 0, 3 and 6 mm span the usual range).',

@@ -39,14 +39,14 @@ const USES_SMOOTHNESS = new Set<ThresholdRule['kind']>(['fwe-rft', 'cluster']);
  * @param spacingMm - voxel size
  * @param rule - the sweep's threshold rule (not fwe-calibrated: no null designs exist for a group map)
  * @returns t, z, mean effect, survivors, threshold and residual smoothness
- * @throws BoldsweepError TOO_FEW_SUBJECTS (fewer than 3; fewer than 4 for a random-field rule, whose
- *   smoothness estimate needs nu > 2), STUDY_RULE_UNSUPPORTED for fwe-calibrated
+ * @throws BoldsweepError TOO_FEW_SUBJECTS (fewer than 3; fewer than 5 for a random-field rule, whose
+ *   t-field theory needs nu > 3), STUDY_RULE_UNSUPPORTED for fwe-calibrated
  * @example const g = groupLevelTest(effects, brain, [64, 64, 36], [3.5, 3.5, 3.5], spec.threshold)
  */
 export function groupLevelTest(effects: readonly ArrayLike<number>[], mask: Uint8Array, dims: readonly number[], spacingMm: readonly number[], rule: ThresholdRule): GroupLevelResult {
   if (rule.kind === 'fwe-calibrated') fail('STUDY_RULE_UNSUPPORTED', 'threshold.kind fwe-calibrated cannot threshold a group map');
   const s = effects.length;
-  if (USES_SMOOTHNESS.has(rule.kind) && s < 4) fail('TOO_FEW_SUBJECTS', `the ${rule.kind} rule estimates smoothness from the group's residuals, which needs at least 4 subjects (3 degrees of freedom); got ${s}`);
+  if (USES_SMOOTHNESS.has(rule.kind) && s < 5) fail('TOO_FEW_SUBJECTS', `the ${rule.kind} rule needs at least 5 subjects: random-field thresholds for t maps need more than 3 degrees of freedom; got ${s}`);
   const g = oneSampleT(effects, mask);
   const n = mask.length;
   const z = new Float32Array(n);

@@ -139,7 +139,7 @@ export type StudyRuns = string[] | { bids: string; task: string } | null;
  * group's activations.
  */
 export interface StudySpec {
-  /** Simulated subjects (at least 3; 4 for random-field rules; 12 or more for a steady group map). */
+  /** Simulated subjects (at least 3; 5 for random-field rules; 12 or more for a steady group map). */
   subjects: number;
   /** The study's runs (see {@link StudyRuns}). __Default value:__ null */
   runs: StudyRuns;
@@ -268,7 +268,7 @@ export function parseSweepSpecShape(input: unknown): SweepSpec {
 function checkStudySpec(spec: SweepSpec): void {
   const study = spec.study!;
   if (study.subjects < 3) fail('TOO_FEW_SUBJECTS', `study.subjects is ${study.subjects}: a group-level test needs at least 3`, { details: { fields: ['study.subjects'] } });
-  if ((spec.threshold.kind === 'fwe-rft' || spec.threshold.kind === 'cluster') && study.subjects < 4) fail('TOO_FEW_SUBJECTS', `study.subjects is ${study.subjects}: the ${spec.threshold.kind} rule estimates the group map's smoothness from its residuals and needs at least 4 subjects`, { details: { fields: ['study.subjects'] } });
+  if ((spec.threshold.kind === 'fwe-rft' || spec.threshold.kind === 'cluster') && study.subjects < 5) fail('TOO_FEW_SUBJECTS', `study.subjects is ${study.subjects}: the ${spec.threshold.kind} rule needs at least 5 subjects (random-field thresholds for t maps need more than 3 degrees of freedom)`, { details: { fields: ['study.subjects'] } });
   if (spec.threshold.kind === 'fwe-calibrated' || spec.threshold.nullDesigns !== null) fail('STUDY_RULE_UNSUPPORTED', `a study's threshold is ${spec.threshold.kind}${spec.threshold.nullDesigns !== null ? ` with ${spec.threshold.nullDesigns} null designs` : ''}`, { details: { fields: ['threshold'] } });
   if (spec.plant.count > 0 && spec.plant.sizesFwhmMm.length * spec.plant.amplitudesPct.length < 1) fail('SPEC_INVALID', 'a study needs a planted size and amplitude');
   if (study.design.offMaxSec < study.design.offMinSec) fail('SPEC_INVALID', `study.design.offMaxSec (${study.design.offMaxSec} s) must be at least study.design.offMinSec (${study.design.offMinSec} s)`, { details: { fields: ['study.design.offMaxSec'] } });

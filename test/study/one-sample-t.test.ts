@@ -71,9 +71,9 @@ describe('group-level thresholding with the first level\'s rules', () => {
     for (const f of g.fwhmMm) expect(Math.abs(f - 3 * Math.sqrt(2 * Math.LN2))).toBeLessThan(0.15 * 3.5);
     expect(g.threshold).toBeGreaterThan(3);
   });
-  it('fwe-calibrated is refused for a group map; a random-field rule needs 4 subjects', () => {
+  it('fwe-calibrated is refused for a group map; a random-field rule needs 5 subjects', () => {
     expect(code(() => groupLevelTest(effects(5, 1), mask, dims, [3, 3, 3], { kind: 'fwe-calibrated', alpha: 0.05, q: 0.05, clusterFormingP: 0.001 }))).toBe('STUDY_RULE_UNSUPPORTED');
-    expect(code(() => groupLevelTest(effects(3, 1), mask, dims, [3, 3, 3], { kind: 'fwe-rft', alpha: 0.05, q: 0.05, clusterFormingP: 0.001 }))).toBe('TOO_FEW_SUBJECTS');
+    expect(code(() => groupLevelTest(effects(4, 1), mask, dims, [3, 3, 3], { kind: 'fwe-rft', alpha: 0.05, q: 0.05, clusterFormingP: 0.001 }))).toBe('TOO_FEW_SUBJECTS');
     expect(groupLevelTest(effects(3, 1), mask, dims, [3, 3, 3], { kind: 'fdr', alpha: 0.05, q: 0.05, clusterFormingP: 0.001 }).dof).toBe(2);
   });
 });

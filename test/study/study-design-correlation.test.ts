@@ -8,7 +8,7 @@ import { randomBlockEvents } from '../../src/sweep/random-block-events.js';
 
 const spec = parseSweepSpec({
   recipe: [{ step: 'smooth', params: { fwhmMm: 0 } }], plant: { sizesFwhmMm: [6], amplitudesPct: [1], count: 1 }, repeats: 1,
-  threshold: { kind: 'fwe-rft' }, model: { ar1: false, highpassCutoffSec: 128 }, study: { subjects: 4 }, seed: 1,
+  threshold: { kind: 'fwe-rft' }, model: { ar1: false, highpassCutoffSec: 128 }, study: { subjects: 5 }, seed: 1,
 });
 
 describe('correlation of the noise projections of subjects who share a run', () => {
