@@ -1,0 +1,131 @@
+/**
+ * A study sweep on the demo run (subjects cycling through it): smoothing FWHM 0-21 mm in 8 steps x
+ * misregistration SD 0, 3, 6 mm x repeats x 12 subjects, each measurement in a fresh child process
+ * so its peak memory is its own:
+ *   bench study-sweep-seconds <s> s                 wall time, 2 workers, empty stage cache
+ *   bench study-sweep-peak-x-run <x> x              peak resident memory (maxRSS) / the run's float32 size
+ *   bench study-sweep-subject-cells <n>             subject-cells computed (widths x levels x repeats x subjects)
+ *   ratio study-subject-cell-vs-run-cell <x>        seconds per subject-cell / seconds per cell of a
+ *                                                   single-run sweep of the same widths (same command,
+ *                                                   alternating, median of 2); target within 1.2
+ *   bench study-optimum-* <mm> mm                   the single-run and group optima with their 95 %
+ *                                                   bootstrap intervals (studyOptima)
+ * BOLDSWEEP_STUDY_REPEATS sets the repeats (default 10, the full size: 2880 subject-cells; on a loaded
+ * machine run a reduced size and say so).
+ */
+import { execFileSync } from 'node:child_process';
+import { existsSync, mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { runBytes } from '../src/core/volume.js';
+import { openRun } from '../src/io/open-run.js';
+import { TISSUE_LABEL } from '../src/simulate/tissue-properties.js';
+import { demoPhantomSpec } from '../src/simulate/phantom-spec.js';
+import { simulatePhantomRun } from '../src/simulate/simulate-phantom-run.js';
+import { writePhantomRun } from '../src/simulate/write-phantom-run.js';
+import { defaultSmoothingSpec } from '../src/sweep/default-spec.js';
+import { buildMask, maskFromFile } from '../src/sweep/mask-source.js';
+import { runSweep } from '../src/sweep/runner.js';
+import { shareVolume } from '../src/sweep/shared-volume.js';
+import { studyOptima } from '../src/decide/study-optima.js';
+import type { SweepSpec } from '../src/sweep/spec.js';
+
+const STEM = 'sub-phantom01_task-flicker';
+const here = dirname(fileURLToPath(import.meta.url));
+const WIDTHS = [0, 3, 6, 9, 12, 15, 18, 21];
+const LEVELS = [0, 3, 6];
+const SUBJECTS = 12;
+
+interface ChildResult { seconds: number; cpuSeconds: number; maxRssBytes: number; runBytes: number; cells: number; optima: ReturnType<typeof studyOptima> | null; designCorrelation: number | null }
+
+async function demoData(): Promise<{ dir: string; temp: boolean }> {
+  let root = here;
+  while (!existsSync(join(root, 'package.json'))) root = dirname(root);
+  const dir = join(root, 'data-demo');
+  if (existsSync(join(dir, `${STEM}_bold.nii.gz`))) return { dir, temp: false };
+  const tmp = mkdtempSync(join(tmpdir(), 'boldsweep-demo-data-'));
+  await writePhantomRun(tmp, simulatePhantomRun(demoPhantomSpec()), STEM);
+  return { dir: tmp, temp: true };
+}
+
+/** The demo's smoothing spec (look findings applied), as a study when `study` is true. */
+function spec(repeats: number, study: boolean): SweepSpec {
+  const base = defaultSmoothingSpec({ dropInitialVolumes: 3, censorVolumes: [83, 112, 113], repeats, workers: 2, fwhmsMm: WIDTHS });
+  if (!study) return base;
+  return { ...base, vary: { ...base.vary, 'study.misregistrationMm': LEVELS }, study: { subjects: SUBJECTS, runs: null, misregistrationMm: 3, amplitudeSpread: 0.3, design: { onSec: 20, offMinSec: 10, offMaxSec: 40 } } };
+}
+
+/** In the child: one sweep on the demo run (as the sweep command runs it, minus the look and the report). */
+async function child(args: string[]): Promise<void> {
+  const [dataDir, cacheDir, repeats, study] = args;
+  const t0 = performance.now();
+  let run = await openRun(join(dataDir, `${STEM}_bold.nii.gz`), { sharedMemory: true });
+  run = { ...run, volume: shareVolume(run.volume) };
+  const brainMask = await buildMask({ kind: 'otsu-mean' }, run.volume);
+  const placementMask = await buildMask(await maskFromFile(join(dataDir, `${STEM}_truth-tissue.nii.gz`), { values: [TISSUE_LABEL['grey-matter']] }), run.volume);
+  const excludeMask = await buildMask(await maskFromFile(join(dataDir, `${STEM}_truth-activation.nii.gz`), { above: 0, growVoxels: 4 }), run.volume);
+  const r = await runSweep(run, spec(Number(repeats), study === 'true'), { cacheDir, brainMask, placementMask, excludeMask });
+  const cpu = process.cpuUsage();
+  const out: ChildResult = {
+    seconds: (performance.now() - t0) / 1000, cpuSeconds: (cpu.user + cpu.system) / 1e6, maxRssBytes: process.resourceUsage().maxRSS * 1024,
+    runBytes: runBytes(run.volume.dims), cells: r.stats.cellsComputed,
+    optima: study === 'true' ? studyOptima(r.scorecard) : null, designCorrelation: r.study?.designCorrelation.meanAbs ?? null,
+  };
+  process.stdout.write(`${JSON.stringify(out)}\n`);
+}
+
+function measure(dataDir: string, cacheDir: string, repeats: number, study: boolean): ChildResult {
+  const text = execFileSync(process.execPath, [fileURLToPath(import.meta.url), '--child', dataDir, cacheDir, String(repeats), String(study)], { encoding: 'utf8', maxBuffer: 1 << 24 });
+  return JSON.parse(text.trim().split('\n').pop()!) as ChildResult;
+}
+
+const median = (xs: number[]) => { const s = [...xs].sort((a, b) => a - b); return s[(s.length - 1) >> 1]; };
+const mmText = (o: { value: number; low: number; high: number }) => `${o.value.toFixed(2)} mm (95 % interval ${o.low.toFixed(2)} to ${o.high.toFixed(2)})`;
+
+/**
+ * Run the benchmark and print its lines.
+ * @returns when done
+ * @example await main()
+ */
+export async function main(): Promise<void> {
+  const data = await demoData();
+  const repeats = Number(process.env.BOLDSWEEP_STUDY_REPEATS ?? 10);
+  const scratch = mkdtempSync(join(tmpdir(), 'boldsweep-bench-study-'));
+  let k = 0;
+  const fresh = () => join(scratch, `cache-${k++}`);
+  try {
+    const study = measure(data.dir, fresh(), repeats, true);
+    console.log(`bench study-sweep-seconds ${study.seconds.toFixed(1)} s`);
+    console.log(`bench study-sweep-cpu-seconds ${study.cpuSeconds.toFixed(1)} s`);
+    console.log(`bench study-sweep-peak-x-run ${(study.maxRssBytes / study.runBytes).toFixed(2)} x`);
+    console.log(`bench study-sweep-peak-mb ${(study.maxRssBytes / 2 ** 20).toFixed(0)} MB`);
+    console.log(`bench study-sweep-subject-cells ${study.cells * SUBJECTS} (${WIDTHS.length} widths x ${LEVELS.length} levels x ${repeats} repeats x ${SUBJECTS} subjects)`);
+    if (study.designCorrelation !== null) console.log(`bench study-design-correlation-mean-abs ${study.designCorrelation.toFixed(3)}`);
+    if (study.optima) {
+      console.log(`bench study-optimum-single-run ${mmText(study.optima.singleRun.optimum)}`);
+      for (const l of study.optima.levels) {
+        console.log(`bench study-optimum-group-${l.levelMm}mm ${mmText(l.optimum)}`);
+        console.log(`bench study-optimum-wider-by-${l.levelMm}mm ${mmText(l.widerBy)}`);
+      }
+    }
+    // seconds per subject-cell against seconds per single-run cell, alternating (1 repeat of the study
+    // = 24 cells x 12 subjects; 12 repeats of the single run = 96 cells), median of 2
+    const perSubject: number[] = [], perRun: number[] = [];
+    for (let i = 0; i < 2; i++) {
+      const s = measure(data.dir, fresh(), 1, true);
+      perSubject.push(s.seconds / (s.cells * SUBJECTS));
+      const r = measure(data.dir, fresh(), 12, false);
+      perRun.push(r.seconds / r.cells);
+    }
+    console.log(`bench study-subject-cell-seconds ${median(perSubject).toFixed(3)} s`);
+    console.log(`bench run-cell-seconds ${median(perRun).toFixed(3)} s`);
+    console.log(`ratio study-subject-cell-vs-run-cell ${(median(perSubject) / median(perRun)).toFixed(2)}`);
+  } finally {
+    rmSync(scratch, { recursive: true, force: true });
+    if (data.temp) rmSync(data.dir, { recursive: true, force: true });
+  }
+}
+
+if (process.argv[2] === '--child') await child(process.argv.slice(3));
+else if (process.argv[1] === fileURLToPath(import.meta.url)) await main();
