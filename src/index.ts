@@ -48,7 +48,7 @@ export {
 } from './resample/index.js';
 
 // model
-export { hrfValues, buildDesign, fitGlm, fitGlmAr1, contrastMaps, estimateSmoothness } from './model/index.js';
+export { hrfValues, buildDesign, fitGlm, fitGlmAr1, contrastMaps, estimateSmoothness, oneSampleT } from './model/index.js';
 export { thresholdUncorrected, thresholdBonferroni, thresholdFdr, thresholdRft, thresholdClusterExtent } from './model/index.js';
 
 // score
@@ -59,17 +59,18 @@ export {
   type SweepSpec, type SweepSpecInput, parseSweepSpec, readSweepSpec, defaultSmoothingSpec, settingText,
   runSweep, type SweepResult, gatherResults, shareVolume, buildMask, maskFromFile, lineProgress, scorecardFrame,
   type Scorecard, applyLookToSpec, untreatedFindings,
+  groupLevelTest, studyRunPaths, type StudySpec, type StudyFacts,
 } from './sweep/index.js';
 
 // decide
-export { summariseScorecard, recommendSetting, parameterTradeoff, type Recommendation, type SettingSummary, type TradeoffGroup } from './decide/index.js';
+export { summariseScorecard, recommendSetting, parameterTradeoff, type Recommendation, type SettingSummary, type TradeoffGroup, studyOptima, type StudyOptima } from './decide/index.js';
 
 // report
 export {
   RESEARCH_CAUTION, renderSvg, threePlaneSvg, sliceGridSvg, voxelRasterSvg, lookPageHtml, tableHtml, lookTracesSpec, voxelTimeCourseSpec, chosenVoxels, maskCentre,
   writeLookFolder, detectionChart, falseAlarmChart, rocChart, smoothnessChart, tsnrChart, methodsText, methodsMarkdown,
   thresholdText, runFacts, writeReport, writeSweepFolder, readDecisionRecord, recordDir, rerunRecord, repeatedResamplingChart,
-  readLookFolder, starterSpecYaml,
+  readLookFolder, starterSpecYaml, studyWidthChart,
 } from './report/index.js';
 
 // the digital phantom
