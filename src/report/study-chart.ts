@@ -15,7 +15,7 @@ import { COLOUR_TABLES_HEX } from './colour-tables.js';
  */
 export function studyWidthChart(optima: StudyOptima): TopLevelSpec {
   const single = 'single run';
-  const label = (m: number) => `group, misregistration ${m} mm`;
+  const label = (m: number) => `group, ${m} mm misregistration`;
   const curves = [
     ...optima.widths.map((w, i) => ({ width: w, value: optima.singleRun.curve[i], series: single, order: -1 })),
     ...optima.levels.flatMap((l, li) => optima.widths.map((w, i) => ({ width: w, value: l.curve[i], series: label(l.levelMm), order: li }))),
@@ -27,7 +27,7 @@ export function studyWidthChart(optima: StudyOptima): TopLevelSpec {
   const names = [single, ...optima.levels.map((l) => label(l.levelMm))];
   // grey for the single run, viridis for the levels (ordered by misregistration)
   const colours = ['#777777', ...optima.levels.map((_, i) => viridisAt(optima.levels.length === 1 ? 0.3 : 0.05 + (0.75 * i) / (optima.levels.length - 1)))];
-  const color = { field: 'series', type: 'nominal' as const, title: null, sort: names, scale: { domain: names, range: colours } };
+  const color = { field: 'series', type: 'nominal' as const, title: null, sort: names, scale: { domain: names, range: colours }, legend: { labelLimit: 260 } };
   const x = { field: 'width', type: 'quantitative' as const, title: parameterLabel(optima.key), scale: { zero: false } };
   const rate = /Rate$/.test(optima.metric);
   return {
