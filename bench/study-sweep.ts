@@ -6,12 +6,13 @@
  *   bench study-sweep-peak-x-run <x> x              peak resident memory (maxRSS) / the run's float32 size
  *   bench study-sweep-subject-cells <n>             subject-cells computed (widths x levels x repeats x subjects)
  *   ratio study-subject-cell-vs-run-cell <x>        seconds per subject-cell / seconds per cell of a
- *                                                   single-run sweep of the same widths (same command,
+ *                                                   single-run sweep (3 widths; the study at 1 level,
+ *                                                   1 repeat, 12 subjects; the single run 12 repeats;
  *                                                   alternating, median of 2); target within 1.2
  *   bench study-optimum-* <mm> mm                   the single-run and group optima with their 95 %
  *                                                   bootstrap intervals (studyOptima)
  * BOLDSWEEP_STUDY_REPEATS sets the repeats (default 10, the full size: 2880 subject-cells; on a loaded
- * machine run a reduced size and say so).
+ * machine run a reduced size and say so); BOLDSWEEP_STUDY_RATIO_ONLY=1 measures the ratio alone.
  */
 import { execFileSync } from 'node:child_process';
 import { existsSync, mkdtempSync, rmSync } from 'node:fs';
@@ -49,23 +50,27 @@ async function demoData(): Promise<{ dir: string; temp: boolean }> {
   return { dir: tmp, temp: true };
 }
 
-/** The demo's smoothing spec (look findings applied), as a study when `study` is true. */
-function spec(repeats: number, study: boolean): SweepSpec {
-  const base = defaultSmoothingSpec({ dropInitialVolumes: 3, censorVolumes: [83, 112, 113], repeats, workers: 2, fwhmsMm: WIDTHS });
+/** Widths and levels of the time-per-cell comparison (a ratio: a smaller grid measures it as well). */
+const RATIO_WIDTHS = [0, 6, 12];
+const RATIO_LEVELS = [3];
+
+/** The demo's smoothing spec (look findings applied), as a study when `study` is true; `size` 'ratio' takes the small grid. */
+function spec(repeats: number, study: boolean, size: string): SweepSpec {
+  const base = defaultSmoothingSpec({ dropInitialVolumes: 3, censorVolumes: [83, 112, 113], repeats, workers: 2, fwhmsMm: size === 'ratio' ? RATIO_WIDTHS : WIDTHS });
   if (!study) return base;
-  return { ...base, vary: { ...base.vary, 'study.misregistrationMm': LEVELS }, study: { subjects: SUBJECTS, runs: null, misregistrationMm: 3, amplitudeSpread: 0.3, design: { onSec: 20, offMinSec: 10, offMaxSec: 40 } } };
+  return { ...base, vary: { ...base.vary, 'study.misregistrationMm': size === 'ratio' ? RATIO_LEVELS : LEVELS }, study: { subjects: SUBJECTS, runs: null, misregistrationMm: 3, amplitudeSpread: 0.3, design: { onSec: 20, offMinSec: 10, offMaxSec: 40 } } };
 }
 
 /** In the child: one sweep on the demo run (as the sweep command runs it, minus the look and the report). */
 async function child(args: string[]): Promise<void> {
-  const [dataDir, cacheDir, repeats, study] = args;
+  const [dataDir, cacheDir, repeats, study, size] = args;
   const t0 = performance.now();
   let run = await openRun(join(dataDir, `${STEM}_bold.nii.gz`), { sharedMemory: true });
   run = { ...run, volume: shareVolume(run.volume) };
   const brainMask = await buildMask({ kind: 'otsu-mean' }, run.volume);
   const placementMask = await buildMask(await maskFromFile(join(dataDir, `${STEM}_truth-tissue.nii.gz`), { values: [TISSUE_LABEL['grey-matter']] }), run.volume);
   const excludeMask = await buildMask(await maskFromFile(join(dataDir, `${STEM}_truth-activation.nii.gz`), { above: 0, growVoxels: 4 }), run.volume);
-  const r = await runSweep(run, spec(Number(repeats), study === 'true'), { cacheDir, brainMask, placementMask, excludeMask });
+  const r = await runSweep(run, spec(Number(repeats), study === 'true', size ?? 'full'), { cacheDir, brainMask, placementMask, excludeMask });
   const cpu = process.cpuUsage();
   const out: ChildResult = {
     seconds: (performance.now() - t0) / 1000, cpuSeconds: (cpu.user + cpu.system) / 1e6, maxRssBytes: process.resourceUsage().maxRSS * 1024,
@@ -75,8 +80,8 @@ async function child(args: string[]): Promise<void> {
   process.stdout.write(`${JSON.stringify(out)}\n`);
 }
 
-function measure(dataDir: string, cacheDir: string, repeats: number, study: boolean): ChildResult {
-  const text = execFileSync(process.execPath, [fileURLToPath(import.meta.url), '--child', dataDir, cacheDir, String(repeats), String(study)], { encoding: 'utf8', maxBuffer: 1 << 24 });
+function measure(dataDir: string, cacheDir: string, repeats: number, study: boolean, size = 'full'): ChildResult {
+  const text = execFileSync(process.execPath, [fileURLToPath(import.meta.url), '--child', dataDir, cacheDir, String(repeats), String(study), size], { encoding: 'utf8', maxBuffer: 1 << 24 });
   return JSON.parse(text.trim().split('\n').pop()!) as ChildResult;
 }
 
@@ -95,27 +100,15 @@ export async function main(): Promise<void> {
   let k = 0;
   const fresh = () => join(scratch, `cache-${k++}`);
   try {
-    const study = measure(data.dir, fresh(), repeats, true);
-    console.log(`bench study-sweep-seconds ${study.seconds.toFixed(1)} s`);
-    console.log(`bench study-sweep-cpu-seconds ${study.cpuSeconds.toFixed(1)} s`);
-    console.log(`bench study-sweep-peak-x-run ${(study.maxRssBytes / study.runBytes).toFixed(2)} x`);
-    console.log(`bench study-sweep-peak-mb ${(study.maxRssBytes / 2 ** 20).toFixed(0)} MB`);
-    console.log(`bench study-sweep-subject-cells ${study.cells * SUBJECTS} (${WIDTHS.length} widths x ${LEVELS.length} levels x ${repeats} repeats x ${SUBJECTS} subjects)`);
-    if (study.designCorrelation !== null) console.log(`bench study-design-correlation-mean-abs ${study.designCorrelation.toFixed(3)}`);
-    if (study.optima) {
-      console.log(`bench study-optimum-single-run ${mmText(study.optima.singleRun.optimum)}`);
-      for (const l of study.optima.levels) {
-        console.log(`bench study-optimum-group-${l.levelMm}mm ${mmText(l.optimum)}`);
-        console.log(`bench study-optimum-wider-by-${l.levelMm}mm ${mmText(l.widerBy)}`);
-      }
-    }
-    // seconds per subject-cell against seconds per single-run cell, alternating (1 repeat of the study
-    // = 24 cells x 12 subjects; 12 repeats of the single run = 96 cells), median of 2
+    // BOLDSWEEP_STUDY_RATIO_ONLY=1: the time-per-cell comparison alone (on a loaded machine)
+    if (process.env.BOLDSWEEP_STUDY_RATIO_ONLY !== '1') await studyFigures(data.dir, fresh(), repeats);
+    // seconds per subject-cell against seconds per single-run cell, alternating, median of 2: the study
+    // at 3 widths x 1 level x 1 repeat x 12 subjects (36 subject-cells), the single run at 3 widths x 12 repeats
     const perSubject: number[] = [], perRun: number[] = [];
     for (let i = 0; i < 2; i++) {
-      const s = measure(data.dir, fresh(), 1, true);
+      const s = measure(data.dir, fresh(), 1, true, 'ratio');
       perSubject.push(s.seconds / (s.cells * SUBJECTS));
-      const r = measure(data.dir, fresh(), 12, false);
+      const r = measure(data.dir, fresh(), 12, false, 'ratio');
       perRun.push(r.seconds / r.cells);
     }
     console.log(`bench study-subject-cell-seconds ${median(perSubject).toFixed(3)} s`);
@@ -124,6 +117,24 @@ export async function main(): Promise<void> {
   } finally {
     rmSync(scratch, { recursive: true, force: true });
     if (data.temp) rmSync(data.dir, { recursive: true, force: true });
+  }
+}
+
+/** The study sweep at full size (or BOLDSWEEP_STUDY_REPEATS repeats): time, memory, optima. */
+async function studyFigures(dataDir: string, cacheDir: string, repeats: number): Promise<void> {
+  const study = measure(dataDir, cacheDir, repeats, true);
+  console.log(`bench study-sweep-seconds ${study.seconds.toFixed(1)} s`);
+  console.log(`bench study-sweep-cpu-seconds ${study.cpuSeconds.toFixed(1)} s`);
+  console.log(`bench study-sweep-peak-x-run ${(study.maxRssBytes / study.runBytes).toFixed(2)} x`);
+  console.log(`bench study-sweep-peak-mb ${(study.maxRssBytes / 2 ** 20).toFixed(0)} MB`);
+  console.log(`bench study-sweep-subject-cells ${study.cells * SUBJECTS} (${WIDTHS.length} widths x ${LEVELS.length} levels x ${repeats} repeats x ${SUBJECTS} subjects)`);
+  if (study.designCorrelation !== null) console.log(`bench study-design-correlation-mean-abs ${study.designCorrelation.toFixed(3)}`);
+  if (study.optima) {
+    console.log(`bench study-optimum-single-run ${mmText(study.optima.singleRun.optimum)}`);
+    for (const l of study.optima.levels) {
+      console.log(`bench study-optimum-group-${l.levelMm}mm ${mmText(l.optimum)}`);
+      console.log(`bench study-optimum-wider-by-${l.levelMm}mm ${mmText(l.widerBy)}`);
+    }
   }
 }
 
