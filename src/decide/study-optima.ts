@@ -1,10 +1,11 @@
 import { createRng } from '../core/random.js';
 import type { Scorecard, ScorecardRow } from '../sweep/scorecard.js';
 import { curvePeak } from './curve-peak.js';
+import { EDGE_FRACTION, metricBounds } from './metric-bounds.js';
 
 /** An optimum width with its bootstrap interval. */
 export interface OptimumEstimate {
-  /** Peak of the mean curve (mm, or the varied key's unit); NaN when the curve is flat. */
+  /** Peak of the mean curve (mm, or the varied key's unit); NaN when the curve is flat or at the metric's floor. */
   value: number;
   /** 95 % percentile bootstrap interval over repeats [low, high] (NaN when undefined). */
   low: number;
@@ -16,6 +17,8 @@ export interface StudyLevelOptimum {
   levelMm: number;
   /** Mean group detection per width (same order as `widths`). */
   curve: number[];
+  /** The group map detected nothing at any width (the curve's best mean within EDGE_FRACTION of the metric's floor): no optimum. */
+  noDetection: boolean;
   optimum: OptimumEstimate;
   /** Group optimum minus single-run optimum, paired over repeats. */
   widerBy: OptimumEstimate;
@@ -33,7 +36,7 @@ export interface StudyOptima {
   plantAmplitudePct: number;
   repeats: number;
   /** The first subject's own run scored as a single run: mean over levels and repeats per width. */
-  singleRun: { curve: number[]; optimum: OptimumEstimate };
+  singleRun: { curve: number[]; optimum: OptimumEstimate; noDetection: boolean };
   levels: StudyLevelOptimum[];
   resamples: number;
 }
@@ -62,7 +65,9 @@ const LEVEL_KEY = 'study.misregistrationMm';
  * {@link curvePeak}), with 95 % percentile bootstrap intervals over repeats (Efron B 1979, Ann Stat
  * 7:1-26): repeats are resampled with replacement, the same ones for every width and level (the
  * levels of a repeat share its seeds), so the difference between the group and single-run optima is
- * a paired estimate.
+ * a paired estimate. A curve whose best mean lies at the metric's floor (nothing detected at any
+ * width, EDGE_FRACTION of the range) has no optimum (NaN, `noDetection`). With few repeats the
+ * bootstrap intervals are too narrow to trust (resampling 2 repeats gives 3 distinct curves).
  * @param card - a study sweep's scorecard (with the firstLevel columns)
  * @param options - metric, width key, plant condition, resamples, seed
  * @returns the curves, optima and differences; null when the scorecard is not a study's or has no numeric width
@@ -90,8 +95,14 @@ export function studyOptima(card: Scorecard, options: StudyOptimaOptions = {}): 
   const singleCurveOf = (pick: number[]) => widths.map((_, wi) => mean(levels.flatMap((_, li) => pick.map((ri) => single[li][wi][ri]))));
   const groupCurveOf = (li: number, pick: number[]) => widths.map((_, wi) => mean(pick.map((ri) => group[li][wi][ri])));
   const all = repeats.map((_, i) => i);
-  const singlePeak = curvePeak(widths, singleCurveOf(all));
-  const groupPeaks = levels.map((_, li) => curvePeak(widths, groupCurveOf(li, all)));
+  // a curve at the metric's floor everywhere has no optimum (its peak would be noise)
+  const bounds = metricBounds(metric);
+  const atFloor = (curve: number[]) => bounds !== null && !(Math.max(...curve.filter(Number.isFinite)) > bounds.floor + EDGE_FRACTION * (bounds.ceiling - bounds.floor));
+  const peak = (curve: number[]) => (atFloor(curve) ? NaN : curvePeak(widths, curve));
+  const singleNone = atFloor(singleCurveOf(all));
+  const groupNone = levels.map((_, li) => atFloor(groupCurveOf(li, all)));
+  const singlePeak = peak(singleCurveOf(all));
+  const groupPeaks = levels.map((_, li) => peak(groupCurveOf(li, all)));
   const resamples = options.resamples ?? 2000;
   const rng = createRng(options.seed ?? 1);
   const bootSingle: number[] = [];
@@ -99,19 +110,19 @@ export function studyOptima(card: Scorecard, options: StudyOptimaOptions = {}): 
   const bootDiff: number[][] = levels.map(() => []);
   for (let b = 0; b < resamples; b++) {
     const pick = all.map(() => rng.int(all.length));
-    const s = curvePeak(widths, singleCurveOf(pick));
+    const s = singleNone ? NaN : curvePeak(widths, singleCurveOf(pick));
     bootSingle.push(s);
     levels.forEach((_, li) => {
-      const g = curvePeak(widths, groupCurveOf(li, pick));
+      const g = groupNone[li] ? NaN : curvePeak(widths, groupCurveOf(li, pick));
       bootGroup[li].push(g);
       bootDiff[li].push(g - s);
     });
   }
   return {
     key, widths, metric, firstLevelMetric, plantSizeMm: size, plantAmplitudePct: amp, repeats: repeats.length, resamples,
-    singleRun: { curve: singleCurveOf(all), optimum: { value: singlePeak, ...percentiles(bootSingle) } },
+    singleRun: { curve: singleCurveOf(all), optimum: { value: singlePeak, ...percentiles(bootSingle) }, noDetection: singleNone },
     levels: levels.map((lv, li) => ({
-      levelMm: lv ?? 0, curve: groupCurveOf(li, all),
+      levelMm: lv ?? 0, curve: groupCurveOf(li, all), noDetection: groupNone[li],
       optimum: { value: groupPeaks[li], ...percentiles(bootGroup[li]) },
       widerBy: { value: groupPeaks[li] - singlePeak, ...percentiles(bootDiff[li]) },
     })),

@@ -98,7 +98,8 @@ export async function writeReport(dir: string, folder: SweepFolder, options: Rec
   const recCard = studyLevel === null ? result.scorecard : levelCard(result.scorecard, studyLevel);
   const recommendation = recommendSetting(recCard, { thresholdText: thr, ...options, prefer });
   const studyOpt = result.spec.study ? studyOptima(result.scorecard, { metric: recommendation.metric, plantSizeMm: recommendation.choice.plantSizeMm, plantAmplitudePct: recommendation.choice.plantAmplitudePct }) : null;
-  const study = result.spec.study && result.study ? studyText(result.spec, result.study, studyOpt, studyLevel ?? 0) : null;
+  const centreOpt = result.spec.study ? studyOptima(result.scorecard, { metric: 'centreStatisticMean', plantSizeMm: recommendation.choice.plantSizeMm, plantAmplitudePct: recommendation.choice.plantAmplitudePct }) : null;
+  const study = result.spec.study && result.study ? studyText(result.spec, result.study, studyOpt, studyLevel ?? 0, centreOpt) : null;
   if (study) recommendation.summary = `${study.question} ${recommendation.summary}`;
   const rough = roughSettings(folder);
   if (rough.length && (result.spec.threshold.kind === 'fwe-rft' || result.spec.threshold.kind === 'cluster')) {
