@@ -65,7 +65,7 @@ export {
 } from './register/index.js';
 
 // model
-export { hrfValues, buildDesign, fitGlm, fitGlmAr1, contrastMaps, estimateSmoothness } from './model/index.js';
+export { hrfValues, buildDesign, fitGlm, fitGlmAr1, contrastMaps, estimateSmoothness, oneSampleT } from './model/index.js';
 export {
   framewiseDisplacement, FD_SPHERE_RADIUS_MM, FD_CENSOR_THRESHOLD_MM, fdCensorVolumes, motionExpansion, motionRegressors, type MotionRegressorCount,
 } from './model/index.js';
@@ -79,17 +79,18 @@ export {
   type SweepSpec, type SweepSpecInput, parseSweepSpec, readSweepSpec, defaultSmoothingSpec, settingText,
   runSweep, type SweepResult, gatherResults, shareVolume, buildMask, maskFromFile, lineProgress, scorecardFrame,
   type Scorecard, applyLookToSpec, untreatedFindings,
+  groupLevelTest, studyRunPaths, type StudySpec, type StudyFacts,
 } from './sweep/index.js';
 
 // decide
-export { summariseScorecard, recommendSetting, parameterTradeoff, type Recommendation, type SettingSummary, type TradeoffGroup } from './decide/index.js';
+export { summariseScorecard, recommendSetting, parameterTradeoff, type Recommendation, type SettingSummary, type TradeoffGroup, studyOptima, type StudyOptima } from './decide/index.js';
 
 // report
 export {
   RESEARCH_CAUTION, renderSvg, threePlaneSvg, sliceGridSvg, voxelRasterSvg, lookPageHtml, tableHtml, lookTracesSpec, voxelTimeCourseSpec, chosenVoxels, maskCentre,
   writeLookFolder, detectionChart, falseAlarmChart, rocChart, smoothnessChart, tsnrChart, methodsText, methodsMarkdown,
   thresholdText, runFacts, writeReport, writeSweepFolder, readDecisionRecord, recordDir, rerunRecord, repeatedResamplingChart,
-  readLookFolder, starterSpecYaml, motionTableSpec, fdTraceSpec, edgeSignatureSpec,
+  readLookFolder, starterSpecYaml, motionTableSpec, fdTraceSpec, edgeSignatureSpec, studyWidthChart,
 } from './report/index.js';
 
 // the digital phantom

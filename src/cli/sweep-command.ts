@@ -15,6 +15,7 @@ import { gatherResults } from '../sweep/gather.js';
 import { buildMask, maskFromFile, type MaskSource } from '../sweep/mask-source.js';
 import { readSweepSpec } from '../sweep/read-sweep-spec.js';
 import { fewestDropped, runSweep } from '../sweep/runner.js';
+import { studyRunPaths } from '../sweep/study-run-paths.js';
 import { shareVolume } from '../sweep/shared-volume.js';
 import { terminalProgress } from '../sweep/terminal-progress.js';
 import { readMotionTable } from '../io/motion-table-tsv.js';
@@ -87,8 +88,10 @@ Example:
       const inputs = [runPath, o.mask, o.placement, o.exclude, o.events, o.sidecar, o.look, o.motionTable, o.fieldMap, ...(o.pePair?.split(',') ?? [])];
       checkOutputFolder(o.out, { force: o.force, inputs });
       let spec = readSweepSpec(o.spec);
+      const studyPaths = spec.study ? studyRunPaths(spec.study.runs, o.spec, runPath) : [];
+      inputs.push(...studyPaths);
       let run = await openRun(runPath, { sharedMemory: true, ...(o.events ? { events: o.events } : {}), ...(o.sidecar ? { sidecar: o.sidecar } : {}) });
-      if (spec.events.kind === 'run' && !run.events?.length) {
+      if (!spec.study && spec.events.kind === 'run' && !run.events?.length) {
         const expected = basename(siblingCandidates(runPath).events[0]);
         fail('EVENTS_MISSING', `the spec plants and models the run's own task timing, but ${o.events ? `${o.events} holds no events` : `there is no events file ${expected} beside ${basename(runPath)}`} (pass one with --events <file>)`);
       }
@@ -123,6 +126,10 @@ Example:
       // a field map on another grid is carried onto the run's through both affines (FIELD_MAP_NO_AFFINE without them)
       const fieldMapHz = o.fieldMap ? (await cliB0(runPath, run, { fieldMap: o.fieldMap, find: false }))!.fieldMapHz : null;
       const phaseEncodePair = o.pePair ? (await cliB0(runPath, run, { pePair: o.pePair, find: false }))!.pair : null;
+      // a study's further runs (spec study.runs: files or a BIDS folder), opened into shared memory
+      const studyRuns = [];
+      for (const p of studyPaths) studyRuns.push(await openRun(p, { sharedMemory: true }));
+      if (studyRuns.length) console.log(`study: ${1 + studyRuns.length} runs (this run and ${studyRuns.length} from study.runs)`);
       const brainMask = await buildMask(masks.brain, run.volume);
       const placementMask = await buildMask(masks.placement, run.volume, { brain: brainMask });
       const excludeMask = masks.exclude ? await buildMask(masks.exclude, run.volume) : undefined;
@@ -134,7 +141,7 @@ Example:
       const bar = o.progress ? terminalProgress() : null;
       let result;
       try {
-        result = await runSweep(run, spec, { workers: o.workers, shard: o.shard ?? null, cacheDir, brainMask, placementMask, excludeMask, motionTable, estimateMotion: o.estimateMotion, motionFromVolume: Math.max(steadyFrom, fewestDropped(spec)), fieldMapHz, phaseEncodePair, onProgress: bar?.update });
+        result = await runSweep(run, spec, { workers: o.workers, shard: o.shard ?? null, cacheDir, brainMask, placementMask, excludeMask, motionTable, estimateMotion: o.estimateMotion, motionFromVolume: Math.max(steadyFrom, fewestDropped(spec)), fieldMapHz, phaseEncodePair, onProgress: bar?.update, ...(studyRuns.length ? { studyRuns } : {}) });
       } finally {
         bar?.stop();
       }

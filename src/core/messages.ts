@@ -67,6 +67,12 @@ export const ERROR_ADVICE = {
   REGISTRATION_NOT_CONVERGED: 'The optimiser stopped without settling (iteration cap reached while the parameters still changed, or the cost rose). Check the two images show the same head (same run, not a blank or corrupted volume), give a brain mask, start nearer (initial parameters), or use more multi-resolution levels (e.g. [8, 4, 2, 1]) for a large displacement.',
   REGISTRATION_NO_OVERLAP: 'Too few fixed-image samples land inside the moving image: check both affines put the images in the same world space (same units, sform/qform), or start from a closer initial transform.',
   MOTION_REFERENCE_INVALID: "Give the reference as 'first', 'middle', 'mean', 'least-moving', or a 0-based volume index below the number of volumes.",
+  // study (group-level sweeps)
+  TOO_FEW_SUBJECTS: 'A group-level test needs at least 3 subjects, and 5 for the random-field rules (fwe-rft, cluster); set study.subjects accordingly (12 or more gives a steadier group map).',
+  STUDY_GRID_MISMATCH: 'Every run of a study must be on one grid (same dimensions, voxel size and voxel-to-world mapping): resample the runs onto one grid first, or give only the runs that share the first run\'s grid.',
+  STUDY_RUNS_MISSING: 'Give the study\'s runs as a list of NIfTI files or as a BIDS folder with a task name (every sub-*/func/*_task-<name>_bold.nii.gz); check the folder and the task name.',
+  MISREGISTRATION_TOO_LARGE: 'A misregistration SD that large moves activations outside the brain: state the residual misalignment after spatial normalisation (typically a few mm; 0, 3 and 6 mm span the usual range).',
+  STUDY_RULE_UNSUPPORTED: 'A study\'s group map is thresholded by fwe-rft, bonferroni, fdr, cluster or uncorrected; fwe-calibrated and null designs measure single-run noise and do not apply to a group map. Pick one of those rules and leave out threshold.nullDesigns.',
   // parallel work
   WORKER_SCRIPT_MISSING: 'Worker threads run compiled JavaScript: build the package first (npm run build) so the worker file exists under dist/.',
   KERNEL_MISSING: 'The WebAssembly kernels are compiled at build time: run npm run build (it writes dist/kernels/ from kernels/).',

@@ -5,3 +5,5 @@ export { recommendSetting, metricWords, STANDING_CAVEATS, type Recommendation, t
 export { parameterTradeoff, type TradeoffEntry, type TradeoffGroup, type TradeoffOptions } from './parameter-tradeoff.js';
 export { theoryBesideSimulation, type TheoryBesideSimulation, type TheoryRow } from './theory-beside-simulation.js';
 export { metricBounds, EDGE_FRACTION, type MetricBounds } from './metric-bounds.js';
+export { curvePeak } from './curve-peak.js';
+export { studyOptima, type StudyOptima, type StudyOptimaOptions, type StudyLevelOptimum, type OptimumEstimate } from './study-optima.js';

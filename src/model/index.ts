@@ -13,6 +13,7 @@ export { lag1Autocorrelation, ar1BiasTraces, correctAr1, prewhitenAr1 } from './
 export { contrastMaps, contrastWeights, type Contrast, type ContrastMaps } from './contrast.js';
 export { betaMap } from './beta-map.js';
 export { tToZ, Z_LIMIT } from './t-to-z.js';
+export { oneSampleT, type OneSampleT } from './one-sample-t.js';
 // smoothness, resels and thresholds
 export { estimateSmoothness, type SmoothnessEstimate, type SmoothnessOptions, type SmoothnessMethod } from './smoothness.js';
 export { fwhmFromDerivativeVariance, fwhmFromLag1, lag1FromFwhm } from './smoothness-formulas.js';

@@ -10,3 +10,4 @@ export { plantTimeCourses, type PlantTimeCourses, type PlantTimeCoursesOptions }
 export { posedBlobWeights } from './posed-blob-weights.js';
 export { posedBlobBox, type VoxelBox } from './posed-blob-box.js';
 export { truthOnGrid } from './truth-on-grid.js';
+export { blobTruth } from './blob-truth.js';

@@ -8,7 +8,8 @@ import { assertSameGrid, makeVolume, sameGrid, voxelsPerVolume, type Volume } fr
 import { posedBlobBox } from './posed-blob-box.js';
 import { posedBlobWeights } from './posed-blob-weights.js';
 import { placeCentres } from './plant-placement.js';
-import { blobProfile, blobSizeMm, blobSupportMm, checkBlobShape, type BlobShapeSpec } from './plant-profile.js';
+import { blobTruth } from './blob-truth.js';
+import { blobSizeMm, blobSupportMm, checkBlobShape, type BlobShapeSpec } from './plant-profile.js';
 
 /** Options of {@link plantActivations}. Sizes in mm, amplitude in percent of the voxel's baseline. */
 export interface PlantOptions {
@@ -56,6 +57,12 @@ export interface PlantOptions {
    * slice times. __Default value:__ none: every slice follows `timeCourse`
    */
   sliceTimeCourses?: readonly ArrayLike<number>[] | null;
+  /**
+   * Blob centres in (possibly fractional) voxel indices of the run's grid, one per blob, instead of
+   * drawing them (a study plants the group's blobs displaced per subject). `count` must equal their
+   * number; the placement mask, margin and separation are then not used. __Default value:__ drawn
+   */
+  centresVoxel?: readonly Vec3[] | null;
 }
 
 /** One planted activation. */
@@ -173,22 +180,13 @@ export function plantActivations(volume: Volume, options: PlantOptions): { volum
   if (acquisition?.sliceTimesSec && !sliceTimeCourses) fail('INVALID_ARGUMENT', 'the acquisition has slice times: pass sliceTimeCourses, one per slice (plantTimeCourses makes them)');
   const mask = placementMaskArray(options.placementMask, volume);
 
-  // 1. centres
+  // 1. centres (given, or drawn at random inside the mask)
   const rng = createRng(options.seed);
-  const centresVoxel = placeCentres(mask, volume.dims, volume.affine, { count, minDistanceMm: separation * sizeMm, marginMm, maxAttempts }, rng);
+  const centresVoxel = options.centresVoxel ? givenCentres(options.centresVoxel, count)
+    : placeCentres(mask, volume.dims, volume.affine, { count, minDistanceMm: separation * sizeMm, marginMm, maxAttempts }, rng);
 
   // 2. spatial profile and truth (reference frame)
-  const profile = new Float32Array(n);
-  const truthMask = new Uint8Array(n);
-  const blobs: PlantedBlob[] = centresVoxel.map((c) => {
-    const p = blobProfile([nx, ny, nz], volume.affine, c, spec);
-    const truthVoxels: number[] = [];
-    for (let m = 0; m < p.index.length; m++) {
-      profile[p.index[m]] += p.weight[m];
-      if (p.weight[m] >= truthFraction) { truthVoxels.push(p.index[m]); truthMask[p.index[m]] = 1; }
-    }
-    return { centreVoxel: c, centreMm: applyAffine(volume.affine, c), truthVoxels: Int32Array.from(truthVoxels) };
-  });
+  const { profile, mask: truthMask, blobs } = blobTruth([nx, ny, nz], volume.affine, centresVoxel, spec, truthFraction);
   const centresMm = blobs.map((b) => b.centreMm);
 
   // 3. add amplitude * baseline * weight_t * course (baseline = temporal mean of the input)
@@ -419,4 +417,11 @@ function placementMaskArray(mask: Volume | ArrayLike<number>, volume: Volume): A
 
 function isVolume(x: unknown): x is Volume {
   return typeof x === 'object' && x !== null && 'dims' in x && 'data' in x && 'affine' in x;
+}
+
+/** Given centres, checked: one per blob, finite. */
+function givenCentres(centres: readonly Vec3[], count: number): Vec3[] {
+  if (centres.length !== count) fail('INVALID_ARGUMENT', `centresVoxel gives ${centres.length} centres but count is ${count}`);
+  for (const c of centres) if (c.length !== 3 || !c.every(Number.isFinite)) fail('INVALID_ARGUMENT', `every centre must be three finite voxel positions, got [${c.join(', ')}]`);
+  return centres.map((c) => [c[0], c[1], c[2]]);
 }

@@ -17,6 +17,8 @@ export { writeLookFolder, lookSummaryJson, lookSeriesTsv } from './write-look-fo
 // sweep report: charts, recommendation text, methods, decision record, HTML
 export { metricChart, type MetricChartOptions } from './chart-metric.js';
 export { detectionChart, falseAlarmChart, tsnrChart, smoothnessChart, type SweepChartOptions } from './charts-sweep.js';
+export { studyWidthChart } from './study-chart.js';
+export { studyText, STUDY_REFERENCES, type StudyText } from './study-text.js';
 export { rocChart } from './charts-roc.js';
 export { repeatedResamplingChart, type ResamplingMeasure } from './charts-resampling.js';
 export { chartPoints, plantLabel, type ChartPoint } from './chart-data.js';

@@ -18,6 +18,11 @@ import { renderSvg } from './render-svg.js';
 import type { SweepFolder } from './sweep-folder.js';
 import { thresholdText } from './threshold-text.js';
 import { parameterLabel } from './chart-labels.js';
+import { studyOptima } from '../decide/study-optima.js';
+import { studyWidthChart } from './study-chart.js';
+import { studyText } from './study-text.js';
+import type { Scorecard } from '../sweep/scorecard.js';
+import { studyLevels, type SweepSpec } from '../sweep/spec.js';
 
 /** Files a report writes into its folder. */
 export const REPORT_FILES = ['report.html', 'methods.md', 'decision-record.json'] as const;
@@ -87,16 +92,26 @@ export async function writeReport(dir: string, folder: SweepFolder, options: Rec
   const thr = thresholdText(result.spec.threshold);
   // the simpler end of the varied values comes from the steps' own simplicity orders unless given
   const prefer = options.prefer ?? simplerEnd(result.spec) ?? undefined;
+  // a study answers the group question at one misregistration level: the spec's own when it is one
+  // of the levels, else the middle one (the other levels are compared in the study lines and chart)
+  const studyLevel = result.spec.study ? answerLevel(result.spec) : null;
+  const recCard = studyLevel === null ? result.scorecard : levelCard(result.scorecard, studyLevel);
   // named values (kernels, methods) have no smaller end: the steps' simplicity orders rank them
   const simplicity = options.prefer === undefined && prefer === undefined ? (s: Setting) => settingSimplicity(s, result.spec.recipe) : undefined;
-  const recommendation = recommendSetting(result.scorecard, { thresholdText: thr, simplicity, ...options, prefer });
+  const recommendation = recommendSetting(recCard, { thresholdText: thr, simplicity, ...options, prefer });
+  const studyOpt = result.spec.study ? studyOptima(result.scorecard, { metric: recommendation.metric, plantSizeMm: recommendation.choice.plantSizeMm, plantAmplitudePct: recommendation.choice.plantAmplitudePct }) : null;
+  const centreOpt = result.spec.study ? studyOptima(result.scorecard, { metric: 'centreStatisticMean', plantSizeMm: recommendation.choice.plantSizeMm, plantAmplitudePct: recommendation.choice.plantAmplitudePct }) : null;
+  const study = result.spec.study && result.study ? studyText(result.spec, result.study, studyOpt, studyLevel ?? 0, centreOpt) : null;
+  if (study) recommendation.summary = `${study.question} ${recommendation.summary}`;
   const rough = roughSettings(folder);
   if (rough.length && (result.spec.threshold.kind === 'fwe-rft' || result.spec.threshold.kind === 'cluster')) {
     recommendation.caveats.push(`At ${rough.join(', ')} the estimated noise smoothness is under 3 voxels FWHM, where the random-field threshold is far more conservative than its nominal level (the lattice is too rough for the continuous theory; Nichols & Hayasaka 2003). The sweep uses the Bonferroni value there when it is lower, but the threshold still falls hardest on the narrowest settings and so biases the choice towards wider kernels; the fwe-calibrated rule measures the threshold on this run's own noise instead.`);
   }
   const record = await buildDecisionRecord({ result, recommendation, run: folder.run, masks: folder.masks });
   const methods = methodsText(record);
+  if (study) { methods.paragraphs.push(study.methods); methods.references.push(...study.references.filter((r) => !methods.references.includes(r))); }
   const charts = await sweepCharts(folder, recommendation);
+  if (studyOpt) charts.unshift({ id: 'chart-study', title: 'Study', svg: await renderSvg(studyWidthChart(studyOpt)), caption: `Detection against ${parameterLabel(studyOpt.key)}: the group map at each misregistration level (colours) and one subject's own run (dashed grey, the single-run question). Misregistration blurs the group's activation, so its best width moves wider; diamonds and bars under the curves are each optimum and its 95 % bootstrap interval over repeats.` });
   const spec = result.spec;
   // the recipe as chosen: the varied parameters filled in with the chosen setting's values
   const chosenSetting = recommendation.choice.chosen.setting;
@@ -109,6 +124,7 @@ export async function writeReport(dir: string, folder: SweepFolder, options: Rec
       ? `Planted: ${spec.plant.count} ${spec.plant.shape} blobs per run; sizes ${spec.plant.sizesFwhmMm.join(', ')} mm; amplitudes ${spec.plant.amplitudesPct.join(', ')} %`
       : 'Planted: nothing (null sweep: every detection is a false alarm)',
     `Repeats: ${spec.repeats} plantings per setting; seed ${spec.seed}`,
+    ...(study ? study.lines : []),
     `Model: GLM${spec.model.ar1 ? ` with AR(1) prewhitening (autocorrelation ${spec.model.ar1SmoothFwhmMm > 0 ? `smoothed at ${spec.model.ar1SmoothFwhmMm} mm FWHM` : 'per voxel'})` : ' (OLS)'}${spec.model.highpassCutoffSec ? `, cosine drift cutoff ${spec.model.highpassCutoffSec} s` : ''}; threshold ${thr}`,
     // guidance a step computed for this run (the slice-time step: shift or model at this TR, aliased rhythms)
     ...[...new Set(record.stepNotes.map((n) => n.diagnostics.guidance).filter((g): g is string => typeof g === 'string'))].map((g) => `Guidance (${record.stepNotes.find((n) => n.diagnostics.guidance === g)!.step}): ${g}`),
@@ -150,4 +166,18 @@ function roughSettings(folder: SweepFolder): string[] {
     if (f !== undefined && Number.isFinite(f) && f < 3 * voxel && !seen.has(s.settingIndex)) seen.set(s.settingIndex, settingText(s.setting));
   }
   return [...seen.values()];
+}
+
+/** The misregistration level a study's recommendation answers: the spec's own value when it is a level, else the middle level. */
+function answerLevel(spec: SweepSpec): number {
+  const levels = studyLevels(spec);
+  return levels.includes(spec.study!.misregistrationMm) ? spec.study!.misregistrationMm : [...levels].sort((a, b) => a - b)[Math.floor((levels.length - 1) / 2)];
+}
+
+/** A study scorecard's rows at one misregistration level, with the level no longer a varied key. */
+function levelCard(card: Scorecard, levelMm: number): Scorecard {
+  const key = 'study.misregistrationMm';
+  if (!card.varied.includes(key)) return card;
+  const keep = card.rows.map((r, i) => (r[key] === levelMm ? i : -1)).filter((i) => i >= 0);
+  return { ...card, varied: card.varied.filter((k) => k !== key), rows: keep.map((i) => card.rows[i]), seconds: keep.map((i) => card.seconds[i]) };
 }

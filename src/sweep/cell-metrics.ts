@@ -17,3 +17,21 @@ export const SCORECARD_METRICS = [
 
 /** One metric column name. */
 export type ScorecardMetric = (typeof SCORECARD_METRICS)[number];
+
+/**
+ * The extra columns of a study's scorecard: the first subject's own run scored as a single-run sweep
+ * scores it (against its own planted blobs, at its own amplitude), beside the group map's columns, so
+ * one study sweep answers both questions on the same runs and widths.
+ */
+export const FIRST_LEVEL_METRICS = ['firstLevelHitRate', 'firstLevelBlobHitRate', 'firstLevelFalseClusters', 'firstLevelRocAuc', 'firstLevelCentreStatisticMean', 'firstLevelSmoothnessFwhmMm'] as const;
+
+/**
+ * The single-run metric a first-level column copies.
+ * @param column - a FIRST_LEVEL_METRICS name
+ * @returns the SCORECARD_METRICS name
+ * @example firstLevelSource('firstLevelHitRate') // 'hitRate'
+ */
+export function firstLevelSource(column: string): string {
+  const rest = column.replace(/^firstLevel/, '');
+  return rest.charAt(0).toLowerCase() + rest.slice(1);
+}

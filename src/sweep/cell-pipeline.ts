@@ -13,7 +13,7 @@ import { plantTimeCourses } from '../plant/plant-time-courses.js';
 import { acquisitionModel, type AcquisitionModel } from '../acquire/acquisition-model.js';
 import type { StepContext, StepNote } from '../steps/step-types.js';
 import type { Frame } from '../core/grid-frame.js';
-import { affineSpacing } from '../core/affine.js';
+import { affineSpacing, type Vec3 } from '../core/affine.js';
 import type { NuisanceRegressor } from '../model/design.js';
 import { getStep, parseStepParams } from '../steps/registry.js';
 import { maskOnGrid } from '../resample/mask-on-grid.js';
@@ -41,6 +41,10 @@ import { thresholdRftBonferroni } from '../model/threshold-rft-bonferroni.js';
 import type { BoldEvent } from '../io/run-types.js';
 import { randomBlockEvents } from './random-block-events.js';
 import { motionNuisance } from './motion-nuisance.js';
+import { studySubjects } from './study-subjects.js';
+import { FIRST_LEVEL_METRICS, firstLevelSource } from './cell-metrics.js';
+import { groupLevelTest } from './group-level-test.js';
+import { blobTruth } from '../plant/blob-truth.js';
 
 /*
  * One task of a sweep, in a worker thread or in the main thread (same code, same bytes):
@@ -155,14 +159,21 @@ function conditionOf(events: readonly BoldEvent[], group: CellGroup, trialType: 
   return types[0];
 }
 
+/** What a study subject plants: the group's blobs at the subject's displaced centres, at the subject's amplitude. */
+interface SubjectPlant {
+  centresVoxel: Vec3[];
+  amplitudePct: number;
+}
+
 /**
  * Plant into the raw run and run the recipe steps shared by every setting.
  * @param ctx - sweep context (shared run, masks, events)
  * @param group - which planting
  * @param trialType - condition to plant
+ * @param subject - a study subject's blob centres and amplitude (else drawn centres, the group's amplitude)
  * @returns the group stage
  */
-async function computeGroupStage(ctx: SweepContext, group: CellGroup, trialType: string): Promise<GroupStage> {
+async function computeGroupStage(ctx: SweepContext, group: CellGroup, trialType: string, subject?: SubjectPlant): Promise<GroupStage> {
   const raw = sharedRunVolume(ctx);
   const nt = raw.dims[3];
   const events = groupEvents(ctx, group);
@@ -173,7 +184,8 @@ async function computeGroupStage(ctx: SweepContext, group: CellGroup, trialType:
     const { timeCourse, sliceTimeCourses } = plantTimeCourses(events, nt, raw.trSec, { condition: trialType, sliceTimesSec: acquisition?.sliceTimesSec ?? null });
     const size = group.plant.shape === 'gaussian' ? { fwhmMm: group.plant.sizeMm } : { radiusMm: group.plant.sizeMm / 2 };
     ({ volume, truth } = plantActivations(raw, {
-      count: group.plant.count, shape: group.plant.shape, ...size, amplitudePct: group.plant.amplitudePct,
+      count: group.plant.count, shape: group.plant.shape, ...size, amplitudePct: subject?.amplitudePct ?? group.plant.amplitudePct,
+      ...(subject ? { centresVoxel: subject.centresVoxel } : {}),
       timeCourse, placementMask: ctx.placementMask, seed: group.plantSeed, separation: group.plant.separation,
       ...(group.plant.marginMm === null ? {} : { marginMm: group.plant.marginMm }),
       ...(acquisition ? { acquisition, sliceTimeCourses } : {}),
@@ -235,7 +247,7 @@ async function unplantedBase(ctx: SweepContext, group: CellGroup, context: StepC
  * the shared steps) and kept as base + patch when it can be, else written to the disk cache in disk
  * mode.
  */
-async function obtainStage(task: SweepTask, trialType: string): Promise<{ stage: HeldStage; how: CellResult['groupStage'] }> {
+async function obtainStage(task: SweepTask, trialType: string, subject?: SubjectPlant): Promise<{ stage: HeldStage; how: CellResult['groupStage'] }> {
   const ctx = task.context;
   const toHeld = (s: GroupStage, voxels: HeldStage['voxels']): HeldStage => {
     const { data: _data, ...geometry } = s.volume;
@@ -251,7 +263,7 @@ async function obtainStage(task: SweepTask, trialType: string): Promise<{ stage:
     releaseWorkBuffer();
     release();
   }
-  const stage = await computeGroupStage(ctx, task.group, trialType);
+  const stage = await computeGroupStage(ctx, task.group, trialType, subject);
   // nothing planted and only volumes selected: the stage is the shared run itself
   if (sharesMemory(stage.volume.data, ctx.run.data)) return { stage: toHeld(stage, { whole: stage.volume.data }), how: 'computed' };
   const base = await unplantedBase(ctx, task.group, initialContext(ctx, groupEvents(ctx, task.group)));
@@ -373,10 +385,11 @@ function cellFit(events: readonly BoldEvent[], volume: Volume, ctx: SweepContext
 }
 
 /**
- * Model, threshold and score one preprocessed run.
- * @returns metrics, ROC samples
+ * The first-level model of one preprocessed run: its frame's masks, the design, the GLM (residuals
+ * written over the work buffer when the run is that buffer) and the contrast maps of the tested
+ * condition. The preprocessed run is let go (holder.volume = null) once the fit has read it.
  */
-function modelAndScore(holder: { volume: Volume | null }, context: StepContext, plantedTruth: PlantTruth, ctx: SweepContext, cell: CellPlan, trialType: string, regressors: readonly NuisanceRegressor[]): { metrics: Record<string, number | null>; tpr: number[]; residualsInWork: boolean } {
+function fitCellModel(holder: { volume: Volume | null }, context: StepContext, ctx: SweepContext, cell: CellPlan, trialType: string, regressors: readonly NuisanceRegressor[], keepResiduals: boolean): { fit: ReturnType<typeof fitGlm>; maps: ReturnType<typeof contrastMaps>; brain: Uint8Array; scoreMask: Uint8Array; frame: Frame; grid: { dims: number[]; spacingMm: number[] }; residualsInWork: boolean } {
   let volume = holder.volume!;
   // the cell's frame: on a target grid the masks and the truth are carried onto it
   const frame: Frame = context.frame ?? { kind: 'raw' };
@@ -387,14 +400,12 @@ function modelAndScore(holder: { volume: Volume | null }, context: StepContext, 
     }
   }
   const { brain, score: scoreMask } = masksInFrame(ctx, frame);
-  const truth = truthInFrame(plantedTruth, frame);
-
   const events = context.events!;
   // when the preprocessed run is this thread's work buffer (rebuilt by the next cell anyway), the
   // residuals overwrite it: no run-sized array of the cell's own
   const work = currentWorkBuffer();
-  const residualsInWork = work !== null && sharesMemory(work, volume.data) && work.length === volume.data.length;
-  const glmOptions = { mask: brain, keepResiduals: true, residualsOut: residualsInWork ? volume.data : undefined };
+  const residualsInWork = keepResiduals && work !== null && sharesMemory(work, volume.data) && work.length === volume.data.length;
+  const glmOptions = { mask: brain, keepResiduals, residualsOut: residualsInWork ? volume.data : undefined };
   const fit = cellFit(events, volume, ctx, cell.model, regressors, context, glmOptions);
   // the preprocessed run is not needed any more: let it go before the residuals are used
   // voxel sizes of a target grid come from its affine (the step's spacingMm should agree)
@@ -402,6 +413,34 @@ function modelAndScore(holder: { volume: Volume | null }, context: StepContext, 
   holder.volume = null;
   volume = null as unknown as Volume;
   const maps = contrastMaps(fit, { [trialType]: 1 }, { name: trialType });
+  return { fit, maps, brain, scoreMask, frame, grid, residualsInWork };
+}
+
+/**
+ * A cell's scorecard metrics from its score row and threshold: the row's numbers, the family-wise
+ * error (any false cluster), the false discovery proportion, the centre margin, the smoothness.
+ */
+function cellMetrics(score: ReturnType<typeof scoreDetection>, threshold: number, fwhmMm: readonly number[], dof: number): Record<string, number | null> {
+  const [fx, fy, fz] = fwhmMm;
+  const metrics: Record<string, number | null> = {};
+  for (const [k, v] of Object.entries(score)) if (typeof v === 'number') metrics[k] = finite(v);
+  Object.assign(metrics, {
+    familyWiseError: score.falseClusters > 0 ? 1 : 0,
+    falseDiscoveryProportion: score.survivorVoxels > 0 ? score.falsePositiveVoxels / score.survivorVoxels : 0,
+    centreMargin: finite(score.centreStatisticMean - threshold),
+    threshold: finite(threshold),
+    smoothnessFwhmMm: finite(Math.cbrt(fx * fy * fz)), smoothnessXMm: finite(fx), smoothnessYMm: finite(fy), smoothnessZMm: finite(fz), dof,
+  });
+  return metrics;
+}
+
+/**
+ * Model, threshold and score one preprocessed run.
+ * @returns metrics, ROC samples
+ */
+function modelAndScore(holder: { volume: Volume | null }, context: StepContext, plantedTruth: PlantTruth, ctx: SweepContext, cell: CellPlan, trialType: string, regressors: readonly NuisanceRegressor[]): { metrics: Record<string, number | null>; tpr: number[]; residualsInWork: boolean; effectPct: Float32Array; frame: Frame; grid: { dims: number[]; spacingMm: number[] } } {
+  const { fit, maps, brain, scoreMask, frame, grid, residualsInWork } = fitCellModel(holder, context, ctx, cell, trialType, regressors, true);
+  const truth = truthInFrame(plantedTruth, frame);
   const smooth = estimateSmoothness(fit.residuals!.data, fit.residuals!.dims, brain, grid.spacingMm, { dof: fit.dof });
   fit.residuals = null;
   const thr = applyThresholdRule(maps.t.data, brain, grid.dims, ctx.threshold, { kind: 't', dof: maps.dof }, smooth.fwhmMm, grid.spacingMm, ctx.nullMaxima?.[cell.settingIndex]);
@@ -409,17 +448,7 @@ function modelAndScore(holder: { volume: Volume | null }, context: StepContext, 
   const curve = hasBothClasses(truth.mask, scoreMask) ? rocCurve(maps.t.data, truth.mask, scoreMask) : undefined;
   const score = scoreDetection({ statistic: maps.t, survivors: thr.survivors, truth, brainMask: scoreMask, effectPct: maps.percentSignalChange, threshold: thr.threshold, thresholdMethod: thr.rule, rocCurve: curve });
   const tpr = score.truthVoxels > 0 && curve ? tprAtFpr(curve.fpr, curve.tpr, DEFAULT_FPR_GRID) : [];
-  const [fx, fy, fz] = smooth.fwhmMm;
-  const metrics: Record<string, number | null> = {};
-  for (const [k, v] of Object.entries(score)) if (typeof v === 'number') metrics[k] = finite(v);
-  Object.assign(metrics, {
-    familyWiseError: score.falseClusters > 0 ? 1 : 0,
-    falseDiscoveryProportion: score.survivorVoxels > 0 ? score.falsePositiveVoxels / score.survivorVoxels : 0,
-    centreMargin: finite(score.centreStatisticMean - thr.threshold),
-    threshold: finite(thr.threshold),
-    smoothnessFwhmMm: finite(Math.cbrt(fx * fy * fz)), smoothnessXMm: finite(fx), smoothnessYMm: finite(fy), smoothnessZMm: finite(fz), dof: maps.dof,
-  });
-  return { metrics, tpr, residualsInWork };
+  return { metrics: cellMetrics(score, thr.threshold, smooth.fwhmMm, maps.dof), tpr, residualsInWork, effectPct: maps.percentSignalChange.data, frame, grid };
 }
 
 /**
@@ -445,34 +474,15 @@ function stepRegressor(r: NuisanceRegressor, nt: number): NuisanceRegressor {
  * @example const results = await runSweepTask(task)
  */
 export async function runSweepTask(task: SweepTask, onCell?: (done: number) => void): Promise<CellResult[]> {
+  if (task.group.study) return runStudyTask(task, onCell);
   const ctx = task.context;
   const trialType = conditionOf(groupEvents(ctx, task.group), task.group, task.cells[0]?.model.trialType ?? null);
   const out: CellResult[] = [];
-  let held: HeldStage | null = null;
+  const holding: { held: HeldStage | null } = { held: null };
   for (const cell of task.cells) {
     const t0 = performance.now();
-    let how: CellResult['groupStage'] = 'memory';
-    let stage: HeldStage | null = held;
-    if (!stage) ({ stage, how } = await obtainStage(task, trialType));
-    held = ctx.stageMode !== 'none' && keepBetweenCells(stage, ctx) ? stage : null;
-    let volume: Volume | null = stageVolume(stage);
-    let context = stage.context;
-    const notes = [...stage.notes];
-    const regressors = [...stage.regressors];
-    const truth = stage.truth;
-    stage = null;
-    for (let i = 0; i < cell.suffix.length; i++) {
-      const input: Float32Array = volume!.data;
-      const r = await runStepIntoWork(cell.suffix[i], volume!, context, estimateOf(ctx, cell.suffixEstimates[i]));
-      volume = r.volume;
-      context = r.context;
-      notes.push(r.note);
-      regressors.push(...r.regressors);
-      // the step's input, when nothing else keeps it (a whole stage computed for this cell alone)
-      if (!keptElsewhere(input, [ctx.run.data, volume.data, ...(held && 'whole' in held.voxels ? [held.voxels.whole] : [])])) release();
-    }
+    const { volume, context, notes, regressors, truth, how } = await preprocessCell(task, cell, trialType, holding);
     const holder = { volume };
-    volume = null;
     const { metrics, tpr, residualsInWork } = modelAndScore(holder, context, truth, ctx, cell, trialType, regressors);
     const result: CellResult = { key: cell.key, metrics, tpr, notes, seconds: (performance.now() - t0) / 1000, groupStage: how };
     if (ctx.cacheDir) await writeCachedCell(ctx.cacheDir, result);
@@ -484,6 +494,133 @@ export async function runSweepTask(task: SweepTask, onCell?: (done: number) => v
     onCell?.(out.length);
   }
   return out;
+}
+
+/**
+ * One cell's preprocessed run: the task's group stage (held from the previous cell, or computed or
+ * read from the cache), then this setting's steps, written into the thread's work buffer.
+ * @param task - the task (its context and group; for a study subject, the subject's own)
+ * @param cell - the cell
+ * @param trialType - the planted condition
+ * @param holding - the stage kept between the task's cells (updated)
+ * @param subject - a study subject's planting
+ */
+async function preprocessCell(task: SweepTask, cell: CellPlan, trialType: string, holding: { held: HeldStage | null }, subject?: SubjectPlant): Promise<{ volume: Volume; context: StepContext; notes: StepNote[]; regressors: NuisanceRegressor[]; truth: PlantTruth; how: CellResult['groupStage'] }> {
+  const ctx = task.context;
+  let how: CellResult['groupStage'] = 'memory';
+  let stage: HeldStage | null = holding.held;
+  if (!stage) ({ stage, how } = await obtainStage(task, trialType, subject));
+  const held = ctx.stageMode !== 'none' && keepBetweenCells(stage, ctx) ? stage : null;
+  holding.held = held;
+  let volume: Volume = stageVolume(stage);
+  let context = stage.context;
+  const notes = [...stage.notes];
+  const regressors = [...stage.regressors];
+  const truth = stage.truth;
+  stage = null;
+  for (let i = 0; i < cell.suffix.length; i++) {
+    const input: Float32Array = volume.data;
+    const r = await runStepIntoWork(cell.suffix[i], volume, context, estimateOf(ctx, cell.suffixEstimates[i]));
+    volume = r.volume;
+    context = r.context;
+    notes.push(r.note);
+    regressors.push(...r.regressors);
+    // the step's input, when nothing else keeps it (a whole stage computed for this cell alone)
+    if (!keptElsewhere(input, [ctx.run.data, volume.data, ...(held && 'whole' in held.voxels ? [held.voxels.whole] : [])])) release();
+  }
+  return { volume, context, notes, regressors, truth, how };
+}
+
+/** Trial type of a study subject's random block design. */
+const STUDY_TRIAL_TYPE = 'study-task';
+
+/**
+ * One task of a study: for each simulated subject (its run, its random block design, the group's
+ * blobs displaced by its misregistration, its amplitude), plant, run the shared steps once, then for
+ * each cell of the task its setting's steps and the first-level model, keeping the subject's effect
+ * estimate (percent signal change) per cell. Then per cell the group level (one-sample t across
+ * subjects, threshold rule of the spec, smoothness from the group's residuals), scored against the
+ * group's blobs at their undisplaced positions. Cells are cached as a single-run sweep's are.
+ * @param task - the cells of one study group and the shared context
+ * @param onCell - called after each cell
+ * @returns one result per cell, in the task's order
+ */
+async function runStudyTask(task: SweepTask, onCell?: (done: number) => void): Promise<CellResult[]> {
+  const ctx = task.context;
+  const group = task.group;
+  const study = group.study!;
+  const runs = [{ run: ctx.run, sidecar: ctx.sidecar }, ...(ctx.studyRuns ?? [])];
+  const grid = { dims: ctx.run.dims.slice(0, 3), affine: Float64Array.from(ctx.run.affine) };
+  const { groupCentresVoxel, subjects } = studySubjects(group, grid, ctx.placementMask, runs.length);
+  const effects: Float32Array[][] = task.cells.map(() => []);
+  const frames: Frame[] = [];
+  const grids: Array<{ dims: number[]; spacingMm: number[] }> = [];
+  const notesOf: StepNote[][] = [];
+  const secondsOf = task.cells.map(() => 0);
+  const firstLevel: Array<Record<string, number | null>> = [];
+  for (const subject of subjects) {
+    const own = runs[subject.runIndex];
+    const subjectTask: SweepTask = {
+      ...task,
+      // the subject's run and design; its stage is held in memory for its cells only
+      context: { ...ctx, run: own.run, sidecar: own.sidecar, stageMode: ctx.stageMode === 'none' ? 'none' : 'memory' },
+      group: { ...group, events: { kind: 'random-blocks', ...study.design, trialType: STUDY_TRIAL_TYPE }, eventsSeed: subject.designSeed, key: stableHash({ group: group.key, subject: subject.index }) },
+    };
+    const holding: { held: HeldStage | null } = { held: null };
+    for (let c = 0; c < task.cells.length; c++) {
+      const t0 = performance.now();
+      const cell = task.cells[c];
+      const plantIt: SubjectPlant = { centresVoxel: subject.centresVoxel, amplitudePct: subject.amplitudePct };
+      const { volume, context, notes, regressors, truth } = await preprocessCell(subjectTask, cell, STUDY_TRIAL_TYPE, holding, plantIt);
+      const holder = { volume: volume as Volume | null };
+      if (subject.index === 0) {
+        // the first subject is also scored as a single run against its own planted blobs: the
+        // single-run question's answer on the same runs, widths and plantings
+        const one = modelAndScore(holder, context, truth, subjectTask.context, cell, STUDY_TRIAL_TYPE, regressors);
+        effects[c].push(one.effectPct);
+        frames[c] = one.frame; grids[c] = one.grid; notesOf[c] = notes;
+        firstLevel[c] = Object.fromEntries(FIRST_LEVEL_METRICS.map((m) => [m, one.metrics[firstLevelSource(m)] ?? null]));
+      } else {
+        const { maps } = fitCellModel(holder, context, subjectTask.context, cell, STUDY_TRIAL_TYPE, regressors, false);
+        effects[c].push(maps.percentSignalChange.data);
+      }
+      secondsOf[c] += (performance.now() - t0) / 1000;
+    }
+    holding.held = null;
+    release();
+  }
+  const out: CellResult[] = [];
+  for (let c = 0; c < task.cells.length; c++) {
+    const t0 = performance.now();
+    const cell = task.cells[c];
+    const truth = truthInFrame(groupTruth(group, grid, ctx.run.spacingMm, groupCentresVoxel), frames[c]);
+    const { brain, score: scoreMask } = masksInFrame(ctx, frames[c]);
+    const g = groupLevelTest(effects[c], brain, grids[c].dims, grids[c].spacingMm, ctx.threshold);
+    effects[c] = [];
+    const curve = hasBothClasses(truth.mask, scoreMask) ? rocCurve(g.t, truth.mask, scoreMask) : undefined;
+    const statistic = makeVolume({ dims: [grids[c].dims[0], grids[c].dims[1], grids[c].dims[2], 1], spacingMm: [grids[c].spacingMm[0], grids[c].spacingMm[1], grids[c].spacingMm[2]], trSec: 0, affine: truth.affine, data: g.t });
+    const score = scoreDetection({ statistic, survivors: g.survivors, truth, brainMask: scoreMask, effectPct: g.meanEffect, threshold: g.threshold, thresholdMethod: g.rule, rocCurve: curve });
+    const tpr = score.truthVoxels > 0 && curve ? tprAtFpr(curve.fpr, curve.tpr, DEFAULT_FPR_GRID) : [];
+    const result: CellResult = { key: cell.key, metrics: { ...cellMetrics(score, g.threshold, g.fwhmMm, g.dof), ...firstLevel[c] }, tpr, notes: notesOf[c], seconds: secondsOf[c] + (performance.now() - t0) / 1000, groupStage: 'computed' };
+    if (ctx.cacheDir) await writeCachedCell(ctx.cacheDir, result);
+    out.push(result);
+    if (ctx.progress) Atomics.add(ctx.progress, task.index, 1);
+    onCell?.(out.length);
+  }
+  return out;
+}
+
+/** The group's truth: its blobs at their undisplaced centres, at the group amplitude, on the run's grid. */
+function groupTruth(group: CellGroup, grid: { dims: number[]; affine: Float64Array }, spacingMm: readonly number[], centresVoxel: Vec3[]): PlantTruth {
+  const p = group.plant;
+  // a sphere's edge as planting gives it by default: the smallest voxel spacing
+  const shape: PlantTruth['shape'] = p.shape === 'gaussian' ? { shape: 'gaussian', fwhmMm: p.sizeMm } : { shape: 'sphere', radiusMm: p.sizeMm / 2, edgeMm: Math.min(...spacingMm) };
+  const { profile, mask, blobs } = blobTruth(grid.dims, grid.affine, centresVoxel, shape, 0.5);
+  return {
+    dims: [grid.dims[0], grid.dims[1], grid.dims[2]], affine: new Float64Array(grid.affine), shape, sizeMm: p.sizeMm, amplitudePct: p.amplitudePct,
+    truthFraction: 0.5, seed: group.plantSeed, mask, profile, timeCourse: new Float64Array([1]),
+    centresMm: blobs.map((b) => b.centreMm), centresVoxel: blobs.map((b) => b.centreVoxel), blobs,
+  };
 }
 
 /**

@@ -37,6 +37,7 @@ export function parseSweepSpec(input: SweepSpecInput | SweepSpec | unknown): Swe
     const dot = key.indexOf('.');
     const head = key.slice(0, dot);
     const param = key.slice(dot + 1);
+    if (head === 'study') continue; // checked with the study section (spec.ts)
     if (head === 'model') {
       if (!(MODEL_OPTIONS as readonly string[]).includes(param)) fail('UNKNOWN_PARAMETER', `vary key "${key}": the model has no option '${param}'; its options are ${MODEL_OPTIONS.join(', ')}`, { details: { known: [...MODEL_OPTIONS] } });
       const modelSchema = (sweepSpecSchema.shape.model as unknown as z.ZodDefault<z.ZodObject<z.ZodRawShape>>).removeDefault();

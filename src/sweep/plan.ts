@@ -1,7 +1,7 @@
 import { childSeed } from '../core/child-seed.js';
 import { getStep } from '../steps/registry.js';
 import { settingsGrid, type Setting } from './settings-grid.js';
-import type { RecipeStep, SweepSpec } from './spec.js';
+import { studyLevels, type RecipeStep, type SweepSpec } from './spec.js';
 import { stableHash } from './stable-hash.js';
 
 /** Bump when what a cached stage or cell holds changes, so old caches are never reused. */
@@ -15,6 +15,17 @@ export interface PlantCondition {
   count: number;
   marginMm: number | null;
   separation: number;
+}
+
+/** A study group's subjects: everything a task needs to simulate them (the runs are in the context). */
+export interface StudyGroup {
+  subjects: number;
+  /** SD (mm, per axis) of each subject's displacement of each blob, this group's level. */
+  misregistrationMm: number;
+  /** SD of a subject's amplitude as a fraction of the group amplitude. */
+  amplitudeSpread: number;
+  /** Each subject's random block design. */
+  design: { onSec: number; offMinSec: number; offMaxSec: number };
 }
 
 /**
@@ -38,6 +49,8 @@ export interface CellGroup {
   prefixEstimates: Array<string | null>;
   /** Cache key of the group's output (hash of run, mask, planting and prefix steps). */
   key: string;
+  /** A study's subjects at one misregistration level (absent for a single-run sweep). */
+  study?: StudyGroup;
 }
 
 /** One cell: a setting applied to one group's output, then modelled and scored. */
@@ -142,25 +155,35 @@ export function planSweep(spec: SweepSpec, inputs: PlanInputs, estimateHashes: R
   const prefixEstimates = (estimateKeys[0] ?? []).slice(0, splitAt);
   const groups: CellGroup[] = [];
   const cells: CellPlan[] = [];
+  // a study plants each repeat once per misregistration level (same seeds: the levels are paired)
+  const levels: Array<number | null> = spec.study ? studyLevels(spec) : [null];
   for (let p = 0; p < plants.length; p++) {
-    for (let r = 0; r < spec.repeats; r++) {
-      const plantSeed = childSeed(spec.seed, 'plant', r);
-      const eventsSeed = childSeed(spec.seed, 'events', r);
-      const g: CellGroup = {
-        index: groups.length, plantIndex: p, plant: plants[p], repeat: r, plantSeed, prefix, prefixEstimates, events: spec.events, eventsSeed,
-        key: stableHash({ format: CACHE_FORMAT, stage: 'group', inputs, plant: plants[p], plantSeed, prefix: keyed(prefix), estimates: hashesOf(prefixEstimates), model: { trialType: spec.model.trialType }, events: spec.events, eventsSeed: spec.events.kind === 'run' ? null : eventsSeed }),
-      };
-      groups.push(g);
-      settings.forEach((setting, s) => {
-        const suffix = applySetting(spec.recipe.slice(splitAt), setting);
-        const suffixEstimates = estimateKeys[s].slice(splitAt);
-        const model = { ...spec.model };
-        for (const [k, v] of Object.entries(setting)) if (k.startsWith('model.')) (model as Record<string, unknown>)[k.slice(6)] = v;
-        cells.push({
-          index: cells.length, group: g.index, settingIndex: s, setting, suffix, suffixEstimates, model,
-          key: stableHash({ format: CACHE_FORMAT, stage: 'cell', group: g.key, suffix: keyed(suffix), estimates: hashesOf(suffixEstimates), model, threshold: spec.threshold }),
+    for (const level of levels) {
+      for (let r = 0; r < spec.repeats; r++) {
+        const plantSeed = childSeed(spec.seed, 'plant', r);
+        const eventsSeed = childSeed(spec.seed, 'events', r);
+        const study: StudyGroup | undefined = spec.study && level !== null
+          ? { subjects: spec.study.subjects, misregistrationMm: level, amplitudeSpread: spec.study.amplitudeSpread, design: { ...spec.study.design } }
+          : undefined;
+        const g: CellGroup = {
+          index: groups.length, plantIndex: p, plant: plants[p], repeat: r, plantSeed, prefix, prefixEstimates, events: spec.events, eventsSeed,
+          key: stableHash({ format: CACHE_FORMAT, stage: 'group', inputs, plant: plants[p], plantSeed, prefix: keyed(prefix), estimates: hashesOf(prefixEstimates), model: { trialType: spec.model.trialType }, events: spec.events, eventsSeed: spec.events.kind === 'run' ? null : eventsSeed, ...(study ? { study } : {}) }),
+          ...(study ? { study } : {}),
+        };
+        groups.push(g);
+        settings.forEach((setting, s) => {
+          // a study's cells of this level only
+          if (level !== null && 'study.misregistrationMm' in setting && setting['study.misregistrationMm'] !== level) return;
+          const suffix = applySetting(spec.recipe.slice(splitAt), setting);
+          const suffixEstimates = estimateKeys[s].slice(splitAt);
+          const model = { ...spec.model };
+          for (const [k, v] of Object.entries(setting)) if (k.startsWith('model.')) (model as Record<string, unknown>)[k.slice(6)] = v;
+          cells.push({
+            index: cells.length, group: g.index, settingIndex: s, setting, suffix, suffixEstimates, model,
+            key: stableHash({ format: CACHE_FORMAT, stage: 'cell', group: g.key, suffix: keyed(suffix), estimates: hashesOf(suffixEstimates), model, threshold: spec.threshold }),
+          });
         });
-      });
+      }
     }
   }
   const tsnr = settings.map((setting, settingIndex) => {

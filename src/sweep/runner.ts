@@ -12,7 +12,7 @@ import { childSeed } from '../core/child-seed.js';
 import { NULL_DESIGN, nullDesignCount } from './spec.js';
 import { randomBlockEvents } from './random-block-events.js';
 import { collectGarbage } from './collect-garbage.js';
-import { SCORECARD_METRICS } from './cell-metrics.js';
+import { FIRST_LEVEL_METRICS, SCORECARD_METRICS } from './cell-metrics.js';
 import { DEFAULT_FPR_GRID, type CurveTable } from '../score/curve-table.js';
 import { planSweep, type CellPlan, type SweepPlan } from './plan.js';
 import type { SweepProgress } from './progress.js';
@@ -30,6 +30,9 @@ import { stableHash } from './stable-hash.js';
 import { readCachedCell, readCachedEstimate, readCachedTsnr, removeGroupStage } from './stage-cache.js';
 import { releaseWorkBuffer } from './work-buffer.js';
 import { releaseVoxelSumsKernels } from '../look/voxel-sums-wasm.js';
+import { studyDesignCorrelation, type StudyDesignCorrelation } from './study-design-correlation.js';
+import { studyLevels } from './spec.js';
+import { studyDesignSeed } from './study-design-seed.js';
 
 /**
  * The cell pipeline, loaded only when tasks run in this thread: with worker threads the main thread
@@ -122,6 +125,12 @@ export interface SweepOptions {
   /** Keep group stages on disk after their cells are done. __Default value:__ false */
   keepStages?: boolean;
   /**
+   * A study's runs beyond `run` (same grid), for a spec with a study section: subject s plants into
+   * run s mod R of [run, ...studyRuns] (openStudyRuns opens a list of files or a BIDS folder).
+   * __Default value:__ none (every subject uses `run`)
+   */
+  studyRuns?: SweepRunInput[];
+  /**
    * Reuse each planting (and the steps before the varied one) across settings. false recomputes them
    * for every cell: only useful to measure what reuse saves. __Default value:__ true
    */
@@ -158,6 +167,19 @@ export interface SweepResult {
   nullCalibration?: NullCalibration[];
   /** Where the motion table planting and the model used came from (absent when the sweep had none). */
   motion?: { source: 'given' | 'estimated'; method: string; seconds: number; fromCache: boolean; table: MotionRow[] };
+  /** A study's facts (absent for a single-run sweep). */
+  study?: StudyFacts;
+}
+
+/** What a study sweep reports about its subjects besides the scorecard. */
+export interface StudyFacts {
+  subjects: number;
+  /** Runs the subjects cycle through. */
+  runs: number;
+  /** Misregistration SDs (mm) of the groups. */
+  levelsMm: number[];
+  /** Correlation of the noise projections of subjects who share a run (all repeats of the first plant condition). */
+  designCorrelation: StudyDesignCorrelation;
 }
 
 /**
@@ -246,18 +268,22 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
   if (volume.dims[3] < 2) fail('NOT_4D', `a sweep needs a 4D run, got ${volume.dims[3]} volume`);
   if (!(volume.trSec > 0)) fail('TR_MISSING', 'the run has no repetition time');
   const events = run.events ?? [];
-  if (spec.events.kind === 'run' && events.length === 0) fail('EVENTS_INVALID', 'a sweep needs the run\'s events (task timing) to plant activations and build the model; none were given (or set the spec\'s events to a random block design)');
+  if (!spec.study && spec.events.kind === 'run' && events.length === 0) fail('EVENTS_INVALID', 'a sweep needs the run\'s events (task timing) to plant activations and build the model; none were given (or set the spec\'s events to a random block design)');
 
   // 2. masks and hashes
   const n = voxelsPerVolume(volume);
-  const brainMask = options.brainMask ?? brainMaskFromMean(meanImage(volume), volume.dims.slice(0, 3)).mask;
+  const studyRuns = spec.study ? checkStudyRuns(volume, options.studyRuns ?? [], options) : [];
+  // a study's brain mask: where every run has brain (the voxels a group analysis keeps)
+  const brainMask = options.brainMask ?? [volume, ...studyRuns.map((r) => r.volume)].map((v) => brainMaskFromMean(meanImage(v), v.dims.slice(0, 3)).mask)
+    .reduce((a, b) => { for (let v = 0; v < a.length; v++) a[v] = a[v] && b[v] ? 1 : 0; return a; });
+  if (spec.study) checkMisregistration(studyLevels(spec), brainMask, volume);
   if (brainMask.length !== n) fail('GRID_MISMATCH', `brain mask has ${brainMask.length} voxels, the run has ${n} per volume`);
   const exclude = options.excludeMask ?? null;
   if (exclude && exclude.length !== n) fail('GRID_MISMATCH', `exclusion mask has ${exclude.length} voxels, the run has ${n} per volume`);
   const placementMask = without(options.placementMask ?? brainMask, exclude);
   if (placementMask.length !== n) fail('GRID_MISMATCH', `placement mask has ${placementMask.length} voxels, the run has ${n} per volume`);
   const scoreMask = without(brainMask, exclude);
-  const runHash = volumeHash(volume);
+  const runHash = studyRuns.length ? stableHash({ runs: [volume, ...studyRuns.map((r) => r.volume)].map(volumeHash) }) : volumeHash(volume);
   const sha = (a: Uint8Array) => createHash('sha256').update(a).digest('hex');
   const fieldMapHz = options.fieldMapHz ?? null;
   if (fieldMapHz && fieldMapHz.length !== n) fail('GRID_MISMATCH', `field map has ${fieldMapHz.length} voxels, the run has ${n} per volume`);
@@ -298,11 +324,18 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
   // masks go to worker threads in shared memory (made once, shared by every task)
   const masks = options.inThisThread ? { brainMask, placementMask, scoreMask } : { brainMask: sharedBytes(brainMask), placementMask: sharedBytes(placementMask), scoreMask: sharedBytes(scoreMask) };
   const sharedField = fieldMapHz && !options.inThisThread ? sharedFloats(fieldMapHz) : fieldMapHz;
+  // a study's other runs go to worker threads in shared memory (copied there unless they already are)
+  const sharedStudyRuns = studyRuns.map((r) => {
+    const v = r.volume;
+    const data = options.inThisThread || v.data.buffer instanceof SharedArrayBuffer ? v.data : sharedFloats(v.data);
+    return { run: { dims: [...v.dims] as SweepContext['run']['dims'], spacingMm: [...v.spacingMm] as SweepContext['run']['spacingMm'], trSec: v.trSec, affine: Array.from(v.affine), data }, sidecar: r.sidecar };
+  });
   const baseContext = (stageMode: SweepContext['stageMode'], progress: Int32Array | null): SweepContext => ({
     run: { dims: [...volume.dims], spacingMm: [...volume.spacingMm], trSec: volume.trSec, affine: Array.from(volume.affine), data: volume.data },
     ...masks,
     acquisition: { motionTable, rotationCentreMm, fieldMapHz: sharedField, sliceTiming: spec.acquisition.sliceTiming, ...(pair ? { phaseEncodePair: pair } : {}) },
     events, sidecar: run.sidecar, threshold: spec.threshold, cacheDir, stageMode, progress, stepModules: modules, estimates,
+    ...(sharedStudyRuns.length ? { studyRuns: sharedStudyRuns } : {}),
   });
   const estimatePlans = planSweep(spec, inputs).estimates;
   let estimatesComputed = 0;
@@ -470,7 +503,8 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
   }
   report();
 
-  // 7. scorecard
+  // 7. scorecard (a study adds its first subject's single-run columns)
+  const metricColumns: string[] = spec.study ? [...SCORECARD_METRICS, ...FIRST_LEVEL_METRICS] : [...SCORECARD_METRICS];
   const rows: ScorecardRow[] = [];
   const seconds: number[] = [];
   const curves: CurveTable = { fprGrid: [...DEFAULT_FPR_GRID], rows: [] };
@@ -482,14 +516,14 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
     const row: ScorecardRow = { cell: c.index, group: g.index, settingIndex: c.settingIndex };
     for (const k of Object.keys(spec.vary)) row[k] = c.setting[k];
     Object.assign(row, { plantShape: g.plant.shape, plantSizeMm: g.plant.sizeMm, plantAmplitudePct: g.plant.amplitudePct, plantCount: g.plant.count, repeat: g.repeat, plantSeed: g.plantSeed });
-    for (const m of SCORECARD_METRICS) row[m] = r.metrics[m] ?? null;
+    for (const m of metricColumns) row[m] = r.metrics[m] ?? null;
     row.tsnrMedian = tsnrByKey.get(plan.tsnr[c.settingIndex].key)?.tsnrMedian ?? null;
     rows.push(row);
     seconds.push(r.seconds);
     if (r.tpr.length) curves.rows.push({ cell: c.index, tpr: r.tpr });
     if (!notes.has(c.settingIndex)) notes.set(c.settingIndex, r.notes);
   }
-  const scorecard: Scorecard = { sweepKey: plan.sweepKey, varied: Object.keys(spec.vary), metrics: [...SCORECARD_METRICS], rows, seconds };
+  const scorecard: Scorecard = { sweepKey: plan.sweepKey, varied: Object.keys(spec.vary), metrics: metricColumns, rows, seconds };
   // loaded only now: it brings the design and HRF code (and with it about 230 @stdlib modules), which
   // the main thread otherwise never needs while the workers run, when its resident memory counts most
   const { plantDesignNorm } = await import('./plant-design-norm.js');
@@ -497,8 +531,9 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
     spec, plan: { settings: plan.settings, plants: plan.plants, splitAt: plan.splitAt, sweepKey: plan.sweepKey }, scorecard, curves,
     notes: [...notes.entries()].sort((a, b) => a[0] - b[0]).map(([settingIndex, ns]) => ({ settingIndex, notes: ns })),
     inputs: { runHash, contextHash }, shard,
-    designNorm: plantDesignNorm(spec.events.kind === 'run' ? events : randomBlockEvents(childSeed(spec.seed, 'events', 0), volume.dims[3] * volume.trSec, spec.events), volume.dims[3], volume.trSec, spec),
+    designNorm: spec.study ? null : plantDesignNorm(spec.events.kind === 'run' ? events : randomBlockEvents(childSeed(spec.seed, 'events', 0), volume.dims[3] * volume.trSec, spec.events), volume.dims[3], volume.trSec, spec),
     ...(motionInfo ? { motion: motionInfo } : {}),
+    ...(spec.study ? { study: studyFacts(spec, plan, 1 + studyRuns.length, volume) } : {}),
     ...(nullResults.length ? { nullCalibration: nullResults.sort((a, b) => a.settingIndex - b.settingIndex).map((r) => nullCalibration(r, spec)) } : {}),
     stats: { cellsInPlan: plan.cells.length, cellsRun: total, cellsComputed: computed, cellsFromCache: fromCache, estimatesComputed, tasks: jobCount, workers: useThreads ? Math.min(workers, jobCount) : jobCount ? 1 : 0, wallSeconds: (performance.now() - t0) / 1000 },
   };
@@ -538,4 +573,47 @@ function nullCalibration(r: NullResult, spec: SweepSpec): NullCalibration {
     calibratedThreshold: calibrated, calibratedExceed: calibrated === null ? null : r.maxima.filter((m) => m >= calibrated).length,
     rftBonferroniThreshold: r.rftBonferroniThreshold, rftBonferroniExceed: r.rftBonferroniExceed, smoothnessFwhmMm: r.smoothnessFwhmMm, maxima: r.maxima,
   };
+}
+
+/**
+ * A study's other runs, checked: on the first run's grid (dims, voxel size, affine) and with its TR;
+ * a motion table or field map (which describe one run) is refused with several runs.
+ */
+function checkStudyRuns(first: Volume, others: SweepRunInput[], options: SweepOptions): SweepRunInput[] {
+  others.forEach((r, i) => {
+    const v = r.volume;
+    const same = v.dims.length === first.dims.length && v.dims.slice(0, 3).every((d, k) => d === first.dims[k])
+      && v.affine.every((a, k) => Math.abs(a - first.affine[k]) <= 1e-4 * (1 + Math.abs(first.affine[k])));
+    if (!same) fail('STUDY_GRID_MISMATCH', `study run ${i + 2} has ${v.dims.slice(0, 3).join('x')} voxels of ${v.spacingMm.map((x) => x.toFixed(2)).join('x')} mm, the first run ${first.dims.slice(0, 3).join('x')} of ${first.spacingMm.map((x) => x.toFixed(2)).join('x')} mm${v.dims.slice(0, 3).every((d, k) => d === first.dims[k]) ? ' (same size, another voxel-to-world mapping)' : ''}`);
+    if (Math.abs(v.trSec - first.trSec) > 1e-6 * first.trSec) fail('STUDY_GRID_MISMATCH', `study run ${i + 2} has a TR of ${v.trSec} s, the first run ${first.trSec} s: give runs of one acquisition`);
+    if (v.dims[3] < 2) fail('NOT_4D', `study run ${i + 2} has ${v.dims[3]} volume`);
+  });
+  if (others.length && (options.motionTable || options.fieldMapHz)) fail('INVALID_ARGUMENT', 'a motion table or field map describes one run: with several study runs, leave them out (or give one run)');
+  return others;
+}
+
+/**
+ * Refuse misregistrations as large as the brain: twice the largest SD (most displacements) must stay
+ * below half the brain's smallest extent (its mask's bounding box, mm).
+ */
+function checkMisregistration(levelsMm: number[], brain: Uint8Array, v: Volume): void {
+  const [nx, ny] = v.dims;
+  const lo = [Infinity, Infinity, Infinity], hi = [-Infinity, -Infinity, -Infinity];
+  for (let i = 0; i < brain.length; i++) {
+    if (!brain[i]) continue;
+    const idx = [i % nx, Math.floor(i / nx) % ny, Math.floor(i / (nx * ny))];
+    for (let k = 0; k < 3; k++) { lo[k] = Math.min(lo[k], idx[k]); hi[k] = Math.max(hi[k], idx[k]); }
+  }
+  const extentMm = Math.min(...[0, 1, 2].map((k) => (hi[k] - lo[k] + 1) * v.spacingMm[k]));
+  const largest = Math.max(...levelsMm);
+  if (!(2 * largest < extentMm / 2)) fail('MISREGISTRATION_TOO_LARGE', `a misregistration SD of ${largest} mm moves most activations by up to ${2 * largest} mm, more than half the brain's smallest extent (${extentMm.toFixed(0)} mm)`);
+}
+
+/** The facts of a study sweep: subjects, runs, levels and how alike the subjects' noise projections are. */
+function studyFacts(spec: SweepSpec, plan: SweepPlan, runCount: number, volume: Volume): StudyFacts {
+  const study = spec.study!;
+  // every repeat of the first plant condition and level (designs do not depend on the level)
+  const groups = plan.groups.filter((g) => g.plantIndex === 0 && g.study?.misregistrationMm === studyLevels(spec)[0]);
+  const seeds = groups.map((g) => Array.from({ length: study.subjects }, (_, s) => studyDesignSeed(g.plantSeed, s)));
+  return { subjects: study.subjects, runs: runCount, levelsMm: studyLevels(spec), designCorrelation: studyDesignCorrelation(spec, runCount, volume.dims[3], volume.trSec, seeds) };
 }

@@ -42,6 +42,7 @@ const MODEL_LABELS: Record<string, ParameterLabel> = {
   'model.highpassCutoffSec': { name: 'model drift cutoff', unit: 's' },
   'model.motionRegressors': { name: 'motion regressors', unit: '' },
   'model.censorFdMm': { name: 'censoring above framewise displacement', unit: 'mm' },
+  'study.misregistrationMm': { name: 'misregistration SD', unit: 'mm' },
 };
 
 /** The label of a "<step>.<param>" or "model.<option>" key, from one place: the step's definition or the model table. */
@@ -49,7 +50,7 @@ function labelOf(key: string): ParameterLabel | null {
   if (MODEL_LABELS[key]) return MODEL_LABELS[key];
   const dot = key.indexOf('.');
   const step = key.slice(0, dot);
-  if (step === 'model' || !listSteps().includes(step)) return null;
+  if (step === 'model' || step === 'study' || !listSteps().includes(step)) return null;
   return getStep(step).labels[key.slice(dot + 1)] ?? null;
 }
 

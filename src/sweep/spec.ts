@@ -139,6 +139,36 @@ export type EventsRule =
   | { kind: 'run' }
   | { kind: 'random-blocks'; onSec: number; offMinSec: number; offMaxSec: number; trialType: string };
 
+/**
+ * Where a study's runs come from: a list of NIfTI files, or a BIDS folder with a task name (every
+ * sub-*\/func/*_task-<task>_bold.nii.gz). Paths are resolved by the command line relative to the spec
+ * file; from code, pass the opened runs to runSweep (`studyRuns`). null: the sweep's own run only.
+ */
+export type StudyRuns = string[] | { bids: string; task: string } | null;
+
+/**
+ * A study: the group question. Each simulated subject gets a run (cycling through the given runs),
+ * its own random block design, the group's planted activations each displaced by a random
+ * misregistration, and its own amplitude around the group's; each is fitted at the first level, and
+ * the subjects' effect estimates go into a one-sample t-test at the group level, scored against the
+ * group's activations.
+ */
+export interface StudySpec {
+  /** Simulated subjects (at least 3; 5 for random-field rules; 12 or more for a steady group map). */
+  subjects: number;
+  /** The study's runs (see {@link StudyRuns}). __Default value:__ null */
+  runs: StudyRuns;
+  /**
+   * SD (mm, per axis) of each subject's random displacement of each planted activation: the residual
+   * misalignment after spatial normalisation. Vary it as "study.misregistrationMm". __Default value:__ 0
+   */
+  misregistrationMm: number;
+  /** SD of a subject's amplitude as a fraction of the group amplitude (0.3: 30 %). __Default value:__ 0.3 */
+  amplitudeSpread: number;
+  /** Each subject's random block design (blocks of onSec, rests drawn from offMinSec..offMaxSec). __Default value:__ 20 s on, 10-40 s off */
+  design: { onSec: number; offMinSec: number; offMaxSec: number };
+}
+
 /** A whole sweep. */
 export interface SweepSpec {
   /** Format version of this object. */
@@ -163,6 +193,8 @@ export interface SweepSpec {
   seed: number;
   /** Worker threads. __Default value:__ 2 */
   workers: number;
+  /** A study (group-level question); absent: the single-run question. */
+  study?: StudySpec;
 }
 
 const value = z.union([z.number().finite(), z.string(), z.boolean(), z.null()]);
@@ -206,6 +238,13 @@ export const sweepSpecSchema = z.object({
   ]).default({ kind: 'run' }),
   seed: z.number().int().nonnegative().lt(2 ** 32),
   workers: z.number().int().min(1).max(256).default(2),
+  study: z.object({
+    subjects: z.number().int().positive().max(10000),
+    runs: z.union([z.array(z.string().min(1)).min(1), z.object({ bids: z.string().min(1), task: z.string().min(1) }).strict()]).nullable().default(null),
+    misregistrationMm: z.number().nonnegative().max(1000).default(0),
+    amplitudeSpread: z.number().nonnegative().max(10).default(0.3),
+    design: z.object({ onSec: z.number().positive(), offMinSec: z.number().nonnegative(), offMaxSec: z.number().positive() }).strict().default({ onSec: 20, offMinSec: 10, offMaxSec: 40 }),
+  }).strict().optional(),
 }).strict();
 
 /** The spec as written by a user: fields with defaults may be left out. */
@@ -232,10 +271,38 @@ export function parseSweepSpecShape(input: unknown): SweepSpec {
   if (spec.threshold.kind === 'fwe-calibrated' && nullDesignCount(spec.threshold) < minimumNullDesigns(spec.threshold.alpha)) {
     fail('NULL_DESIGNS_INVALID', `threshold.nullDesigns is ${k}, but a calibrated threshold at alpha ${spec.threshold.alpha} needs at least ${minimumNullDesigns(spec.threshold.alpha)}`, { details: { fields: ['threshold.nullDesigns'] } });
   }
+  if (spec.study) checkStudySpec(spec);
+  else if ('study.misregistrationMm' in spec.vary) fail('SPEC_INVALID', 'vary key "study.misregistrationMm" needs a study section (study.subjects at least)', { details: { fields: ['vary.study.misregistrationMm'] } });
   for (const [key, values] of Object.entries(spec.vary)) {
     if (!/^[A-Za-z][\w-]*\.[A-Za-z]\w*$/.test(key)) fail('SPEC_INVALID', `vary key "${key}" must look like "<step>.<parameter>", e.g. "smooth.fwhmMm"`, { details: { fields: [`vary.${key}`] } });
     const seen = new Set(values.map((v) => JSON.stringify(v)));
     if (seen.size !== values.length) fail('SPEC_INVALID', `vary.${key} lists a value twice`, { details: { fields: [`vary.${key}`] } });
   }
   return spec;
+}
+
+/** What a study adds to a spec's checks: enough subjects, a rule that applies to a group map, sane levels. */
+function checkStudySpec(spec: SweepSpec): void {
+  const study = spec.study!;
+  if (study.subjects < 3) fail('TOO_FEW_SUBJECTS', `study.subjects is ${study.subjects}: a group-level test needs at least 3`, { details: { fields: ['study.subjects'] } });
+  if ((spec.threshold.kind === 'fwe-rft' || spec.threshold.kind === 'cluster') && study.subjects < 5) fail('TOO_FEW_SUBJECTS', `study.subjects is ${study.subjects}: the ${spec.threshold.kind} rule needs at least 5 subjects (random-field thresholds for t maps need more than 3 degrees of freedom)`, { details: { fields: ['study.subjects'] } });
+  if (spec.threshold.kind === 'fwe-calibrated' || spec.threshold.nullDesigns !== null) fail('STUDY_RULE_UNSUPPORTED', `a study's threshold is ${spec.threshold.kind}${spec.threshold.nullDesigns !== null ? ` with ${spec.threshold.nullDesigns} null designs` : ''}`, { details: { fields: ['threshold'] } });
+  if (spec.plant.count > 0 && spec.plant.sizesFwhmMm.length * spec.plant.amplitudesPct.length < 1) fail('SPEC_INVALID', 'a study needs a planted size and amplitude');
+  if (study.design.offMaxSec < study.design.offMinSec) fail('SPEC_INVALID', `study.design.offMaxSec (${study.design.offMaxSec} s) must be at least study.design.offMinSec (${study.design.offMinSec} s)`, { details: { fields: ['study.design.offMaxSec'] } });
+  for (const key of Object.keys(spec.vary)) {
+    if (key.startsWith('study.') && key !== 'study.misregistrationMm') fail('SPEC_INVALID', `vary key "${key}": of the study only misregistrationMm can be varied`, { details: { fields: [`vary.${key}`] } });
+  }
+  const levels = spec.vary['study.misregistrationMm'];
+  if (levels && levels.some((v) => typeof v !== 'number' || !(v >= 0) || !Number.isFinite(v))) fail('SPEC_INVALID', 'vary.study.misregistrationMm must list finite numbers >= 0 (mm)', { details: { fields: ['vary.study.misregistrationMm'] } });
+}
+
+/**
+ * The misregistration levels of a study: the varied values, else the study's one value.
+ * @param spec - a validated spec with a study
+ * @returns SDs in mm, in the order written
+ * @example studyLevels(spec) // [0, 3, 6]
+ */
+export function studyLevels(spec: SweepSpec): number[] {
+  const varied = spec.vary['study.misregistrationMm'];
+  return varied ? varied.map(Number) : [spec.study?.misregistrationMm ?? 0];
 }

@@ -64,6 +64,11 @@ export interface SweepContext {
   estimates: Record<string, unknown>;
   /** settingIndex -> maximum t of each null design at that setting (for 'fwe-calibrated'); null when none were fitted. */
   nullMaxima?: Record<number, number[]> | null;
+  /**
+   * A study's runs after the sweep's own (same grid): subject s plants into run s mod R of
+   * [run, ...studyRuns]. Absent or empty: every subject uses the sweep's run.
+   */
+  studyRuns?: Array<{ run: SharedRun; sidecar: Sidecar | null }>;
 }
 
 /** One task: some cells of one group (usually all of them). */
