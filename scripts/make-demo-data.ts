@@ -8,6 +8,9 @@ import { statSync } from 'node:fs';
 import { demoPhantomSpec } from '../src/simulate/phantom-spec.js';
 import { simulatePhantomRun } from '../src/simulate/simulate-phantom-run.js';
 import { writePhantomRun } from '../src/simulate/write-phantom-run.js';
+import { simulatePhantomStructural } from '../src/simulate/simulate-phantom-structural.js';
+import { simulatePhantomTemplate } from '../src/simulate/simulate-phantom-template.js';
+import { writePhantomAnatomy } from '../src/simulate/write-phantom-anatomy.js';
 
 /** File name stem of the demo run (BIDS-like: subject and task entities). */
 export const DEMO_BASE_NAME = 'sub-phantom01_task-flicker';
@@ -19,10 +22,13 @@ async function main(): Promise<void> {
     process.exitCode = 2;
     return;
   }
-  const run = simulatePhantomRun(demoPhantomSpec());
+  const spec = demoPhantomSpec();
+  const run = simulatePhantomRun(spec);
   const files = await writePhantomRun(dir, run, DEMO_BASE_NAME);
+  // the structural image beside the run (BIDS naming) and boldsweep's own template
+  const anatomy = await writePhantomAnatomy(dir, run.truth.spec, { structural: simulatePhantomStructural(spec), template: simulatePhantomTemplate(spec) }, DEMO_BASE_NAME.split('_')[0]);
   let total = 0;
-  for (const path of Object.values(files)) {
+  for (const path of [...Object.values(files), ...Object.values(anatomy)]) {
     const bytes = statSync(path).size;
     total += bytes;
     process.stdout.write(`${path}\t${bytes} bytes\n`);
