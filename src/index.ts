@@ -74,3 +74,10 @@ export {
 
 // the digital phantom
 export { simulatePhantomRun, writePhantomRun, demoPhantomSpec, defaultPhantomSpec, phantomAcquisitionModel, TISSUE_LABEL } from './simulate/index.js';
+export { simulatePhantomStructural, simulatePhantomTemplate, phantomAnatomyGrids, writePhantomAnatomy } from './simulate/index.js';
+
+// alignment between images: stored transforms, composed into one resampling
+export {
+  storedTransform, invertTransform, composeTransforms, resampleAffineOf, writeTransformFile, readTransformFile, alignRun,
+  type StoredTransform, type TransformSpace, type AlignmentEstimate,
+} from './align/index.js';
