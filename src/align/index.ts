@@ -13,3 +13,6 @@ export { readTransformFile } from './read-transform-file.js';
 export { concatenatedResampleAffines } from './concatenated-resample-affines.js';
 export { plainGrid, type AlignmentEstimate } from './alignment-estimate.js';
 export { alignRun, type AlignRunOptions, type AlignedRun } from './align-run.js';
+export { estimateAlignment, type AlignmentOptions } from './estimate-alignment.js';
+export { readAnatomyImage } from './read-anatomy-image.js';
+export { demoAnatomyPaths, DEMO_ANATOMY_FILES } from './demo-anatomy-paths.js';

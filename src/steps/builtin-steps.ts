@@ -8,6 +8,8 @@ import { MAX_FWHM_MM, smoothStep, type SmoothStepParams } from './smooth-step.js
 import { INTERPOLATION_KERNELS, type InterpolationKernel } from '../resample/interpolation-kernel.js';
 import { kernelSimplicity, resampleOutputFrame, resampleStep, type ResampleStepParams } from './resample-step.js';
 import { detrendStep, highpassStep, type DetrendParams, type HighpassParams } from './temporal-filter.js';
+import { alignEstimate, alignSimplicity, alignStep, type AlignStepParams } from './align-step.js';
+import type { AlignmentEstimate } from '../align/alignment-estimate.js';
 
 // Schemas check types and fixed ranges; limits that depend on the run (FOV, number of volumes)
 // are checked by the steps themselves.
@@ -45,6 +47,33 @@ const resample: StepDefinition<ResampleStepParams> = {
   // nearest < linear < cubic < lanczos3 (taps per axis 1, 2, 4, 6)
   simplicity: (p) => kernelSimplicity(p.kernel),
   describe: (p) => `resample ${p.kernel}${p.voxelSizeMm === undefined ? '' : ` ${Array.isArray(p.voxelSizeMm) ? p.voxelSizeMm.join('x') : p.voxelSizeMm} mm`}${p.mode && p.mode !== 'constant' ? ` (${p.mode})` : ''}`,
+};
+
+const align: StepDefinition<AlignStepParams, AlignmentEstimate> = {
+  schema: z.object({
+    structural: z.string().min(1).optional(),
+    template: z.string().min(1).optional(),
+    concatenate: z.boolean().default(true),
+    kernel: z.enum(kernels).default('cubic'),
+    motion: z.enum(['estimate', 'none']).default('estimate'),
+    voxelSizeMm: voxelSize.optional(),
+    mode: z.enum(modes).default('constant'),
+  }).strict(),
+  version: 1,
+  kind: 'geometric',
+  estimate: alignEstimate,
+  apply: alignStep,
+  labels: {
+    concatenate: { name: 'one concatenated resampling', unit: '' },
+    kernel: { name: 'interpolation kernel', unit: '' },
+    motion: { name: 'motion undone in the alignment', unit: '' },
+    voxelSizeMm: { name: 'template voxel size', unit: 'mm' },
+    structural: { name: 'structural image', unit: '' },
+    template: { name: 'template', unit: '' },
+    mode: { name: 'resampling boundary mode', unit: '' },
+  },
+  simplicity: alignSimplicity,
+  describe: (p) => `align ${p.concatenate ? 'once' : 'per stage'} ${p.kernel}${p.motion === 'none' ? ' (no motion)' : ''}${p.voxelSizeMm === undefined ? '' : ` ${p.voxelSizeMm} mm`}`,
 };
 
 const percentSignalChange: StepDefinition<PercentSignalChangeParams> = {
@@ -100,7 +129,7 @@ const dropInitialVolumes: StepDefinition<DropInitialVolumesParams> = {
 
 /**
  * Register the steps boldsweep ships with: smooth, percent-signal-change, grand-mean-scale,
- * highpass, detrend, drop-initial-volumes, resample (called once by the registry module).
+ * highpass, detrend, drop-initial-volumes, resample, align (called once by the registry module).
  * @param register - the registry's registerStep
  * @returns nothing
  * @example registerBuiltinSteps(registerStep)
@@ -113,4 +142,5 @@ export function registerBuiltinSteps(register: <P>(name: string, definition: Ste
   register('detrend', detrend);
   register('drop-initial-volumes', dropInitialVolumes);
   register('resample', resample);
+  register('align', align as StepDefinition<AlignStepParams>);
 }

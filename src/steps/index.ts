@@ -9,3 +9,4 @@ export { type DropInitialVolumesParams, type ShiftedEvents, shiftEvents, dropIni
 export { requireMask } from './require-mask.js';
 export { type StepDefinition, type RegisterStepOptions, registerStep, getStep, listSteps, parseStepParams, applyStep, describeStep, stepModules, stepVersion } from './registry.js';
 export { type ResampleStepParams, kernelSimplicity, resampleOutputFrame, resampleStep, resampleTargetGrid } from './resample-step.js';
+export { type AlignStepParams, alignStep, alignEstimate, alignInputPaths, alignOutputGrids, alignSimplicity } from './align-step.js';
