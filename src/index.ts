@@ -46,6 +46,10 @@ export {
   type TargetGridOptions, resampleVolume, resampleRun, targetGrid, cubicBSplinePrefilter,
   repeatedResampling, type RepeatedResamplingOptions, type RepeatedResamplingResult, type RepeatedResamplingRow, imageFwhmMm, highFrequencyEnergy,
 } from './resample/index.js';
+export {
+  type ImageOnGrid, type RegistrationModel, type RegistrationCost, type RegisterOptions, type RegistrationResult,
+  registerImagePair, estimateRunMotion, type MotionReference, type RunMotionOptions, type RunMotion, motionParametersAffine, affineMotionParameters,
+} from './register/index.js';
 
 // model
 export { hrfValues, buildDesign, fitGlm, fitGlmAr1, contrastMaps, estimateSmoothness } from './model/index.js';

@@ -22,6 +22,7 @@ export * from './io/index.js';
 export * from './look/index.js';
 export * from './filter/index.js';
 export * from './resample/index.js';
+export * from './register/index.js';
 export * from './align/index.js';
 export * from './acquire/index.js';
 export * from './plant/index.js';

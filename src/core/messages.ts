@@ -54,6 +54,10 @@ export const ERROR_ADVICE = {
   READOUT_TIME_MISSING: 'A field map displaces the signal by (Hz x total readout time): set TotalReadoutTime (s) in the BIDS sidecar, or EffectiveEchoSpacing (s) from which it is computed, or pass totalReadoutTimeSec.',
   PHASE_ENCODE_MISSING: 'A field map displaces the signal along the phase-encode axis: set PhaseEncodingDirection (i, j or k, with - for the reversed direction) in the BIDS sidecar, or pass phaseEncodingDirection.',
   SLICE_TIMING_INVALID: 'Slice times are seconds from the start of each volume, each at least 0 and below RepetitionTime: fix SliceTiming in the BIDS sidecar (check it is in seconds, not milliseconds), or pass slice times made for your acquisition order.',
+  // registration (motion estimation and alignment)
+  REGISTRATION_NOT_CONVERGED: 'The optimiser stopped without settling (iteration cap reached while the parameters still changed, or the cost rose). Check the two images show the same head (same run, not a blank or corrupted volume), give a brain mask, start nearer (initial parameters), or use more multi-resolution levels (e.g. [8, 4, 2, 1]) for a large displacement.',
+  REGISTRATION_NO_OVERLAP: 'Too few fixed-image samples land inside the moving image: check both affines put the images in the same world space (same units, sform/qform), or start from a closer initial transform.',
+  MOTION_REFERENCE_INVALID: "Give the reference as 'first', 'middle', 'mean', 'least-moving', or a 0-based volume index below the number of volumes.",
   // parallel work
   WORKER_SCRIPT_MISSING: 'Worker threads run compiled JavaScript: build the package first (npm run build) so the worker file exists under dist/.',
   KERNEL_MISSING: 'The WebAssembly kernels are compiled at build time: run npm run build (it writes dist/kernels/ from kernels/).',

@@ -17,4 +17,4 @@ export { openRun, type OpenRunOptions } from './open-run.js';
 export { findRunSiblings, siblingCandidates, type RunSiblings } from './run-siblings.js';
 export { hashFile } from './hash-file.js';
 export { OUTPUT_MARKER, checkOutputFolder, claimOutputFolder, addOutputFiles, prepareOutputFiles, settleOutputSet, readOutputMarker, type OutputMarker, type ClaimOptions } from './output-folder.js';
-export { parseMotionTable, readMotionTable, motionTableToTsv, MOTION_TABLE_COLUMNS } from './motion-table-tsv.js';
+export { parseMotionTable, readMotionTable, motionTableToTsv, MOTION_TABLE_COLUMNS, AFFINE_MOTION_COLUMNS, type AffineMotionRow } from './motion-table-tsv.js';
