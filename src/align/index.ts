@@ -16,3 +16,4 @@ export { alignRun, type AlignRunOptions, type AlignedRun } from './align-run.js'
 export { estimateAlignment, type AlignmentOptions } from './estimate-alignment.js';
 export { readAnatomyImage } from './read-anatomy-image.js';
 export { demoAnatomyPaths, DEMO_ANATOMY_FILES } from './demo-anatomy-paths.js';
+export { oneResamplingSaving, type OneResamplingSaving, type AlignedSharpness } from './one-resampling-saving.js';
