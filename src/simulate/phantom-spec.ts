@@ -313,8 +313,10 @@ export function defaultPhantomSpec(): PhantomSpec {
 
 /**
  * The spec of the committed demo run (data-demo/): the defaults with weaker spatially coherent noise
- * (grey-matter physiological fluctuation 0.2 %, smooth field 0.1 %), plus a two-volume head jerk at
- * volume 83, field inhomogeneity around the sinus, three single-voxel spikes and one slice dropout.
+ * (grey-matter physiological fluctuation 0.2 %, smooth field 0.1 %), plus realistic head motion (a
+ * two-volume jerk at volume 83, a lasting step at 40, a twitch at 121, a slow drift, respiration-coupled
+ * motion), field inhomogeneity around the sinus, three single-voxel spikes, one slice dropout, a
+ * structural image and boldsweep's own template.
  * @returns a fresh spec
  * @example const run = simulatePhantomRun(demoPhantomSpec())
  */
