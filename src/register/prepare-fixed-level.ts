@@ -32,6 +32,12 @@ export interface FixedLevel {
   jacobian: Float64Array | null;
   /** Sum over samples of w J J^T (columns x columns, row-major). */
   hessian: Float64Array | null;
+  /** Sums over samples of w F and w F^2 (for the least-squares intensity fit). */
+  sumF: number;
+  sumF2: number;
+  /** Sums over samples of w J F and w J (`columns` each; least squares). */
+  sumJF: Float64Array | null;
+  sumJ: Float64Array | null;
 }
 
 /** Options of {@link prepareFixedLevel}. */
@@ -102,6 +108,9 @@ export function prepareFixedLevel(fixed: ImageOnGrid, factor: number, options: F
   const columns = ls ? (options.model === 'rigid' ? 6 : 12) : 0;
   const jacobian = ls ? new Float64Array(count * columns) : null;
   const hessian = ls ? new Float64Array(columns * columns) : null;
+  const sumJF = ls ? new Float64Array(columns) : null;
+  const sumJ = ls ? new Float64Array(columns) : null;
+  let sumF = 0, sumF2 = 0;
   const inv = invertAffine(a);
   const [cx, cy, cz] = options.centreMm;
   const rng = createRng(options.seed);
@@ -122,6 +131,7 @@ export function prepareFixedLevel(fixed: ImageOnGrid, factor: number, options: F
     world[3 * s] = x; world[3 * s + 1] = y; world[3 * s + 2] = z;
     const value = trilinear(img, nx, ny, nz, u, v, t);
     values[s] = value; weights[s] = w; weightSum += w;
+    sumF += w * value; sumF2 += w * value * value;
     if (value < lo) lo = value;
     if (value > hi) hi = value;
     if (jacobian && hessian && grad) {
@@ -146,13 +156,15 @@ export function prepareFixedLevel(fixed: ImageOnGrid, factor: number, options: F
       }
       for (let r = 0; r < columns; r++) {
         const wr = w * jacobian[o + r];
+        (sumJF as Float64Array)[r] += wr * value;
+        (sumJ as Float64Array)[r] += wr;
         for (let c = r; c < columns; c++) hessian[r * columns + c] += wr * jacobian[o + c];
       }
     }
     s++;
   }
   if (hessian) for (let r = 0; r < columns; r++) for (let c = 0; c < r; c++) hessian[r * columns + c] = hessian[c * columns + r];
-  return { factor, fwhmMm, count, world, values, weights, weightSum, range: [lo, hi], columns, jacobian, hessian };
+  return { factor, fwhmMm, count, world, values, weights, weightSum, range: [lo, hi], columns, jacobian, hessian, sumF, sumF2, sumJF, sumJ };
 }
 
 /** Trilinear value of an image at a voxel position inside [0, n-1] on every axis. */

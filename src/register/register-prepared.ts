@@ -30,8 +30,8 @@ export interface PreparedFixed {
 const RADIUS_MM = 50;
 /** A sample set below this fraction of the level's weight inside the moving grid is too little overlap. */
 const MIN_OVERLAP = 0.1;
-/** Step halvings tried when a Gauss-Newton step raises the cost. */
-const HALVINGS = 6;
+/** Step halvings tried when a Gauss-Newton step raises the cost (down to 1/1024 of the step). */
+const HALVINGS = 10;
 /** Nelder-Mead restarts from the best point at most (each must move it to continue). */
 const RESTARTS = 4;
 
@@ -65,13 +65,19 @@ function gaussNewtonLevel(level: FixedLevel, moving: MovingLevel, start: Affine,
   overlap(sums.validWeight);
   const h = new Float64Array(nc * nc);
   for (let it = 1; it <= maxIt; it++) {
-    for (let i = 0; i < h.length; i++) h[i] = H[i] - out[i];
+    // the model is moving ~ a F(W(x; q)) + b: the step solves (a^2 H) q = a sum J r
+    if (!(sums.scale > 0)) fail('REGISTRATION_NOT_CONVERGED', `${label}: at level ${level.factor} the moving image's intensities fall as the fixed image's rise (fitted scale ${sums.scale.toPrecision(3)}); last least-squares cost ${sums.cost.toPrecision(6)}`, { details: { level: level.factor, cost: sums.cost, iteration: it } });
+    for (let i = 0; i < h.length; i++) h[i] = sums.scale * (H[i] - out[i]);
     const q = solveLinearSystem(h, b);
     if (!q) fail('CONSTANT_DATA', `${label}: the fixed image has no contrast in some direction at level ${level.factor} (its gradient cannot pin all ${nc} parameters); registration is undefined`);
     const size = updateSizeMm(q);
+    // a step below the tolerance ends the level without another pass (it would change nothing that counts)
+    if (size < tol) return { transform, cost: sums.cost, iterations: it };
     let alpha = 1;
     let accepted = false;
+    let tried = size;
     for (let tries = 0; tries <= HALVINGS; tries++, alpha /= 2) {
+      tried = size * alpha;
       const qa = q.map((x) => x * alpha);
       const candidate = composeAffine(transform, invertAffine(updateAffine(qa, prep.centreMm)));
       const next = leastSquaresPass(level, moving, candidate, bNext, outNext);
@@ -83,14 +89,15 @@ function gaussNewtonLevel(level: FixedLevel, moving: MovingLevel, start: Affine,
         accepted = true;
         break;
       }
+      // once the step tried is below the tolerance, smaller ones change nothing that counts
+      if (tried < tol) break;
     }
-    const moved = size * (accepted ? alpha : alpha * 2);
     if (!accepted) {
       // no step size lowers the cost: settled if the smallest step tried was below the tolerance
-      if (moved < tol) return { transform, cost: sums.cost, iterations: it };
-      fail('REGISTRATION_NOT_CONVERGED', `${label}: at level ${level.factor} every Gauss-Newton step (down to ${moved.toFixed(4)} mm) raised the least-squares cost from ${sums.cost.toPrecision(6)}`, { details: { level: level.factor, cost: sums.cost, iteration: it } });
+      if (tried < tol) return { transform, cost: sums.cost, iterations: it };
+      fail('REGISTRATION_NOT_CONVERGED', `${label}: at level ${level.factor} every Gauss-Newton step (down to ${tried.toFixed(4)} mm) raised the least-squares cost from ${sums.cost.toPrecision(6)}`, { details: { level: level.factor, cost: sums.cost, iteration: it } });
     }
-    if (moved < tol) return { transform, cost: sums.cost, iterations: it };
+    if (tried < tol) return { transform, cost: sums.cost, iterations: it };
   }
   return fail('REGISTRATION_NOT_CONVERGED', `${label}: ${maxIt} Gauss-Newton iterations at level ${level.factor} without settling; last least-squares cost ${sums.cost.toPrecision(6)}`, { details: { level: level.factor, cost: sums.cost, iterations: maxIt } });
 }
@@ -138,7 +145,7 @@ function simplexLevel(level: FixedLevel, moving: MovingLevel, start: Affine, pre
 /**
  * Register one moving image to a prepared fixed image, level by level (coarse to fine), each level
  * starting where the last ended: Gauss-Newton on the inverse compositional scheme for least squares
- * (step halved up to 6 times when it raises the cost), Nelder-Mead on the model's parameters for
+ * (step halved up to 10 times when it raises the cost; when every halving raises it and the last is below the tolerance, the level ends there: no descent along the Gauss-Newton direction, as for a volume whose contrast differs from the reference before the steady state), Nelder-Mead on the model's parameters for
  * normalised correlation and mutual information. A level is done when an update moves no point
  * within 50 mm of the centre by more than toleranceMm x the level's factor (Nelder-Mead: when the
  * simplex is that small, in mm and degrees, and 0.01 units for scales and shears).

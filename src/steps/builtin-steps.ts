@@ -7,6 +7,8 @@ import type { StepDefinition } from './registry.js';
 import { MAX_FWHM_MM, smoothStep, type SmoothStepParams } from './smooth-step.js';
 import { INTERPOLATION_KERNELS, type InterpolationKernel } from '../resample/interpolation-kernel.js';
 import { kernelSimplicity, resampleOutputFrame, resampleStep, type ResampleStepParams } from './resample-step.js';
+import { motionCorrectEstimate, motionCorrectOutputFrame, motionCorrectSimplicity, motionCorrectStep, type MotionCorrectParams, type MotionEstimate } from './motion-correct-step.js';
+import { REGISTRATION_COSTS, REGISTRATION_MODELS, type RegistrationCost, type RegistrationModel } from '../register/registration-types.js';
 import { detrendStep, highpassStep, type DetrendParams, type HighpassParams } from './temporal-filter.js';
 import { alignEstimate, alignSimplicity, alignStep, type AlignStepParams } from './align-step.js';
 import type { AlignmentEstimate } from '../align/alignment-estimate.js';
@@ -76,6 +78,34 @@ const align: StepDefinition<AlignStepParams, AlignmentEstimate> = {
   describe: (p) => `align ${p.concatenate ? 'once' : 'per stage'} ${p.kernel}${p.motion === 'none' ? ' (no motion)' : ''}${p.voxelSizeMm === undefined ? '' : ` ${p.voxelSizeMm} mm`}`,
 };
 
+const registrationModels = REGISTRATION_MODELS as unknown as [RegistrationModel, ...RegistrationModel[]];
+const registrationCosts = REGISTRATION_COSTS as unknown as [RegistrationCost, ...RegistrationCost[]];
+
+const motionCorrect: StepDefinition<MotionCorrectParams, MotionEstimate> = {
+  schema: z.object({
+    model: z.enum(registrationModels).default('rigid'),
+    cost: z.enum(registrationCosts).default('least-squares'),
+    // a volume index is checked against the run by the step (MOTION_REFERENCE_INVALID)
+    reference: z.union([z.enum(['first', 'middle', 'mean', 'least-moving']), z.number().int().min(0)]).default('first'),
+    kernel: z.enum(kernels).default('linear'),
+    mode: z.enum(modes).default('constant'),
+    levels: z.array(z.number().int().min(1).max(32)).min(1).max(6).default([4, 2, 1]),
+    withinMask: z.boolean().default(false),
+  }).strict(),
+  version: 1,
+  kind: 'geometric',
+  outputFrame: motionCorrectOutputFrame,
+  estimate: motionCorrectEstimate,
+  apply: motionCorrectStep,
+  labels: {
+    model: { name: 'motion model', unit: '' }, cost: { name: 'registration cost', unit: '' }, reference: { name: 'motion reference volume', unit: '' },
+    kernel: { name: 'interpolation kernel', unit: '' }, mode: { name: 'resampling boundary mode', unit: '' }, levels: { name: 'registration levels', unit: '' },
+    withinMask: { name: 'registration within the mask', unit: '' },
+  },
+  simplicity: motionCorrectSimplicity,
+  describe: (p) => `motion-correct ${p.model ?? 'rigid'} ${p.cost ?? 'least-squares'} to ${p.reference ?? 'first'}, ${p.kernel ?? 'linear'}`,
+};
+
 const percentSignalChange: StepDefinition<PercentSignalChangeParams> = {
   schema: z.object({
     minMeanFraction: z.number().min(0).lt(1).default(0.1),
@@ -129,12 +159,12 @@ const dropInitialVolumes: StepDefinition<DropInitialVolumesParams> = {
 
 /**
  * Register the steps boldsweep ships with: smooth, percent-signal-change, grand-mean-scale,
- * highpass, detrend, drop-initial-volumes, resample, align (called once by the registry module).
+ * highpass, detrend, drop-initial-volumes, resample, motion-correct, align (called once by the registry module).
  * @param register - the registry's registerStep
  * @returns nothing
  * @example registerBuiltinSteps(registerStep)
  */
-export function registerBuiltinSteps(register: <P>(name: string, definition: StepDefinition<P>) => void): void {
+export function registerBuiltinSteps(register: <P, E = unknown>(name: string, definition: StepDefinition<P, E>) => void): void {
   register('smooth', smooth);
   register('percent-signal-change', percentSignalChange);
   register('grand-mean-scale', grandMeanScale);
@@ -142,5 +172,6 @@ export function registerBuiltinSteps(register: <P>(name: string, definition: Ste
   register('detrend', detrend);
   register('drop-initial-volumes', dropInitialVolumes);
   register('resample', resample);
-  register('align', align as StepDefinition<AlignStepParams>);
+  register('motion-correct', motionCorrect);
+  register('align', align);
 }

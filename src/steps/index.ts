@@ -10,3 +10,4 @@ export { requireMask } from './require-mask.js';
 export { type StepDefinition, type RegisterStepOptions, registerStep, getStep, listSteps, parseStepParams, applyStep, describeStep, stepModules, stepVersion } from './registry.js';
 export { type ResampleStepParams, kernelSimplicity, resampleOutputFrame, resampleStep, resampleTargetGrid } from './resample-step.js';
 export { type AlignStepParams, alignStep, alignEstimate, alignInputPaths, alignOutputGrids, alignSimplicity } from './align-step.js';
+export { type MotionCorrectParams, type MotionEstimate, motionCorrectStep, motionCorrectEstimate, motionCorrectOutputFrame, motionCorrectDefaults, motionCorrectSimplicity } from './motion-correct-step.js';
