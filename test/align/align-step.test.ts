@@ -3,7 +3,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { gunzipSync } from 'node:zlib';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { applyAffine, type Affine, type Vec3 } from '../../src/core/affine.js';
+import { applyAffine, composeAffine, invertAffine, type Affine, type Vec3 } from '../../src/core/affine.js';
 import { makeVolume } from '../../src/core/volume.js';
 import { writeNifti } from '../../src/io/nifti-write.js';
 import { plantActivations } from '../../src/plant/plant-activations.js';
@@ -21,10 +21,10 @@ import type { PhantomRun } from '../../src/simulate/phantom-types.js';
 import type { StepContext } from '../../src/steps/step-types.js';
 import { quietSpec } from '../simulate/phantom-helpers.js';
 
-// a small phantom (the demo's 3.5 mm run grid, 5 volumes; 2.5 mm structural, 4 mm template) so registration takes seconds
+// a small phantom (the demo's 3.5 mm run grid, 10 volumes; 2.5 mm structural, 4 mm template) so registration takes seconds
 const spec = resolvePhantomSpec(quietSpec({
-  dims: [44, 52, 34], spacingMm: [3.5, 3.5, 3.5], nVolumes: 5, thermalNoiseSd: 5, rician: true,
-  motion: { wanderStepMm: 0.03, wanderStepDeg: 0.03, jerk: { volume: 2, durationVolumes: null, shiftMm: [0.8, -0.5, 1], rotationDeg: [1.5, 0, -1] } },
+  dims: [44, 52, 34], spacingMm: [3.5, 3.5, 3.5], nVolumes: 10, thermalNoiseSd: 5, rician: true,
+  motion: { wanderStepMm: 0.03, wanderStepDeg: 0.03, jerk: { volume: 7, durationVolumes: null, shiftMm: [0.8, -0.5, 1], rotationDeg: [1.5, 0, -1] } },
   structural: { ...defaultPhantomStructural(), dims: [60, 72, 56], spacingMm: [2.5, 2.5, 2.5], supersample: 1 },
   template: { ...defaultPhantomTemplate(), dims: [40, 50, 38], spacingMm: 4, originVoxel: [20, 27, 18], supersample: 1 },
 }));
@@ -77,6 +77,22 @@ describe('align step: run -> structural -> template', () => {
     // the affine to a 4 mm template: within half a template voxel over the head (70 mm from its centre)
     expect(largestPointErrorMm(e.templateFromStructural, g.templateFromStructural!, 70)).toBeLessThan(2);
     expect(e.templateGrid.dims).toEqual([40, 50, 38]);
+  }, 120_000);
+
+  it('with motion \'estimate\' the poses come from the registration engine and match the phantom\'s (the first volume the reference)', async () => {
+    // volumes 4-9: past the approach to steady state (a brighter first volume is a poor reference,
+    // which is why a recipe drops those volumes first), across the jerk at volume 7
+    const n = 44 * 52 * 34;
+    const steady = makeVolume({ ...run.volume, dims: [44, 52, 34, 6], data: run.volume.data.slice(4 * n) });
+    const params = parseStepParams('align', { ...paths, kernel: 'linear' }) as Parameters<typeof alignEstimate>[1];
+    expect(params.motion).toBe('estimate');
+    const e = await alignEstimate(steady, params, context);
+    const poses = phantomAcquisitionModel(run).poses!;
+    const fromVolume4 = poses.slice(4).map((p) => composeAffine(p, invertAffine(poses[4])));
+    // least squares on 3.5 mm voxels without physiological noise: 0.25 mm on a 50 mm sphere is a
+    // fourteenth of a voxel (the engine's own tests hold 0.1 mm and 0.1 degree separately)
+    e.volumeFromReference!.forEach((p, t) => expect(largestPointErrorMm(p, fromVolume4[t], 50), `volume ${t + 4}`).toBeLessThan(0.25));
+    expect(e.diagnostics.motionReference).toBe('volume 0');
   }, 120_000);
 
   it('carries a planted activation to where truthInFrame puts the truth on the template grid (concatenated and per stage)', async () => {
