@@ -22,6 +22,7 @@ export { openRun, readNifti, writeNifti, readSidecar, readEvents } from './io/in
 // look
 export {
   lookAtRun, lookConsoleLines, findingsTable, meanImage, voxelRasterRows,
+  motionEdgeSignature, type MotionEdgeSignature, type LookMotion, withLookMotion, estimateLookMotion,
 } from './look/index.js';
 
 // acquisition model (head pose per volume, B0 displacement, slice times)
@@ -53,6 +54,9 @@ export {
 
 // model
 export { hrfValues, buildDesign, fitGlm, fitGlmAr1, contrastMaps, estimateSmoothness } from './model/index.js';
+export {
+  framewiseDisplacement, FD_SPHERE_RADIUS_MM, FD_CENSOR_THRESHOLD_MM, fdCensorVolumes, motionExpansion, motionRegressors, type MotionRegressorCount,
+} from './model/index.js';
 export { thresholdUncorrected, thresholdBonferroni, thresholdFdr, thresholdRft, thresholdClusterExtent } from './model/index.js';
 
 // score
@@ -73,7 +77,7 @@ export {
   RESEARCH_CAUTION, renderSvg, threePlaneSvg, sliceGridSvg, voxelRasterSvg, lookPageHtml, tableHtml, lookTracesSpec, voxelTimeCourseSpec, chosenVoxels, maskCentre,
   writeLookFolder, detectionChart, falseAlarmChart, rocChart, smoothnessChart, tsnrChart, methodsText, methodsMarkdown,
   thresholdText, runFacts, writeReport, writeSweepFolder, readDecisionRecord, recordDir, rerunRecord, repeatedResamplingChart,
-  readLookFolder, starterSpecYaml,
+  readLookFolder, starterSpecYaml, motionTableSpec, fdTraceSpec, edgeSignatureSpec,
 } from './report/index.js';
 
 // the digital phantom

@@ -40,6 +40,7 @@ interface SweepCliOptions {
   events?: string;
   sidecar?: string;
   motionTable?: string;
+  estimateMotion: boolean;
   fieldMap?: string;
   force?: boolean;
 }
@@ -60,7 +61,8 @@ export function registerSweepCommand(program: Command): Command {
     .option('--look <dir>', 'look folder of this run ("boldsweep look"): its bright first volumes are dropped and abrupt changes censored where the spec leaves them open')
     .option('--events <file>', 'events TSV (onset, duration, trial_type) when it is not beside the run as <name>_events.tsv')
     .option('--sidecar <file>', 'BIDS sidecar JSON when it is not beside the run as <name>.json')
-    .option('--motion-table <file>', 'the head\'s position at each volume (TSV: shiftXMm shiftYMm shiftZMm rotXDeg rotYDeg rotZDeg, one row per volume): planted activations move with the head')
+    .option('--motion-table <file>', 'the head\'s position at each volume (TSV: shiftXMm shiftYMm shiftZMm rotXDeg rotYDeg rotZDeg, one row per volume): planted activations move with the head, and the model\'s motion regressors and FD censoring use it')
+    .option('--no-estimate-motion', 'without --motion-table, keep the planted activations still instead of estimating the run\'s motion (rigid, least squares, to the middle volume; cached) and planting with it')
     .option('--field-map <file>', 'B0 field map in Hz on the run\'s grid: planted activations are displaced along phase encode (needs PhaseEncodingDirection and TotalReadoutTime or EffectiveEchoSpacing in the sidecar)')
     .option('--workers <n>', 'worker threads (default: the spec\'s workers)', positiveInt)
     .option('--shard <i/N>', 'run only shard i of N (1-based), e.g. one task of a cluster job array; merge with "boldsweep gather"')
@@ -89,6 +91,7 @@ Example:
         const expected = basename(siblingCandidates(runPath).events[0]);
         fail('EVENTS_MISSING', `the spec plants and models the run's own task timing, but ${o.events ? `${o.events} holds no events` : `there is no events file ${expected} beside ${basename(runPath)}`} (pass one with --events <file>)`);
       }
+      const motionTable = o.motionTable ? await readMotionTable(o.motionTable) : null;
       if (o.look) {
         const look = readLookFolder(o.look);
         const sha = await hashFile(run.files.image ?? runPath);
@@ -98,8 +101,11 @@ Example:
         spec = applied.spec;
         for (const n of applied.notes) console.log(`look: ${n}`);
         if (!applied.notes.length) console.log(`look: the spec treats the look's findings (drop ${look.dropInitialVolumes}, censor ${look.censorVolumes.join(', ') || 'none'})`);
+        // what applying the look does not settle (volumes moved above the FD threshold: a model choice)
+        for (const w of untreatedFindings(spec, look)) console.error(`warning: ${w}`);
       } else {
-        const warnings = untreatedFindings(spec, lookAtRun(run).recommendation);
+        const own = lookAtRun(run, { motionTable });
+        const warnings = untreatedFindings(spec, { ...own.recommendation, movedVolumes: own.motion.aboveThreshold, fdThresholdMm: own.motion.fdThresholdMm });
         for (const w of warnings) console.error(`warning: ${w}`);
         if (warnings.length) console.error(`warning: the sweep runs as the spec says; to treat these, pass --look <dir> (from "boldsweep look ${basename(runPath)} --out <dir>") or edit ${o.spec}`);
       }
@@ -109,7 +115,6 @@ Example:
         placement: o.placement ? await maskFromFile(o.placement, { values: o.placementValues }) : { kind: 'brain' },
         exclude: o.exclude ? await maskFromFile(o.exclude, { above: o.excludeAbove ?? 0, growVoxels: o.excludeGrow }) : null,
       };
-      const motionTable = o.motionTable ? await readMotionTable(o.motionTable) : null;
       let fieldMapHz: Float32Array | null = null;
       if (o.fieldMap) {
         const field = (await readNifti(o.fieldMap)).volume;
@@ -127,12 +132,13 @@ Example:
       const bar = o.progress ? terminalProgress() : null;
       let result;
       try {
-        result = await runSweep(run, spec, { workers: o.workers, shard: o.shard ?? null, cacheDir, brainMask, placementMask, excludeMask, motionTable, fieldMapHz, onProgress: bar?.update });
+        result = await runSweep(run, spec, { workers: o.workers, shard: o.shard ?? null, cacheDir, brainMask, placementMask, excludeMask, motionTable, estimateMotion: o.estimateMotion, fieldMapHz, onProgress: bar?.update });
       } finally {
         bar?.stop();
       }
       await writeSweepFolder(o.out, { result, run: runFacts(run), masks }, { force: o.force, inputs });
       const s = result.stats;
+      if (result.motion?.source === 'estimated') console.log(`planted activations move with the run's estimated motion (${result.motion.method}; ${result.motion.fromCache ? 'from the cache' : `${result.motion.seconds.toFixed(1)} s`})`);
       console.log(`${s.cellsRun} cells (${s.cellsComputed} computed, ${s.cellsFromCache} from cache) in ${s.wallSeconds.toFixed(1)} s; wrote ${join(o.out, 'scorecard.tsv')}`);
       if (result.shard && result.shard.count > 1) console.log(`next: when all ${result.shard.count} shards are done: boldsweep gather <shard folders...> --out <folder>, then boldsweep report <folder>`);
       else console.log(`next: boldsweep report ${o.out}`);

@@ -50,6 +50,7 @@ export const ERROR_ADVICE = {
   // acquisition model (head motion, B0 field, slice times)
   MOTION_TABLE_LENGTH: 'A motion table needs one row per volume of the run it describes (the raw run, before any volumes are dropped); give the table of this run.',
   MOTION_TABLE_INVALID: 'Fix the named row of the motion table: shifts in mm and rotations in degrees, all finite, rows in volume order from 0 (a pose must be an invertible affine).',
+  MOTION_TABLE_MISSING: 'Motion regressors and censoring by framewise displacement need the run\'s motion table: give it (--motion-table <tsv> on the command line, the motionTable option of runSweep), or set model.motionRegressors to 0 and model.censorFdMm to null.',
   FIELD_MAP_INVALID: 'Give one 3D field map in Hz with finite values on the run\'s grid (set voxels outside the head to 0, not NaN).',
   READOUT_TIME_MISSING: 'A field map displaces the signal by (Hz x total readout time): set TotalReadoutTime (s) in the BIDS sidecar, or EffectiveEchoSpacing (s) from which it is computed, or pass totalReadoutTimeSec.',
   PHASE_ENCODE_MISSING: 'A field map displaces the signal along the phase-encode axis: set PhaseEncodingDirection (i, j or k, with - for the reversed direction) in the BIDS sidecar, or pass phaseEncodingDirection.',

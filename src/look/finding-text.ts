@@ -14,6 +14,7 @@ export const FINDING_ADVICE: Record<FindingKind, string> = {
   'voxel-spike': 'A single-voxel spike barely moves a model fit; leave it, or despike. Censor the volume only when many voxels spike together.',
   'unstable-voxel': 'One voxel departs from its own time course at several volumes (often a vessel, or a voxel at the edge of the brain or of a signal void); its own series is unreliable, the rest of the run is not. Leave it out of region-of-interest averages or despike it; do not censor volumes for it.',
   'empty-slices': 'Check the acquisition: slices that hold only zeros were not recorded or were padded in conversion; if the field of view should cover them, the run is incomplete there. They are left out of every measure.',
+  'head-motion': 'Model the motion and censor these volumes: in a sweep, model.censorFdMm (the threshold in mm) gives each volume above it its own regressor, and model.motionRegressors (6, 12 or 24) adds the motion table to the model; sweep both to see which detects best on this run. Check the motion table for a jerk at these times.',
   'non-finite': 'These voxels are excluded from every measure; mask or repair them before preprocessing (boldsweep does not guess values).',
 };
 

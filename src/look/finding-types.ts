@@ -8,7 +8,8 @@ export type FindingKind =
   | 'voxel-spike'
   | 'unstable-voxel'
   | 'non-finite'
-  | 'empty-slices';
+  | 'empty-slices'
+  | 'head-motion';
 
 /** One thing the look found, with the numbers behind it and what to do. */
 export interface Finding {

@@ -33,3 +33,7 @@ export { medianOf } from './median-of.js';
 export { summariseInMask, type MapSummary } from './map-summary.js';
 export { orthonormalDrift, detrendSeries } from './orthonormal-drift.js';
 export { voxelRasterRows, type VoxelRasterRows } from './voxel-raster-rows.js';
+export { motionEdgeSignature, type MotionEdgeSignature } from './motion-edge-signature.js';
+export { lookMotion, type LookMotion } from './look-motion.js';
+export { withLookMotion } from './with-look-motion.js';
+export { estimateLookMotion, LOOK_MOTION_LEVELS } from './estimate-look-motion.js';

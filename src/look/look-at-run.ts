@@ -21,6 +21,9 @@ import { voxelSpikes, type VoxelSpike } from './voxel-spikes.js';
 import { rankFindings } from './rank-findings.js';
 import { sliceFindings } from './slice-findings.js';
 import { spikeFindings } from './spike-findings.js';
+import { lookMotion, type LookMotion } from './look-motion.js';
+import type { MotionRow } from '../acquire/rigid-motion-affine.js';
+import { FD_CENSOR_THRESHOLD_MM } from '../model/framewise-displacement.js';
 
 /** Fewest volumes a look accepts: robust z-scores and the steady-state reference window need them. */
 export const LOOK_MIN_VOLUMES = 12;
@@ -80,6 +83,16 @@ export interface LookOptions {
   flipAngleDeg?: number;
   /** Most spike findings listed (volumes with the strongest spikes first; default 20). */
   maxSpikeFindings?: number;
+  /**
+   * The head's position at each volume (shifts mm, rotations degrees; one row per volume of the run
+   * as opened), for framewise displacement and the head-motion finding. Without it the look reports
+   * the motion edge signature only.
+   */
+  motionTable?: readonly MotionRow[] | null;
+  /** How the motion table was obtained, in words (default 'given by the caller'). */
+  motionTableMethod?: string;
+  /** Framewise displacement above which a volume is reported, mm (default 0.5: common practice, and Power et al. 2012's). */
+  fdThresholdMm?: number;
 }
 
 /** Everything a look found: maps, traces, findings and the recommendation. */
@@ -122,6 +135,8 @@ export interface LookResult {
   sliceOutliers: SliceOutliers;
   /** Every spike found in the kept, uncensored volumes. */
   spikes: VoxelSpike[];
+  /** Head motion: framewise displacement (with a motion table) and the motion edge signature. */
+  motion: LookMotion;
   /** Findings ranked by consequence (rankFindings): the most consequential first. */
   findings: Finding[];
   /** Checks not run for want of information (e.g. no sidecar), with how to supply it. */
@@ -129,7 +144,7 @@ export interface LookResult {
   /** One line per finding, same order. */
   verdicts: string[];
   recommendation: { dropInitialVolumes: number; censorVolumes: number[]; why: string[] };
-  settings: Required<Omit<LookOptions, 'mask' | 'flipAngleDeg' | 'dropInitialVolumes'>> & { dropInitialVolumes: number | 'auto'; ddof: number; maskSource: 'otsu' | 'user' };
+  settings: Required<Omit<LookOptions, 'mask' | 'flipAngleDeg' | 'dropInitialVolumes' | 'motionTable' | 'motionTableMethod'>> & { dropInitialVolumes: number | 'auto'; ddof: number; maskSource: 'otsu' | 'user' };
   dims: [number, number, number, number];
   trSec: number;
 }
@@ -150,7 +165,9 @@ export interface LookResult {
  *   5. mean, detrended SD, tSNR, lag-1 per voxel over kept, uncensored volumes: the sums of phase 1 minus
  *      the dropped and censored volumes' terms [those volumes only]; standardised DVARS; spike screen from
  *      the residual extremes, exact for the few undecided voxels, spikes scored on the candidates [few voxels]
- *   6. findings, verdicts, recommendation
+ *   6. head motion: the motion edge signature [mask edge voxels only] and, with a motion table,
+ *      framewise displacement and the volumes above its threshold
+ *   7. findings, verdicts, recommendation
  * @param input - a Run (sidecar gives FlipAngle) or a 4D Volume
  * @param options - see {@link LookOptions}
  * @returns the look
@@ -305,6 +322,10 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
   const explainedVolume = new Set(sl.wholeVolumeEvents);
   const unexplained = spikes.filter((s) => !explainedVolume.has(s.volume));
   findings.push(...spikeFindings(unexplained, { cutoffZ: spikeCutoffZ, voxelsForCensor: SPIKE_VOXELS_FOR_CENSOR, maxIsolated: maxSpikeFindings }));
+  // head motion: the edge signature always (a read of the mask's edge voxels), FD when a table is known
+  const fdThresholdMm = options.fdThresholdMm ?? FD_CENSOR_THRESHOLD_MM;
+  const { motion, finding: motionFinding } = lookMotion(run, mask.mask, { table: options.motionTable ?? null, source: options.motionTable ? 'given' : null, method: options.motionTableMethod ?? 'given by the caller', fdThresholdMm, firstVolume: drop });
+  if (motionFinding) findings.push(motionFinding);
   const ranked = rankFindings(findings);
   const skipped: SkippedCheck[] = [];
   if (unclearMask) {
@@ -346,10 +367,10 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
     },
     steadyState: { dataCount: onset.count, onset, modelCount, model, perVoxel },
     dvarsFromFewVoxels,
-    volumeOutliers: vol, sliceOutliers: sl, spikes,
+    volumeOutliers: vol, sliceOutliers: sl, spikes, motion,
     findings: ranked, skipped, verdicts: ranked.map((f) => f.verdict),
     recommendation: { dropInitialVolumes: drop, censorVolumes, why },
-    settings: { detrendOrder, volumeCutoffZ, sliceCutoffZ, spikeCutoffZ, steadyCutoffZ, t1Sec: model?.t1Sec ?? options.t1Sec ?? GREY_MATTER_T1_SEC_3T, maxSpikeFindings, dropInitialVolumes: options.dropInitialVolumes ?? 'auto', ddof: stats.ddof, maskSource: mask.source },
+    settings: { detrendOrder, volumeCutoffZ, sliceCutoffZ, spikeCutoffZ, steadyCutoffZ, t1Sec: model?.t1Sec ?? options.t1Sec ?? GREY_MATTER_T1_SEC_3T, maxSpikeFindings, fdThresholdMm, dropInitialVolumes: options.dropInitialVolumes ?? 'auto', ddof: stats.ddof, maskSource: mask.source },
     dims: [nx, ny, nz, nt], trSec,
   };
   spareSums = sums; // nothing returned above refers to the sums' arrays

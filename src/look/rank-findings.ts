@@ -2,7 +2,8 @@ import type { Finding, FindingKind } from './finding-types.js';
 
 /**
  * Order of consequence per kind, most consequential first: values that cannot be used at all, then
- * volumes removed from the start, then volumes censored (whole-image events before slice events),
+ * volumes removed from the start, then volumes censored (whole-image events and volumes moved above
+ * the framewise-displacement threshold before slice events),
  * then one voxel's series unreliable, then isolated spikes that change nothing.
  */
 export const CONSEQUENCE_TIER: Readonly<Record<FindingKind, number>> = {
@@ -10,6 +11,7 @@ export const CONSEQUENCE_TIER: Readonly<Record<FindingKind, number>> = {
   'empty-slices': 0,
   'non-steady-start': 1,
   'volume-jump': 2,
+  'head-motion': 2,
   'global-signal': 3,
   'slice-dropout': 4,
   'slice-bright': 5,

@@ -33,3 +33,8 @@ export { thresholdCalibrated, calibratedCriticalValue, minimumNullDesigns, type 
 export { thresholdRftBonferroni, type RftBonferroniDetails } from './threshold-rft-bonferroni.js';
 export { clusterTheory, clusterFweP, minClusterVoxels, type ClusterTheory, type ClusterTheoryInput } from './cluster-extent.js';
 export { thresholdClusterExtent, type ClusterExtentOptions, type ClusterExtentDetails, type ClusterInfo } from './threshold-cluster.js';
+// motion in the model
+export { framewiseDisplacement, FD_SPHERE_RADIUS_MM, FD_CENSOR_THRESHOLD_MM, type MotionParameters } from './framewise-displacement.js';
+export { motionExpansion, MOTION_REGRESSOR_COUNTS, type MotionRegressorCount, type MotionColumns } from './motion-expansion.js';
+export { motionRegressors } from './motion-regressors.js';
+export { fdCensorVolumes } from './fd-censor-volumes.js';

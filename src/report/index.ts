@@ -34,3 +34,4 @@ export { thresholdText } from './threshold-text.js';
 export { softwareVersions, packageRoot } from './software-versions.js';
 export { readLookFolder, type LookFolderFacts } from './read-look-folder.js';
 export { starterSpecYaml, STARTER_SPEC_HEADER } from './starter-spec-yaml.js';
+export { motionTableSpec, fdTraceSpec, edgeSignatureSpec } from './look-motion-charts.js';

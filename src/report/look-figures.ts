@@ -3,6 +3,7 @@ import type { LookResult } from '../look/look-at-run.js';
 import { maskRings } from '../look/mask-rings.js';
 import { voxelRasterRows } from '../look/voxel-raster-rows.js';
 import { lookTracesSpec, voxelTimeCourseSpec } from './look-charts.js';
+import { edgeSignatureSpec, fdTraceSpec, motionTableSpec } from './look-motion-charts.js';
 import { renderSvg } from './render-svg.js';
 import { sliceGridSvg } from './slice-grid-svg.js';
 import { threePlaneSvg } from './three-plane-svg.js';
@@ -72,8 +73,9 @@ export function maskCentre(look: Pick<LookResult, 'dims' | 'mask'>): [number, nu
 /**
  * Every figure of a look (SVG, text set as vector text): the mask outlined on the mean image and the
  * masked tSNR through the mask centre (three planes), axial grids of the mask on the mean image and of
- * the masked tSNR and SD (outside the mask drawn as background, the outline in every map), the voxel raster under the traces, the traces alone, and voxel time
- * courses. Titles say what each shows; every image has its unit and L/R marked.
+ * the masked tSNR and SD (outside the mask drawn as background, the outline in every map), the voxel raster under the traces, the traces alone, voxel time
+ * courses, and head motion (the motion table and framewise displacement when the look has a table,
+ * the motion edge signature always). Titles say what each shows; every image has its unit and L/R marked.
  * @param run - the run that was looked at
  * @param look - its look
  * @returns the figures, in reading order
@@ -96,5 +98,13 @@ export async function lookFigures(run: Volume, look: LookResult): Promise<LookFi
   figures.push({ file: 'voxel-raster.svg', title: 'Voxel raster: every sampled voxel by depth below the mask surface, per-volume measures fused on top', kind: 'svg', data: await voxelRasterSvg(look, rows) });
   figures.push({ file: 'traces.svg', title: 'Per-volume traces: global mean, standardised DVARS, DVARS %', kind: 'svg', data: await renderSvg(lookTracesSpec(look)) });
   figures.push({ file: 'voxel-time-courses.svg', title: 'Time courses of chosen voxels', kind: 'svg', data: await renderSvg(voxelTimeCourseSpec(run, look, chosenVoxels(look))) });
+  // head motion: the table and its framewise displacement when the look has a table, the edge
+  // signature always (it needs only the run and the mask)
+  const motion = look.motion;
+  if (motion.table) {
+    figures.push({ file: 'motion-table.svg', title: `Motion table: shifts (mm) and rotations (degrees) against volume (${motion.source === 'estimated' ? 'estimated, ' : ''}${motion.method})`, kind: 'svg', data: await renderSvg(motionTableSpec(look)) });
+    figures.push({ file: 'framewise-displacement.svg', title: `Framewise displacement against volume, threshold ${motion.fdThresholdMm} mm`, kind: 'svg', data: await renderSvg(fdTraceSpec(look)) });
+  }
+  if (motion.edgeSignature) figures.push({ file: 'edge-signature.svg', title: 'Motion edge signature: opposite-signed change at opposite edges of the brain mask, per voxel axis', kind: 'svg', data: await renderSvg(edgeSignatureSpec(look)) });
   return figures;
 }

@@ -59,11 +59,25 @@ ${summaryRow('tSNR', look.summaries.tsnr, 'dimensionless')}
 </tbody></table>
 <p><b>Brain mask:</b> ${look.mask.voxels} voxels; ${e(look.mask.method)}.</p>
 <p><b>Steady state:</b> the global mean settles after ${steady.dataCount} volume${steady.dataCount === 1 ? '' : 's'}${steady.modelCount !== null ? `; the grey-matter model predicts ${steady.modelCount}` : ''}${steady.perVoxel ? `; the per-voxel model ${steady.perVoxel.count}` : ''}.</p>
+${motionHtml(look)}
 <p class="small">Cutoffs (robust z): volumes ${look.settings.volumeCutoffZ}, slices ${look.settings.sliceCutoffZ}, spikes ${look.settings.spikeCutoffZ}; drift order ${look.settings.detrendOrder}.</p></section>
 ${figures.length ? `<section id="figures"><h2>Figures</h2>\n${figureHtml}</section>` : ''}
 <p class="caution">${e(RESEARCH_CAUTION)}</p>
 </body></html>
 `;
+}
+
+/** The head-motion paragraph: where the motion table came from, FD against its threshold, the edge signature. */
+function motionHtml(look: LookResult): string {
+  const e = escapeHtml;
+  const m = look.motion;
+  const drop = look.recommendation.dropInitialVolumes;
+  const sig = m.edgeSignature ? ` Motion edge signature (before correction; change at the + edge minus the - edge of the mask, % of the edge signal; RMS over volumes): i ${m.edgeSignature.rmsPct[0].toFixed(2)} %, j ${m.edgeSignature.rmsPct[1].toFixed(2)} %, k ${m.edgeSignature.rmsPct[2].toFixed(2)} %.` : ' The mask has no edge on some side, so no motion edge signature.';
+  if (!m.fdMm) return `<p><b>Head motion:</b> no motion table, so no framewise displacement (give one: --motion-table on the command line, motionTable in lookAtRun).${e(sig)}</p>`;
+  const kept = Array.from(m.fdMm.subarray(drop + 1));
+  const max = kept.length ? Math.max(...kept) : 0;
+  const mean = kept.length ? kept.reduce((a, b) => a + b, 0) / kept.length : 0;
+  return `<p><b>Head motion:</b> motion table ${m.source === 'estimated' ? 'estimated by the look' : 'given'} (${e(m.method)}). Framewise displacement (Power et al. 2012; 50 mm sphere) over the kept volumes: mean ${mean.toFixed(3)} mm, maximum ${max.toFixed(2)} mm; ${m.aboveThreshold.length} volume${m.aboveThreshold.length === 1 ? '' : 's'} above ${m.fdThresholdMm} mm${m.aboveThreshold.length ? ` (${e(describeVolumes(m.aboveThreshold))})` : ''}.${e(sig)}</p>`;
 }
 
 function fmt(x: number): string {

@@ -31,7 +31,27 @@ export const METHOD_REFERENCES = {
   student: 'Student (1908) Biometrika 6(1):1-25',
   lesserOf: 'Nichols T, Hayasaka S (2003) Stat Methods Med Res 12(5):419-446',
   permutation: 'Nichols TE, Holmes AP (2002) Hum Brain Mapp 15(1):1-25',
+  motionRegressors: 'Friston KJ, Williams S, Howard R, Frackowiak RSJ, Turner R (1996) Magn Reson Med 35(3):346-355',
+  framewiseDisplacement: 'Power JD, Barnes KA, Snyder AZ, Schlaggar BL, Petersen SE (2012) NeuroImage 59(3):2142-2154',
 } as const;
+
+/** The model's motion terms as chosen (or fixed in the spec), as a clause starting with ', ', or ''. */
+function motionModelText(r: DecisionRecord, cite: (ref: string) => string): string {
+  // a varied option's chosen value (null too: no censoring) overrides the spec's fixed one
+  const chosen = (key: 'motionRegressors' | 'censorFdMm') => (`model.${key}` in r.choice.setting ? r.choice.setting[`model.${key}`] : r.sweepSpec.model[key]) ?? null;
+  const count = Number(chosen('motionRegressors') ?? 0);
+  const fd = chosen('censorFdMm');
+  // cited only when used (cite() adds to the reference list)
+  const what: Record<number, () => string> = {
+    6: () => 'the six rigid-body motion parameters',
+    12: () => 'the six rigid-body motion parameters and their differences from the volume before',
+    24: () => `the six rigid-body motion parameters, their values one volume earlier and the squares of both (${cite(METHOD_REFERENCES.motionRegressors)})`,
+  };
+  const parts: string[] = [];
+  if (what[count]) parts.push(`${count} mean-centred motion regressors: ${what[count]()}`);
+  if (typeof fd === 'number') parts.push(`one indicator regressor for each volume whose framewise displacement (${cite(METHOD_REFERENCES.framewiseDisplacement)}; rotations as arc length on a 50 mm sphere) exceeded ${fd} mm`);
+  return parts.map((p) => `, ${p}`).join('');
+}
 
 const num = (x: number | null | undefined, d = 2) => (x === null || x === undefined || !Number.isFinite(x) ? 'n/a' : x.toFixed(d));
 
@@ -108,7 +128,7 @@ export function methodsText(r: DecisionRecord): MethodsText {
   const drift = spec.model.highpassCutoffSec ? `, discrete cosine drift regressors with a ${spec.model.highpassCutoffSec} s cutoff` : '';
   const cv = spec.model.censorVolumes;
   const censored = cv.length ? `, one indicator regressor for each of the ${cv.length} censored volumes (volume${cv.length === 1 ? '' : 's'} ${cv.length === 1 ? cv[0] : `${cv.slice(0, -1).join(', ')} and ${cv[cv.length - 1]}`}, numbered from 0 in the run as acquired)` : '';
-  const glm = `Each voxel inside the brain mask was fitted with a general linear model (${cite(METHOD_REFERENCES.glm)}) whose regressor of interest was ${cond} convolved with a canonical double-gamma haemodynamic response (${cite(METHOD_REFERENCES.hrf)})${drift}${censored}, and an intercept.`;
+  const glm = `Each voxel inside the brain mask was fitted with a general linear model (${cite(METHOD_REFERENCES.glm)}) whose regressor of interest was ${cond} convolved with a canonical double-gamma haemodynamic response (${cite(METHOD_REFERENCES.hrf)})${drift}${censored}${motionModelText(r, cite)}, and an intercept.`;
   // the chosen value when the sweep varied it; a record from before the option existed was unsmoothed
   const arFwhm = Number(choice.setting['model.ar1SmoothFwhmMm'] ?? spec.model.ar1SmoothFwhmMm ?? 0);
   const arSmooth = arFwhm > 0 ? `bias-corrected and spatially smoothed with a ${arFwhm} mm FWHM Gaussian kernel within the brain mask` : 'bias-corrected and estimated separately at each voxel';

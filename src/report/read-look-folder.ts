@@ -18,6 +18,10 @@ export interface LookFolderFacts {
   /** Why, one line per reason. */
   why: string[];
   findings: Finding[];
+  /** Volumes above the look's framewise-displacement threshold (empty when the look had no motion table). */
+  movedVolumes: number[];
+  /** That threshold, mm (null in a folder written before the look reported motion). */
+  fdThresholdMm: number | null;
 }
 
 /**
@@ -48,5 +52,15 @@ export function readLookFolder(dir: string): LookFolderFacts {
     dropInitialVolumes: rec.dropInitialVolumes, censorVolumes: (rec.censorVolumes as unknown[]).filter((v): v is number => Number.isInteger(v)),
     why: Array.isArray(rec.why) ? rec.why.filter((w): w is string => typeof w === 'string') : [],
     findings: Array.isArray(json.findings) ? (json.findings as Finding[]) : [],
+    ...lookMotionFacts(json.motion),
+  };
+}
+
+/** The moved volumes and FD threshold of findings.json's motion summary (absent in older folders). */
+function lookMotionFacts(motion: unknown): { movedVolumes: number[]; fdThresholdMm: number | null } {
+  const m = (motion ?? {}) as { volumesAboveThreshold?: unknown; fdThresholdMm?: unknown };
+  return {
+    movedVolumes: Array.isArray(m.volumesAboveThreshold) ? m.volumesAboveThreshold.filter((v): v is number => Number.isInteger(v)) : [],
+    fdThresholdMm: typeof m.fdThresholdMm === 'number' ? m.fdThresholdMm : null,
   };
 }

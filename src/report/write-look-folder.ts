@@ -11,6 +11,7 @@ import { addOutputFiles, claimOutputFolder, settleOutputSet } from '../io/output
 import type { LookResult } from '../look/look-at-run.js';
 import { lookFigures } from './look-figures.js';
 import { lookPageHtml } from './look-page.js';
+import { FD_SPHERE_RADIUS_MM } from '../model/framewise-displacement.js';
 
 /** The run a look was made from, as findings.json records it. */
 export interface LookSource {
@@ -47,13 +48,29 @@ export function lookSummaryJson(look: LookResult, source: LookSource | string): 
     dvarsNullExpectation: look.series.dvarsNullExpectation,
     dvarsFromFewVoxels: look.dvarsFromFewVoxels,
     recommendation: look.recommendation,
+    motion: lookMotionJson(look),
     findings: look.findings,
+  };
+}
+
+/** The motion part of findings.json: where the table came from, FD summary, edge signature size. */
+function lookMotionJson(look: LookResult): Record<string, unknown> {
+  const m = look.motion;
+  const kept = m.fdMm ? Array.from(m.fdMm.subarray(look.recommendation.dropInitialVolumes + 1)) : [];
+  const r = (x: number) => Math.round(x * 1e4) / 1e4;
+  return {
+    motionTable: m.source, method: m.method, fdThresholdMm: m.fdThresholdMm, fdSphereRadiusMm: FD_SPHERE_RADIUS_MM,
+    volumesAboveThreshold: m.aboveThreshold,
+    maxFdMm: kept.length ? r(Math.max(...kept)) : null, meanFdMm: kept.length ? r(kept.reduce((a, b) => a + b, 0) / kept.length) : null,
+    edgeSignatureRmsPct: m.edgeSignature ? m.edgeSignature.rmsPct.map(r) : null,
+    edgeSignatureAxes: 'voxel axes i, j, k of the run',
   };
 }
 
 /**
  * Per-volume traces as TSV text: volume, time, global mean, DVARS, standardised DVARS, robust z of
- * DVARS and of the global mean, and whether the volume is dropped or censored.
+ * DVARS and of the global mean, whether the volume is dropped or censored, framewise displacement (mm;
+ * n/a without a motion table) and the motion edge signature per voxel axis (%).
  * @param look - the look
  * @returns TSV with a header row
  * @example await writeFileAtomic('series.tsv', lookSeriesTsv(look))
@@ -62,10 +79,12 @@ export function lookSeriesTsv(look: LookResult): string {
   const nt = look.dims[3];
   const censored = new Set(look.recommendation.censorVolumes);
   const f = (x: number) => (Number.isFinite(x) ? String(Math.round(x * 1e6) / 1e6) : 'n/a');
-  const lines = ['volume\ttime_sec\tglobal_mean\tdvars\tdvars_standardised\tdvars_z\tglobal_z\tdropped\tcensored'];
+  const lines = ['volume\ttime_sec\tglobal_mean\tdvars\tdvars_standardised\tdvars_z\tglobal_z\tdropped\tcensored\tfd_mm\tedge_signature_i_pct\tedge_signature_j_pct\tedge_signature_k_pct'];
+  const { fdMm, edgeSignature } = look.motion;
   for (let t = 0; t < nt; t++) {
     const s = look.series;
-    lines.push([t, f(t * look.trSec), f(s.globalMean[t]), f(s.dvars[t]), f(s.dvarsStandardised[t]), f(s.dvarsZ[t]), f(s.globalZ[t]), t < look.recommendation.dropInitialVolumes ? 1 : 0, censored.has(t) ? 1 : 0].join('\t'));
+    const edge = edgeSignature ? edgeSignature.axes.map((a) => f(a[t])) : ['n/a', 'n/a', 'n/a'];
+    lines.push([t, f(t * look.trSec), f(s.globalMean[t]), f(s.dvars[t]), f(s.dvarsStandardised[t]), f(s.dvarsZ[t]), f(s.globalZ[t]), t < look.recommendation.dropInitialVolumes ? 1 : 0, censored.has(t) ? 1 : 0, fdMm ? f(fdMm[t]) : 'n/a', ...edge].join('\t'));
   }
   return lines.join('\n') + '\n';
 }

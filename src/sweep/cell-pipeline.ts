@@ -37,6 +37,7 @@ import { shiftEvents } from '../steps/drop-initial-volumes.js';
 import { thresholdRftBonferroni } from '../model/threshold-rft-bonferroni.js';
 import type { BoldEvent } from '../io/run-types.js';
 import { randomBlockEvents } from './random-block-events.js';
+import { motionNuisance } from './motion-nuisance.js';
 
 /*
  * One task of a sweep, in a worker thread or in the main thread (same code, same bytes):
@@ -318,14 +319,19 @@ function release(): void {
 }
 
 /**
- * The design of a cell's model: the events' regressors, drift, one indicator per censored volume.
+ * The design of a cell's model: the events' regressors, drift, one indicator per censored volume
+ * (listed, or above the framewise-displacement limit), the motion regressors, the steps' regressors.
  * Censored volumes are indexed in the run as opened; steps may only have removed initial volumes.
  */
 function cellDesign(events: readonly BoldEvent[], volume: Volume, ctx: SweepContext, model: CellPlan['model'], regressors: readonly NuisanceRegressor[] = [], sliceTimesSec: Float64Array | null = null): ReturnType<typeof buildDesign> {
   const nt = volume.dims[3];
   const offset = ctx.run.dims[3] - nt;
-  const nuisance: NuisanceRegressor[] = [...new Set(model.censorVolumes)].sort((a, b) => a - b).map((c) => c - offset).filter((c) => c >= 0 && c < nt)
+  // motion terms from the sweep's motion table: volumes censored by framewise displacement join the
+  // listed ones (one indicator each), and the motion columns follow the censoring columns
+  const motion = motionNuisance(ctx.acquisition.motionTable, nt, model);
+  const nuisance: NuisanceRegressor[] = [...new Set([...model.censorVolumes, ...motion.censorVolumes])].sort((a, b) => a - b).map((c) => c - offset).filter((c) => c >= 0 && c < nt)
     .map((c) => ({ name: `censor_${c + offset}`, values: Float64Array.from({ length: nt }, (_, t) => (t === c ? 1 : 0)) }));
+  nuisance.push(...motion.regressors);
   nuisance.push(...regressors.map((r) => stepRegressor(r, nt)));
   // slice times aligned to one time by a step: the task regressor is sampled then (else mid-volume)
   const sampleTimeSec = modelSampleTimeSec(sliceTimesSec, volume.trSec);

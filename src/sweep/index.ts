@@ -8,7 +8,7 @@ export { settingsGrid, settingLabel, settingText, parameterName, parameterUnit, 
 export { planSweep, firstVariedStep, CACHE_FORMAT, type SweepPlan, type CellPlan, type CellGroup, type PlantCondition, type PlanInputs } from './plan.js';
 export { parseShard, shardCells, type Shard } from './shard.js';
 export { canonicalJson, stableHash } from './stable-hash.js';
-export { runSweep, volumeHash, type SweepOptions, type SweepResult, type SweepRunInput, type SweepStats } from './runner.js';
+export { runSweep, volumeHash, modelNeedsMotion, fewestDropped, type SweepOptions, type SweepResult, type SweepRunInput, type SweepStats } from './runner.js';
 export { runSweepTask, runTsnrTask } from './cell-pipeline.js';
 export { applyThresholdRule } from './threshold-rule.js';
 export { randomBlockEvents, type RandomBlocks } from './random-block-events.js';
@@ -27,3 +27,5 @@ export { scorecardFrame } from './scorecard-frame.js';
 export { specDropCount } from './spec-drop-count.js';
 export { untreatedFindings, type LookTreatment } from './untreated-findings.js';
 export { applyLookToSpec } from './apply-look-to-spec.js';
+export { motionNuisance, type MotionNuisance } from './motion-nuisance.js';
+export { plantingMotion, PLANTING_MOTION_SETTINGS, PLANTING_MOTION_VERSION, type PlantingMotion } from './planting-motion.js';

@@ -92,6 +92,14 @@ export interface SweepOptions {
   /** World point (mm) the motion table's rotations turn about. __Default value:__ the grid's centre */
   rotationCentreMm?: Vec3 | null;
   /**
+   * Without a motion table: estimate the run's motion once (PLANTING_MOTION_SETTINGS: rigid, least
+   * squares, to the middle volume; cached) and plant with its poses, and give the model the same table
+   * for its motion regressors and censoring by framewise displacement. Ignored when `motionTable` is
+   * given. __Default value:__ true when the spec's model uses the motion table (model.motionRegressors,
+   * model.censorFdMm), else false (the head stays in its reference position)
+   */
+  estimateMotion?: boolean;
+  /**
    * B0 field map in Hz on the run's grid (head in its reference position), so planted activations are
    * displaced along phase encode as the run's signal is (needs the sidecar's PhaseEncodingDirection
    * and TotalReadoutTime or EffectiveEchoSpacing). __Default value:__ none
@@ -136,6 +144,8 @@ export interface SweepResult {
   designNorm?: number | null;
   /** Per setting of this shard: the null designs' outcome (absent when the rule fitted none). */
   nullCalibration?: NullCalibration[];
+  /** Where the motion table planting and the model used came from (absent when the sweep had none). */
+  motion?: { source: 'given' | 'estimated'; method: string; seconds: number; fromCache: boolean; table: MotionRow[] };
 }
 
 /**
@@ -239,11 +249,23 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
   const sha = (a: Uint8Array) => createHash('sha256').update(a).digest('hex');
   const fieldMapHz = options.fieldMapHz ?? null;
   if (fieldMapHz && fieldMapHz.length !== n) fail('GRID_MISMATCH', `field map has ${fieldMapHz.length} voxels, the run has ${n} per volume`);
-  const motionTable = options.motionTable ?? null;
+  let motionTable = options.motionTable ?? null;
+  let rotationCentreMm = options.rotationCentreMm ?? null;
+  let motionInfo: SweepResult['motion'] = motionTable ? { source: 'given', method: 'given', seconds: 0, fromCache: false, table: motionTable } : undefined;
+  if (!motionTable && (options.estimateMotion ?? modelNeedsMotion(spec))) {
+    // estimated once on the unplanted run (cached): the poses planting follows, and the model's table
+    const { plantingMotion } = await import('./planting-motion.js');
+    if (options.cacheDir) await claimOutputFolder(options.cacheDir, { force: true, optionName: 'cacheDir' });
+    const m = await plantingMotion(volume, brainMask, { runHash, maskHash: sha(brainMask) }, options.cacheDir ?? null, fewestDropped(spec));
+    motionTable = m.table;
+    rotationCentreMm = m.centreMm;
+    motionInfo = { source: 'estimated', method: m.method, seconds: m.seconds, fromCache: m.fromCache, table: m.table };
+  }
   // the model is built once here so bad input (a table of another length, a missing readout time)
   // stops the sweep before any work; workers build the same model again from the same inputs
-  acquisitionModel({ volume, sidecar: run.sidecar }, { motionTable, fieldMapHz, ...(options.rotationCentreMm ? { rotationCentreMm: options.rotationCentreMm } : {}), sliceTimesSec: spec.acquisition.sliceTiming === 'sidecar' ? 'sidecar' : null });
-  const acquisitionKey = motionTable || fieldMapHz ? { motion: motionTable, centre: options.rotationCentreMm ?? null, field: fieldMapHz ? sha(new Uint8Array(fieldMapHz.buffer, fieldMapHz.byteOffset, fieldMapHz.byteLength)) : null } : null;
+  acquisitionModel({ volume, sidecar: run.sidecar }, { motionTable, fieldMapHz, ...(rotationCentreMm ? { rotationCentreMm } : {}), sliceTimesSec: spec.acquisition.sliceTiming === 'sidecar' ? 'sidecar' : null });
+  if (!motionTable && modelNeedsMotion(spec)) fail('MOTION_TABLE_MISSING', 'the spec\'s model asks for motion regressors or censoring by framewise displacement (model.motionRegressors, model.censorFdMm), but the sweep has no motion table');
+  const acquisitionKey = motionTable || fieldMapHz ? { motion: motionTable, centre: rotationCentreMm, field: fieldMapHz ? sha(new Uint8Array(fieldMapHz.buffer, fieldMapHz.byteOffset, fieldMapHz.byteLength)) : null } : null;
   const contextHash = stableHash({ brain: sha(brainMask), placement: sha(placementMask), score: sha(scoreMask), events, ...(acquisitionKey ? { acquisition: acquisitionKey } : {}) });
 
   // 3. estimates, plan and shard
@@ -263,7 +285,7 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
   const baseContext = (stageMode: SweepContext['stageMode'], progress: Int32Array | null): SweepContext => ({
     run: { dims: [...volume.dims], spacingMm: [...volume.spacingMm], trSec: volume.trSec, affine: Array.from(volume.affine), data: volume.data },
     ...masks,
-    acquisition: { motionTable, rotationCentreMm: options.rotationCentreMm ?? null, fieldMapHz: sharedField, sliceTiming: spec.acquisition.sliceTiming },
+    acquisition: { motionTable, rotationCentreMm, fieldMapHz: sharedField, sliceTiming: spec.acquisition.sliceTiming },
     events, sidecar: run.sidecar, threshold: spec.threshold, cacheDir, stageMode, progress, stepModules: modules, estimates,
   });
   const estimatePlans = planSweep(spec, inputs).estimates;
@@ -455,9 +477,36 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
     notes: [...notes.entries()].sort((a, b) => a[0] - b[0]).map(([settingIndex, ns]) => ({ settingIndex, notes: ns })),
     inputs: { runHash, contextHash }, shard,
     designNorm: plantDesignNorm(spec.events.kind === 'run' ? events : randomBlockEvents(childSeed(spec.seed, 'events', 0), volume.dims[3] * volume.trSec, spec.events), volume.dims[3], volume.trSec, spec),
+    ...(motionInfo ? { motion: motionInfo } : {}),
     ...(nullResults.length ? { nullCalibration: nullResults.sort((a, b) => a.settingIndex - b.settingIndex).map((r) => nullCalibration(r, spec)) } : {}),
     stats: { cellsInPlan: plan.cells.length, cellsRun: total, cellsComputed: computed, cellsFromCache: fromCache, estimatesComputed, tasks: jobCount, workers: useThreads ? Math.min(workers, jobCount) : jobCount ? 1 : 0, wallSeconds: (performance.now() - t0) / 1000 },
   };
+}
+
+/**
+ * Whether any setting's model takes terms from the motion table (motion regressors or censoring by
+ * framewise displacement), fixed in the spec's model or varied.
+ * @param spec - a validated spec
+ * @returns true when a motion table is needed
+ * @example modelNeedsMotion({ ...spec, vary: { 'model.motionRegressors': [0, 24] } }) // true
+ */
+export function modelNeedsMotion(spec: Pick<SweepSpec, 'model' | 'vary'>): boolean {
+  const uses = (key: string, v: unknown) => (key === 'motionRegressors' ? typeof v === 'number' && v > 0 : key === 'censorFdMm' ? typeof v === 'number' : false);
+  if (uses('motionRegressors', spec.model.motionRegressors) || uses('censorFdMm', spec.model.censorFdMm)) return true;
+  return Object.entries(spec.vary).some(([k, values]) => k.startsWith('model.') && values.some((v) => uses(k.slice(6), v)));
+}
+
+/**
+ * The fewest initial volumes any setting of the spec drops (drop-initial-volumes, fixed or varied).
+ * @param spec - a validated spec
+ * @returns a count (0 without the step)
+ * @example fewestDropped({ ...spec, vary: { 'drop-initial-volumes.count': [2, 4] } }) // 2
+ */
+export function fewestDropped(spec: Pick<SweepSpec, 'recipe' | 'vary'>): number {
+  const step = spec.recipe.find((s) => s.step === 'drop-initial-volumes');
+  if (!step) return 0;
+  const counts = [Number(step.params.count ?? 0), ...(spec.vary['drop-initial-volumes.count'] ?? []).map(Number)];
+  return Math.max(0, Math.min(...counts.filter(Number.isFinite)));
 }
 
 /** A null task's result as the sweep reports it: the calibrated threshold and the measured rates. */

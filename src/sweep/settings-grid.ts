@@ -40,6 +40,8 @@ const MODEL_LABELS: Record<string, ParameterLabel> = {
   'model.ar1': { name: 'AR(1) noise model', unit: '' },
   'model.ar1SmoothFwhmMm': { name: 'AR(1) autocorrelation smoothing FWHM', unit: 'mm' },
   'model.highpassCutoffSec': { name: 'model drift cutoff', unit: 's' },
+  'model.motionRegressors': { name: 'motion regressors', unit: '' },
+  'model.censorFdMm': { name: 'censoring above framewise displacement', unit: 'mm' },
 };
 
 /** The label of a "<step>.<param>" or "model.<option>" key, from one place: the step's definition or the model table. */

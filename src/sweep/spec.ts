@@ -114,6 +114,21 @@ export interface ModelOptions {
    * drop-initial-volumes are skipped and the rest re-indexed. __Default value:__ []
    */
   censorVolumes: number[];
+  /**
+   * Motion nuisance regressors from the sweep's motion table (the one planting follows): 0 none; 6 the
+   * parameters; 12 the parameters and their one-volume backward differences; 24 the parameters, their
+   * values one volume earlier and the squares of both (Friston et al. 1996). Each is mean-centred
+   * (`motionRegressors` in the model module). Absent = 0: caches and scorecards of sweeps that do not
+   * name it keep their keys. __Default value:__ 0
+   */
+  motionRegressors?: 0 | 6 | 12 | 24;
+  /**
+   * Censor every volume whose framewise displacement (Power et al. 2012; 50 mm sphere) from the
+   * sweep's motion table is above this many mm, each with its own indicator regressor like
+   * `censorVolumes` (0.5 mm is common practice); null or absent: no censoring by motion.
+   * __Default value:__ null
+   */
+  censorFdMm?: number | null;
 }
 
 /**
@@ -179,6 +194,8 @@ export const sweepSpecSchema = z.object({
     highpassCutoffSec: z.number().positive().nullable().default(128),
     trialType: z.string().nullable().default(null),
     censorVolumes: z.array(z.number().int().nonnegative()).default([]),
+    motionRegressors: z.union([z.literal(0), z.literal(6), z.literal(12), z.literal(24)]).optional(),
+    censorFdMm: z.number().positive().max(100).nullable().optional(),
   }).strict().default({}),
   acquisition: z.object({
     sliceTiming: z.enum(['sidecar', 'none']).default('sidecar'),

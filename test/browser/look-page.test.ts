@@ -60,7 +60,7 @@ afterAll(async () => {
       const texts = svg ? [...svg.querySelectorAll('text')].filter((t) => (t as SVGTextElement).getComputedTextLength() > 0).length : 0;
       return { id: f.id, width: box?.width ?? 0, height: box?.height ?? 0, images, texts };
     }));
-    expect(figures.length).toBe(8);
+    expect(figures.length).toBe(9); // five maps, the raster, traces, voxel time courses, the motion edge signature (no motion table: no FD figures)
     for (const f of figures) {
       expect(f.width, f.id).toBeGreaterThan(200);
       expect(f.height, f.id).toBeGreaterThan(150);

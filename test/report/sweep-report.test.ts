@@ -75,6 +75,22 @@ describe('report files', () => {
     expect(md).toContain('Breiman L');
   });
 
+  it('methods text names the motion terms of the model, fixed or chosen, with their sources', () => {
+    const base = written.record;
+    expect(methodsText(base).paragraphs.join(' ')).not.toContain('motion regressors');
+    const fixed = { ...base, sweepSpec: { ...base.sweepSpec, model: { ...base.sweepSpec.model, motionRegressors: 24 as const, censorFdMm: 0.5 } } };
+    const m = methodsText(fixed);
+    const text = m.paragraphs.join(' ');
+    expect(text).toContain('24 mean-centred motion regressors: the six rigid-body motion parameters, their values one volume earlier and the squares of both (Friston et al. 1996)');
+    expect(text).toMatch(/one indicator regressor for each volume whose framewise displacement \(Power et al\. 2012; rotations as arc length on a 50 mm sphere\) exceeded 0\.5 mm/);
+    expect(m.references.join(' ')).toContain('Friston KJ, Williams S');
+    // a varied value as chosen overrides the spec's own
+    const chosen = { ...fixed, choice: { ...fixed.choice, setting: { ...fixed.choice.setting, 'model.motionRegressors': 6, 'model.censorFdMm': null } } };
+    const model6 = methodsText(chosen).paragraphs[1]; // the model's paragraph
+    expect(model6).toContain('6 mean-centred motion regressors: the six rigid-body motion parameters,');
+    expect(model6).not.toContain('framewise displacement');
+  });
+
   it('methods text gives numbers with units and cites what it uses', () => {
     const m = methodsText(written.record);
     const text = m.paragraphs.join(' ');

@@ -33,6 +33,16 @@ describe('a look\'s findings and a spec', () => {
     expect(own.notes.join(' ')).toMatch(/kept; the look recommends 3.*kept; the look recommends 1, 40, 41/);
   });
 
+  it('names volumes moved above the FD threshold when no setting censors by FD or models motion', () => {
+    const moved = { dropInitialVolumes: 3, censorVolumes: [], movedVolumes: [2, 40, 41], fdThresholdMm: 0.5 };
+    const base = defaultSmoothingSpec({ dropInitialVolumes: 3 });
+    // volume 2 is dropped; 3 would be the first kept volume, whose move from a dropped one is not counted
+    expect(untreatedFindings(base, moved)).toEqual(['volume(s) 40, 41 moved more than 0.5 mm (framewise displacement) and the spec neither censors by it nor models motion (model.censorFdMm, model.motionRegressors)']);
+    expect(untreatedFindings({ ...base, model: { ...base.model, censorFdMm: 0.5 } }, moved)).toEqual([]);
+    expect(untreatedFindings({ ...base, vary: { ...base.vary, 'model.motionRegressors': [0, 24] } }, moved)).toEqual([]);
+    expect(untreatedFindings({ ...base, model: { ...base.model, motionRegressors: 0 } }, moved)).toHaveLength(1);
+  });
+
   it('treats a varied drop count as set by the spec', () => {
     const spec = { ...defaultSmoothingSpec({ dropInitialVolumes: 2 }), vary: { 'drop-initial-volumes.count': [0, 2, 4] } };
     expect(specDropCount(spec)).toBeNull();
