@@ -87,5 +87,6 @@ export { simulatePhantomStructural, simulatePhantomTemplate, phantomAnatomyGrids
 // alignment between images: stored transforms, composed into one resampling
 export {
   storedTransform, invertTransform, composeTransforms, resampleAffineOf, writeTransformFile, readTransformFile, alignRun,
-  type StoredTransform, type TransformSpace, type AlignmentEstimate,
+  estimateAlignment, readAnatomyImage, oneResamplingSaving, demoAnatomyPaths,
+  type StoredTransform, type TransformSpace, type AlignmentEstimate, type OneResamplingSaving,
 } from './align/index.js';
