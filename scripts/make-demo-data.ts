@@ -10,6 +10,9 @@ import { simulatePhantomRun } from '../src/simulate/simulate-phantom-run.js';
 import { writePhantomRun } from '../src/simulate/write-phantom-run.js';
 import { simulatePhaseEncodePair } from '../src/simulate/simulate-phase-encode-pair.js';
 import { writePhaseEncodePair } from '../src/simulate/write-phase-encode-pair.js';
+import { simulatePhantomStructural } from '../src/simulate/simulate-phantom-structural.js';
+import { simulatePhantomTemplate } from '../src/simulate/simulate-phantom-template.js';
+import { writePhantomAnatomy } from '../src/simulate/write-phantom-anatomy.js';
 
 /** File name stem of the demo run (BIDS-like: subject and task entities). */
 export const DEMO_BASE_NAME = 'sub-phantom01_task-flicker';
@@ -23,12 +26,15 @@ async function main(): Promise<void> {
     process.exitCode = 2;
     return;
   }
-  const run = simulatePhantomRun(demoPhantomSpec());
+  const spec = demoPhantomSpec();
+  const run = simulatePhantomRun(spec);
   const files = await writePhantomRun(dir, run, DEMO_BASE_NAME);
   // the reversed phase-encode pair of the same head, for unwarping (its own streams from the run's seed)
   const pairFiles = await writePhaseEncodePair(dir, simulatePhaseEncodePair(demoPhantomSpec()), DEMO_SUBJECT);
+  // the structural image beside the run (BIDS naming) and boldsweep's own template
+  const anatomy = await writePhantomAnatomy(dir, run.truth.spec, { structural: simulatePhantomStructural(spec), template: simulatePhantomTemplate(spec) }, DEMO_BASE_NAME.split('_')[0]);
   let total = 0;
-  for (const path of [...Object.values(files), ...pairFiles]) {
+  for (const path of [...Object.values(files), ...pairFiles, ...Object.values(anatomy)]) {
     const bytes = statSync(path).size;
     total += bytes;
     process.stdout.write(`${path}\t${bytes} bytes\n`);

@@ -95,3 +95,11 @@ export {
 
 // the digital phantom
 export { simulatePhantomRun, writePhantomRun, demoPhantomSpec, defaultPhantomSpec, phantomAcquisitionModel, TISSUE_LABEL } from './simulate/index.js';
+export { simulatePhantomStructural, simulatePhantomTemplate, phantomAnatomyGrids, writePhantomAnatomy } from './simulate/index.js';
+
+// alignment between images: stored transforms, composed into one resampling
+export {
+  storedTransform, invertTransform, composeTransforms, resampleAffineOf, writeTransformFile, readTransformFile, alignRun,
+  estimateAlignment, readAnatomyImage, oneResamplingSaving, demoAnatomyPaths,
+  type StoredTransform, type TransformSpace, type AlignmentEstimate, type OneResamplingSaving,
+} from './align/index.js';

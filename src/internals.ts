@@ -23,6 +23,7 @@ export * from './look/index.js';
 export * from './filter/index.js';
 export * from './resample/index.js';
 export * from './register/index.js';
+export * from './align/index.js';
 export * from './acquire/index.js';
 export * from './plant/index.js';
 export * from './steps/index.js';

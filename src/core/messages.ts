@@ -77,6 +77,11 @@ export const ERROR_ADVICE = {
   WORKER_SCRIPT_MISSING: 'Worker threads run compiled JavaScript: build the package first (npm run build) so the worker file exists under dist/.',
   KERNEL_MISSING: 'The WebAssembly kernels are compiled at build time: run npm run build (it writes dist/kernels/ from kernels/).',
   WORKER_FAILED: 'A worker thread stopped unexpectedly (often out of memory). Retry with fewer workers, or workers: 1 to run in the main thread.',
+  // alignment between images (run -> structural -> template)
+  TRANSFORM_FILE_INVALID: 'The file is not a boldsweep transform (JSON with boldsweepTransform 1, from, to and a 4x4 matrix whose last row is 0 0 0 1). Write it with writeTransformFile, or fix the field named above.',
+  TRANSFORM_CHAIN_BROKEN: 'Each transform of a chain must start in the space the previous one ends in (same grid dims and voxel-to-world mapping). Reorder the chain, or invert the transform that points the wrong way (invertTransform).',
+  ALIGN_INPUT_MISSING: 'The align step needs a structural image and a template: give their paths as the step\'s structural and template parameters (the demo run finds the demo\'s own files by itself).',
+  STRUCTURAL_AFFINE_UNUSABLE: 'The structural image\'s voxel-to-world mapping is missing or degenerate (no sform or qform, zero voxel sizes): alignment needs real positions. Fix the header (sform/qform) with the tool that converted the image, then run again.',
   // cluster (Slurm job arrays of shards)
   TOO_MANY_SHARDS: 'Use at most as many shards as the sweep has planting groups (plant conditions x repeats): a shard runs whole groups, so more shards would leave some with nothing to do.',
   SHARD_SWEEP_MISMATCH: 'Gather only the shard folders of one sweep (same run, spec, seed and masks). Remove the folder that belongs to another sweep from the list, or run that shard again with this spec.',

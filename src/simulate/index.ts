@@ -2,7 +2,13 @@
 // digital phantom
 export { simulatePhantomRun } from './simulate-phantom-run.js';
 export { writePhantomRun, type PhantomRunFiles } from './write-phantom-run.js';
-export { defaultPhantomSpec, demoPhantomSpec, resolvePhantomSpec, defaultPhantomEyes, defaultLowBaselineVoxels } from './phantom-spec.js';
+export { defaultPhantomSpec, demoPhantomSpec, resolvePhantomSpec, defaultPhantomEyes, defaultLowBaselineVoxels, defaultPhantomStructural, defaultPhantomTemplate } from './phantom-spec.js';
+export type { PhantomStructural, PhantomStructuralSequence, PhantomTemplate } from './phantom-spec.js';
+export { simulatePhantomStructural } from './simulate-phantom-structural.js';
+export { simulatePhantomTemplate } from './simulate-phantom-template.js';
+export { phantomAnatomyGrids, type PhantomAnatomyGrids } from './phantom-anatomy-grids.js';
+export { phantomT1wSignal } from './phantom-t1w-signal.js';
+export { writePhantomAnatomy, PHANTOM_TEMPLATE_FILE, type PhantomAnatomyFiles } from './write-phantom-anatomy.js';
 export { eyeFraction } from './eye-fraction.js';
 export type {
   PhantomSpec, PhantomSpecInput, PhantomAcquisition, PhantomActivation, PhantomPhysio, PhantomDrift, PhantomSmoothNoise,

@@ -126,6 +126,94 @@ export interface PhantomLowBaselineVoxels {
   excursionsPerVoxel: number;
 }
 
+/** Sequence of a T1-weighted spoiled gradient-echo structural image (short TR, short TE, moderate flip). */
+export interface PhantomStructuralSequence {
+  /** Repetition time, seconds. __Default value:__ 0.02 */
+  trSec: number;
+  /** Echo time, seconds. __Default value:__ 0.004 */
+  teSec: number;
+  /** Flip angle, degrees. __Default value:__ 25 */
+  flipAngleDeg: number;
+}
+
+/**
+ * A structural image of the same head, taken in the same session on a finer grid with its own
+ * (T1-weighted) contrast from the tissue model: white matter brighter than grey matter brighter than
+ * CSF. The head sits in another pose than in the run's reference volume (it moved between the two
+ * scans), stated here, so aligning the run to it has a known answer.
+ */
+export interface PhantomStructural {
+  /** Voxels along x, y, z. __Default value:__ [100, 120, 92] */
+  dims: [number, number, number];
+  /** Voxel size, mm. __Default value:__ [1.5, 1.5, 1.5] */
+  spacingMm: [number, number, number];
+  /**
+   * Head pose in the structural image relative to the run's reference position (motion-table
+   * convention about the world origin: shifts mm, rotations deg). __Default value:__ shift (2.5, -3, 4) mm, rotation (4, -2, 3) deg
+   */
+  pose: { shiftMm: Vec3; rotationDeg: Vec3 };
+  /** __Default value:__ TR 20 ms, TE 4 ms, flip 25 deg */
+  sequence: PhantomStructuralSequence;
+  /** Noise-free value of pure white matter (sets the intensity scale). __Default value:__ 1000 */
+  whiteMatterSignal: number;
+  /** Thermal noise SD per channel (magnitude taken, Rician), signal units. __Default value:__ 20 (SNR 50 in white matter) */
+  thermalNoiseSd: number;
+  /** Intensity non-uniformity: signal gain rises linearly along z from -biasPercent to +biasPercent, percent. __Default value:__ 5 */
+  biasPercent: number;
+  /** Partial-volume points per voxel edge. __Default value:__ 2 */
+  supersample: number;
+}
+
+/**
+ * boldsweep's own template: a smooth, noise-free, T1-weighted average-head-like image of the phantom
+ * head, placed in template space by a known affine (scaling, shear, shift: a template head is not
+ * any one head), on a 2 mm grid of our own. The true structural-to-template transform is then known.
+ */
+export interface PhantomTemplate {
+  /** Voxels along x, y, z. __Default value:__ [80, 100, 76] */
+  dims: [number, number, number];
+  /** Isotropic voxel size, mm. __Default value:__ 2 */
+  spacingMm: number;
+  /** Voxel index (0-based) of the template's world origin. __Default value:__ [40, 54, 36] */
+  originVoxel: Vec3;
+  /** Reference-frame world mm -> template world mm: the top three rows of a 4x4 affine. __Default value:__ scale about 1.06, 0.96, 1.04 with a small shear, shift (2, -3, 5) mm */
+  fromReferenceRows: [[number, number, number, number], [number, number, number, number], [number, number, number, number]];
+  /** Gaussian FWHM the image is smoothed with (what averaging many heads does), mm. __Default value:__ 4 */
+  smoothingFwhmMm: number;
+  /** Noise-free value of pure white matter before smoothing. __Default value:__ 1000 */
+  whiteMatterSignal: number;
+  /** Partial-volume points per voxel edge. __Default value:__ 2 */
+  supersample: number;
+}
+
+/** Defaults of {@link PhantomStructural}. */
+export function defaultPhantomStructural(): PhantomStructural {
+  return {
+    dims: [100, 120, 92],
+    spacingMm: [1.5, 1.5, 1.5],
+    pose: { shiftMm: [2.5, -3, 4], rotationDeg: [4, -2, 3] },
+    // a spoiled gradient echo with T1 weighting (common practice, no source): WM:GM:CSF about 1 : 0.78 : 0.36 with the default tissues
+    sequence: { trSec: 0.02, teSec: 0.004, flipAngleDeg: 25 },
+    whiteMatterSignal: 1000,
+    thermalNoiseSd: 20,
+    biasPercent: 5,
+    supersample: 2,
+  };
+}
+
+/** Defaults of {@link PhantomTemplate}. */
+export function defaultPhantomTemplate(): PhantomTemplate {
+  return {
+    dims: [80, 100, 76],
+    spacingMm: 2,
+    originVoxel: [40, 54, 36],
+    fromReferenceRows: [[1.06, 0.02, 0, 2], [0, 0.96, 0.03, -3], [0.01, 0, 1.04, 5]],
+    smoothingFwhmMm: 4,
+    whiteMatterSignal: 1000,
+    supersample: 2,
+  };
+}
+
 /** Defaults of {@link PhantomEyes}. */
 export function defaultPhantomEyes(): PhantomEyes {
   return { centresMm: [[-30, 62, -36], [30, 62, -36]], radiusMm: 11, nerveRadiusMm: 4.5, signalFraction: 1.3 };
@@ -181,10 +269,14 @@ export interface PhantomSpec {
   eyes?: PhantomEyes;
   /** Near-zero-baseline edge voxels (left out when absent; {@link defaultLowBaselineVoxels}; positions and volumes from their own seeded stream). */
   lowBaselineVoxels?: PhantomLowBaselineVoxels;
+  /** A structural image of the same head (left out when absent; {@link defaultPhantomStructural}; made by `simulatePhantomStructural`). */
+  structural?: PhantomStructural;
+  /** boldsweep's own template (left out when absent; {@link defaultPhantomTemplate}; made by `simulatePhantomTemplate`). */
+  template?: PhantomTemplate;
 }
 
 /** Spec fields that are absent unless set (so specs and truth files without them keep their bytes). */
-const OPTIONAL_FIELDS = ['eyes', 'lowBaselineVoxels'];
+const OPTIONAL_FIELDS = ['eyes', 'lowBaselineVoxels', 'structural', 'template'];
 
 /** A spec with any part left out (nested groups may be given in part too). */
 export type PhantomSpecInput = {
@@ -228,8 +320,10 @@ export function defaultPhantomSpec(): PhantomSpec {
 
 /**
  * The spec of the committed demo run (data-demo/): the defaults with weaker spatially coherent noise
- * (grey-matter physiological fluctuation 0.2 %, smooth field 0.1 %), plus a two-volume head jerk at
- * volume 83, field inhomogeneity around the sinus, three single-voxel spikes and one slice dropout.
+ * (grey-matter physiological fluctuation 0.2 %, smooth field 0.1 %), plus realistic head motion (a
+ * two-volume jerk at volume 83, a lasting step at 40, a twitch at 121, a slow drift, respiration-coupled
+ * motion), field inhomogeneity around the sinus, three single-voxel spikes, one slice dropout, a
+ * structural image and boldsweep's own template.
  * @returns a fresh spec
  * @example const run = simulatePhantomRun(demoPhantomSpec())
  */
@@ -238,7 +332,20 @@ export function demoPhantomSpec(): PhantomSpec {
   spec.seed = 20240611;
   // the head jerks at volume 83 and settles back two volumes later (a cough or a swallow): the look
   // must find it, and censoring those volumes leaves a run a recipe without motion correction can use
-  spec.motion = { wanderStepMm: 0.01, wanderStepDeg: 0.01, jerk: { volume: 83, durationVolumes: 2, shiftMm: [0.3, 0.8, 1.2], rotationDeg: [1.5, 0.2, -0.4] } };
+  spec.motion = {
+    wanderStepMm: 0.01,
+    wanderStepDeg: 0.01,
+    jerk: { volume: 83, durationVolumes: 2, shiftMm: [0.3, 0.8, 1.2], rotationDeg: [1.5, 0.2, -0.4] },
+    // a lasting shift at volume 40 (the head settles into a new position) and a one-volume twitch at 121
+    moreJerks: [
+      { volume: 40, durationVolumes: null, shiftMm: [0.1, 0.4, 0.3], rotationDeg: [0.5, 0, 0.15] },
+      { volume: 121, durationVolumes: 1, shiftMm: [-0.2, 0.3, 0.5], rotationDeg: [0.7, -0.3, 0.2] },
+    ],
+    // sinking into the cushion and nodding over the 5 minutes
+    drift: { shiftMm: [0.1, 0.3, -0.6], rotationDeg: [0.6, 0.1, -0.1] },
+    // chest movement carried to the head, mostly along y and z and a nod (at trace 1)
+    respiration: { shiftMm: [0, 0.03, 0.05], rotationDeg: [0.03, 0, 0] },
+  };
   // noise mostly thermal, hence close to white in space: spatially coherent fluctuation (physiology,
   // the smooth field) is kept small so that planted blobs are found best near their own width, as the
   // matched-filter principle predicts for white noise; coloured noise pulls the best width lower
@@ -255,6 +362,8 @@ export function demoPhantomSpec(): PhantomSpec {
     { volume: 128, amplitude: 3000 },
   ];
   spec.dropouts = [{ volume: 112, slice: 17, keptFraction: 0.15 }];
+  spec.structural = defaultPhantomStructural();
+  spec.template = defaultPhantomTemplate();
   return spec;
 }
 
@@ -321,6 +430,26 @@ function checkPhantomSpec(s: PhantomSpec): void {
     const l = s.lowBaselineVoxels;
     if (!Number.isInteger(l.count) || l.count < 0 || !Number.isInteger(l.excursionsPerVoxel) || l.excursionsPerVoxel < 0 || l.excursionsPerVoxel > s.nVolumes) bad('lowBaselineVoxels', 'needs integer count >= 0 and excursionsPerVoxel in 0..nVolumes', l);
     if (!(l.baselineSignal >= 0) || !(l.noiseSd >= 0)) bad('lowBaselineVoxels', 'needs baselineSignal >= 0 and noiseSd >= 0', l);
+  }
+  if (s.structural) {
+    const st = s.structural;
+    if (!Array.isArray(st.dims) || st.dims.length !== 3 || st.dims.some((n) => !Number.isInteger(n) || n < 2 || n > 512)) bad('structural.dims', 'must be three integers in 2..512', st.dims);
+    if (!Array.isArray(st.spacingMm) || st.spacingMm.length !== 3 || st.spacingMm.some((v) => !(v > 0) || !Number.isFinite(v))) bad('structural.spacingMm', 'must be three positive numbers', st.spacingMm);
+    if (![...st.pose.shiftMm, ...st.pose.rotationDeg].every(Number.isFinite) || st.pose.shiftMm.length !== 3 || st.pose.rotationDeg.length !== 3) bad('structural.pose', 'needs three finite shifts and three finite rotations', st.pose);
+    if (!(st.sequence.trSec > 0) || !(st.sequence.teSec >= 0) || !(st.sequence.teSec < st.sequence.trSec) || !(st.sequence.flipAngleDeg > 0 && st.sequence.flipAngleDeg <= 180)) bad('structural.sequence', 'needs trSec > 0, 0 <= teSec < trSec and flipAngleDeg in (0, 180]', st.sequence);
+    if (!(st.whiteMatterSignal > 0) || st.whiteMatterSignal > 10000 || !(st.thermalNoiseSd >= 0) || !(Math.abs(st.biasPercent) < 50)) bad('structural', 'needs whiteMatterSignal in (0, 10000], thermalNoiseSd >= 0 and |biasPercent| < 50', st);
+    if (!Number.isInteger(st.supersample) || st.supersample < 1 || st.supersample > 8) bad('structural.supersample', 'must be an integer in 1..8', st.supersample);
+  }
+  if (s.template) {
+    const t = s.template;
+    if (!Array.isArray(t.dims) || t.dims.length !== 3 || t.dims.some((n) => !Number.isInteger(n) || n < 2 || n > 512)) bad('template.dims', 'must be three integers in 2..512', t.dims);
+    if (!(t.spacingMm > 0) || !Number.isFinite(t.spacingMm) || t.originVoxel.length !== 3 || !t.originVoxel.every(Number.isFinite)) bad('template', 'needs spacingMm > 0 and a finite originVoxel', t);
+    if (t.fromReferenceRows.length !== 3 || t.fromReferenceRows.some((r) => r.length !== 4 || !r.every(Number.isFinite))) bad('template.fromReferenceRows', 'must be three rows of four finite numbers', t.fromReferenceRows);
+    const [a, b, c] = t.fromReferenceRows;
+    const det = a[0] * (b[1] * c[2] - b[2] * c[1]) - a[1] * (b[0] * c[2] - b[2] * c[0]) + a[2] * (b[0] * c[1] - b[1] * c[0]);
+    if (!(det > 0.1)) bad('template.fromReferenceRows', 'must be an invertible affine that keeps handedness (determinant > 0.1)', t.fromReferenceRows);
+    if (!(t.smoothingFwhmMm >= 0) || !(t.whiteMatterSignal > 0) || t.whiteMatterSignal > 10000) bad('template', 'needs smoothingFwhmMm >= 0 and whiteMatterSignal in (0, 10000]', t);
+    if (!Number.isInteger(t.supersample) || t.supersample < 1 || t.supersample > 8) bad('template.supersample', 'must be an integer in 1..8', t.supersample);
   }
   s.dropouts.forEach((dr, i) => {
     if (!Number.isInteger(dr.volume) || dr.volume < 0 || dr.volume >= s.nVolumes || !Number.isInteger(dr.slice) || dr.slice < 0 || dr.slice >= s.dims[2] || !(dr.keptFraction >= 0 && dr.keptFraction <= 1)) {

@@ -118,7 +118,7 @@ export function simulatePhantomRun(input: PhantomSpecInput = {}): PhantomRun {
 
   // 6. motion table
   const motionTable: MotionRow[] = spec.motion
-    ? simulatedMotionTable(nt, spec.motion, createRng(childSeed(spec.seed, 'motion')))
+    ? simulatedMotionTable(nt, spec.motion, createRng(childSeed(spec.seed, 'motion')), physio && spec.motion.respiration ? volumeRespiration(physio.respiration, sliceTiming, nt, tr) : undefined)
     : Array.from({ length: nt }, (_, volume) => ({ volume, shiftXMm: 0, shiftYMm: 0, shiftZMm: 0, rotXDeg: 0, rotYDeg: 0, rotZDeg: 0 }));
   const poses = motionTablePoses(motionTable, nt, centreMm);
   const invPAffine = invertAffine(pAffine);
@@ -267,6 +267,17 @@ export function simulatePhantomRun(input: PhantomSpecInput = {}): PhantomRun {
       spec,
     };
   }
+}
+
+/**
+ * The respiratory trace at each volume, read at the slice acquired nearest mid-volume (the whole
+ * head takes one pose per volume in this phantom, so one time per volume stands for it).
+ */
+function volumeRespiration(traceAtSlices: Float64Array, sliceTimesSec: ArrayLike<number>, nt: number, trSec: number): Float64Array {
+  const nz = sliceTimesSec.length;
+  let mid = 0;
+  for (let k = 1; k < nz; k++) if (Math.abs(sliceTimesSec[k] - trSec / 2) < Math.abs(sliceTimesSec[mid] - trSec / 2)) mid = k;
+  return Float64Array.from({ length: nt }, (_, n) => traceAtSlices[n * nz + mid]);
 }
 
 /**

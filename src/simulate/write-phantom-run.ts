@@ -6,7 +6,9 @@ import { writeFileAtomic } from '../io/atomic-write.js';
 import { writeEvents } from '../io/events.js';
 import { writeNifti } from '../io/nifti-write.js';
 import { writeSidecar } from '../io/sidecar.js';
+import { phantomAnatomyGrids } from './phantom-anatomy-grids.js';
 import type { PhantomRun } from './phantom-types.js';
+import { PHANTOM_TEMPLATE_FILE } from './write-phantom-anatomy.js';
 import { PHANTOM_TISSUES } from './tissue-properties.js';
 
 /** Paths of the files {@link writePhantomRun} wrote. */
@@ -100,8 +102,29 @@ export async function writePhantomRun(dir: string, run: PhantomRun, baseName: st
     sliceOrder: 'interleaved ascending: slices 0, 2, 4, ... (0-based, bottom up) then 1, 3, 5, ...; SliceTiming in the sidecar',
     totalReadoutTimeSec: truth.totalReadoutTimeSec,
     fieldShiftRule: 'shift (voxels along j) = field (Hz) x TotalReadoutTime (s), positive towards +j for PhaseEncodingDirection j (Jezzard & Balaban 1995)',
+    ...anatomyTruth(),
     spec,
   };
   await writeFileAtomic(files.truth, `${JSON.stringify(record, null, 1)}\n`);
   return files;
+
+  /** The structural image's and the template's grids and true transforms (only when the spec has them, so older truth files keep their bytes). */
+  function anatomyTruth(): Record<string, unknown> {
+    if (!spec.structural && !spec.template) return {};
+    const g = phantomAnatomyGrids(spec);
+    const rows = (a: Float64Array | null) => (a ? [0, 1, 2, 3].map((r) => Array.from(a.subarray(4 * r, 4 * r + 4), (x) => Number(x.toPrecision(12)))) : null);
+    const subject = baseName.split('_')[0];
+    return {
+      anatomy: {
+        about: 'True world-to-world maps (row-major 4x4, world mm RAS+) between the run\'s reference frame (volume 0 of the motion table), the structural image and the template; a point p of the first space is M p in the second.',
+        structuralFile: spec.structural ? `${subject}_T1w.nii.gz` : null,
+        templateFile: spec.template ? PHANTOM_TEMPLATE_FILE : null,
+        structuralGrid: g.structural ? { dims: g.structural.dims, voxelToWorld: rows(g.structural.affine) } : null,
+        templateGrid: g.template ? { dims: g.template.dims, voxelToWorld: rows(g.template.affine) } : null,
+        structuralFromReference: rows(g.structuralFromReference),
+        templateFromReference: rows(g.templateFromReference),
+        templateFromStructural: rows(g.templateFromStructural),
+      },
+    };
+  }
 }

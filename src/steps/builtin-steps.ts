@@ -14,6 +14,8 @@ import { UNWARP_KERNELS, type UnwarpKernel } from '../acquire/plan-unwarp.js';
 import { UNWARP_METHODS, unwarpEstimate, unwarpSimplicity, unwarpStep, type UnwarpEstimate, type UnwarpMethod, type UnwarpStepParams } from './unwarp-step.js';
 import { SLICE_TIME_METHODS, sliceTimeStep, type SliceTimeMethod, type SliceTimeParams } from './slice-time-step.js';
 import { SLICE_ORDERS, type SliceOrder } from '../acquire/slice-order-timing.js';
+import { alignEstimate, alignSimplicity, alignStep, type AlignStepParams } from './align-step.js';
+import type { AlignmentEstimate } from '../align/alignment-estimate.js';
 
 // Schemas check types and fixed ranges; limits that depend on the run (FOV, number of volumes)
 // are checked by the steps themselves.
@@ -51,6 +53,33 @@ const resample: StepDefinition<ResampleStepParams> = {
   // nearest < linear < cubic < lanczos3 (taps per axis 1, 2, 4, 6)
   simplicity: (p) => kernelSimplicity(p.kernel),
   describe: (p) => `resample ${p.kernel}${p.voxelSizeMm === undefined ? '' : ` ${Array.isArray(p.voxelSizeMm) ? p.voxelSizeMm.join('x') : p.voxelSizeMm} mm`}${p.mode && p.mode !== 'constant' ? ` (${p.mode})` : ''}`,
+};
+
+const align: StepDefinition<AlignStepParams, AlignmentEstimate> = {
+  schema: z.object({
+    structural: z.string().min(1).optional(),
+    template: z.string().min(1).optional(),
+    concatenate: z.boolean().default(true),
+    kernel: z.enum(kernels).default('cubic'),
+    motion: z.enum(['estimate', 'none']).default('estimate'),
+    voxelSizeMm: voxelSize.optional(),
+    mode: z.enum(modes).default('constant'),
+  }).strict(),
+  version: 1,
+  kind: 'geometric',
+  estimate: alignEstimate,
+  apply: alignStep,
+  labels: {
+    concatenate: { name: 'one concatenated resampling', unit: '' },
+    kernel: { name: 'interpolation kernel', unit: '' },
+    motion: { name: 'motion undone in the alignment', unit: '' },
+    voxelSizeMm: { name: 'template voxel size', unit: 'mm' },
+    structural: { name: 'structural image', unit: '' },
+    template: { name: 'template', unit: '' },
+    mode: { name: 'resampling boundary mode', unit: '' },
+  },
+  simplicity: alignSimplicity,
+  describe: (p) => `align ${p.concatenate ? 'once' : 'per stage'} ${p.kernel}${p.motion === 'none' ? ' (no motion)' : ''}${p.voxelSizeMm === undefined ? '' : ` ${p.voxelSizeMm} mm`}`,
 };
 
 const registrationModels = REGISTRATION_MODELS as unknown as [RegistrationModel, ...RegistrationModel[]];
@@ -178,7 +207,7 @@ const sliceTime: StepDefinition<SliceTimeParams> = {
 
 /**
  * Register the steps boldsweep ships with: smooth, percent-signal-change, grand-mean-scale,
- * highpass, detrend, drop-initial-volumes, resample, unwarp, slice-time, motion-correct (called once by the registry module).
+ * highpass, detrend, drop-initial-volumes, resample, unwarp, slice-time, motion-correct, align (called once by the registry module).
  * @param register - the registry's registerStep
  * @returns nothing
  * @example registerBuiltinSteps(registerStep)
@@ -194,4 +223,5 @@ export function registerBuiltinSteps(register: <P, E = unknown>(name: string, de
   register('unwarp', unwarp as StepDefinition<unknown>);
   register('slice-time', sliceTime);
   register('motion-correct', motionCorrect);
+  register('align', align);
 }

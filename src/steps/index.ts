@@ -15,4 +15,5 @@ export { type ShiftMethod, SHIFT_METHODS, shiftSliceSeries } from './shift-slice
 export { shiftSeriesLinear } from './shift-series-linear.js';
 export { shiftSeriesCubic } from './shift-series-cubic.js';
 export { type FourierShifter, fourierShifter } from './fourier-shifter.js';
+export { type AlignStepParams, alignStep, alignEstimate, alignInputPaths, alignOutputGrids, alignSimplicity } from './align-step.js';
 export { type MotionCorrectParams, type MotionEstimate, motionCorrectStep, motionCorrectEstimate, motionCorrectOutputFrame, motionCorrectDefaults, motionCorrectSimplicity } from './motion-correct-step.js';

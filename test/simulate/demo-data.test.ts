@@ -1,5 +1,5 @@
 import { createHash } from 'node:crypto';
-import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
+import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, statSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { gunzipSync } from 'node:zlib';
@@ -7,6 +7,9 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { demoPhantomSpec } from '../../src/simulate/phantom-spec.js';
 import { simulatePhantomRun } from '../../src/simulate/simulate-phantom-run.js';
 import { writePhantomRun } from '../../src/simulate/write-phantom-run.js';
+import { simulatePhantomStructural } from '../../src/simulate/simulate-phantom-structural.js';
+import { simulatePhantomTemplate } from '../../src/simulate/simulate-phantom-template.js';
+import { writePhantomAnatomy } from '../../src/simulate/write-phantom-anatomy.js';
 
 const committed = new URL('../../data-demo/', import.meta.url).pathname;
 const BASE = 'sub-phantom01_task-flicker';
@@ -38,5 +41,16 @@ describe('committed demo data', () => {
     }
     const made = JSON.parse(readFileSync(join(committed, `${BASE}_truth.json`), 'utf8'));
     expect(made.steadyState.firstSteadyVolume).toBe(4);
+  }, 120_000);
+
+  it('regenerating the structural image and the template gives the same content, and data-demo/ stays under 20 MB', async () => {
+    const spec = demoPhantomSpec();
+    const files = await writePhantomAnatomy(dir, spec, { structural: simulatePhantomStructural(spec), template: simulatePhantomTemplate(spec) }, 'sub-phantom01');
+    const names = Object.values(files).map((p) => p!.slice(dir.length + 1)).sort();
+    expect(names).toEqual(['boldsweep-phantom-template_2mm.nii.gz', 'sub-phantom01_T1w.json', 'sub-phantom01_T1w.nii.gz']);
+    for (const name of names) expect(contentHash(join(dir, name)), name).toBe(contentHash(join(committed, name)));
+    const total = readdirSync(committed).reduce((sum, f) => sum + statSync(join(committed, f)).size, 0);
+    // the repository keeps its demo data small (a limit the maintainers set: 20 MB)
+    expect(total).toBeLessThan(20 * 2 ** 20);
   }, 120_000);
 });
