@@ -126,6 +126,8 @@ export async function writeReport(dir: string, folder: SweepFolder, options: Rec
     `Repeats: ${spec.repeats} plantings per setting; seed ${spec.seed}`,
     ...(study ? study.lines : []),
     `Model: GLM${spec.model.ar1 ? ` with AR(1) prewhitening (autocorrelation ${spec.model.ar1SmoothFwhmMm > 0 ? `smoothed at ${spec.model.ar1SmoothFwhmMm} mm FWHM` : 'per voxel'})` : ' (OLS)'}${spec.model.highpassCutoffSec ? `, cosine drift cutoff ${spec.model.highpassCutoffSec} s` : ''}; threshold ${thr}`,
+    // motion correction: framewise displacement before and after, per setting that corrects motion
+    ...motionLines(folder),
     // guidance a step computed for this run (the slice-time step: shift or model at this TR, aliased rhythms)
     ...[...new Set(record.stepNotes.map((n) => n.diagnostics.guidance).filter((g): g is string => typeof g === 'string'))].map((g) => `Guidance (${record.stepNotes.find((n) => n.diagnostics.guidance === g)!.step}): ${g}`),
   ];
@@ -155,6 +157,27 @@ function geometricKeys(vary: Record<string, unknown[]>): string[] {
     const step = k.slice(0, k.indexOf('.'));
     return step !== 'model' && listSteps().includes(step) && getStep(step).kind === 'geometric' && vary[k].some((v) => typeof v !== 'number');
   });
+}
+
+/**
+ * Framewise displacement before and after motion correction (the motion-correct step's note), one
+ * line per distinct before/after pair with the settings it holds for.
+ */
+function motionLines(folder: SweepFolder): string[] {
+  const labels = new Map<number, string>();
+  for (const s of summariseScorecard(folder.result.scorecard)) labels.set(s.settingIndex, settingText(s.setting));
+  const byText = new Map<string, string[]>();
+  for (const { settingIndex, notes } of folder.result.notes) {
+    const d = notes.find((n) => n.step === 'motion-correct' && typeof n.diagnostics.fdMeanBeforeMm === 'number')?.diagnostics;
+    if (!d) continue;
+    const mm = (x: unknown, digits: number) => (typeof x === 'number' ? `${x.toFixed(digits)} mm` : 'n/a');
+    const after = typeof d.fdMeanAfterMm === 'number'
+      ? `after correction mean ${mm(d.fdMeanAfterMm, 3)}, largest ${mm(d.fdMaxAfterMm, 2)}, ${d.fdAbove05After} volumes above 0.5 mm (${d.fdAfterNote})`
+      : `after correction ${d.fdAfterNote}`;
+    const text = `before correction mean ${mm(d.fdMeanBeforeMm, 3)}, largest ${mm(d.fdMaxBeforeMm, 2)}, ${d.fdAbove05Before} volumes above 0.5 mm; ${after}`;
+    byText.set(text, [...(byText.get(text) ?? []), labels.get(settingIndex) ?? `setting ${settingIndex}`]);
+  }
+  return [...byText.entries()].map(([text, settings]) => `Framewise displacement (Power et al. 2012, 50 mm sphere; ${settings.join('; ')}): ${text}`);
 }
 
 /** Settings whose mean estimated smoothness is under 3 voxels FWHM (geometric mean voxel size). */

@@ -96,7 +96,7 @@ const motionCorrect: StepDefinition<MotionCorrectParams, MotionEstimate> = {
     levels: z.array(z.number().int().min(1).max(32)).min(1).max(6).default([4, 2, 1]),
     withinMask: z.boolean().default(false),
   }).strict(),
-  version: 1,
+  version: 2, // 2: the estimate carries framewise displacement before and after correction
   kind: 'geometric',
   outputFrame: motionCorrectOutputFrame,
   estimate: motionCorrectEstimate,

@@ -10,6 +10,8 @@ import type { RegistrationCost, RegistrationModel } from '../register/registrati
 import { checkKernel, type InterpolationKernel } from '../resample/interpolation-kernel.js';
 import { resampleRun } from '../resample/resample-run.js';
 import { kernelSimplicity } from './resample-step.js';
+import { framewiseDisplacement } from '../model/framewise-displacement.js';
+import { isBoldsweepError } from '../core/errors.js';
 import type { StepContext, StepFunction } from './step-types.js';
 
 /** Parameters of {@link motionCorrectStep}. */
@@ -42,6 +44,49 @@ export interface MotionEstimate {
   parameters: number[][];
   /** Final cost per volume. */
   costs: number[];
+  /**
+   * Framewise displacement (Power et al. 2012) of the run before correction (from the estimate) and
+   * after it (the corrected unplanted run registered again at the coarse levels
+   * {@link RESIDUAL_MOTION_LEVELS}); `after` is null, with the reason, when that check did not converge.
+   */
+  framewiseDisplacement: { before: FdSummary; after: FdSummary | null; afterNote: string };
+}
+
+/** Mean and largest framewise displacement over a run, mm, and the volumes above 0.5 mm. */
+export interface FdSummary { meanMm: number; maxMm: number; above05: number }
+
+/**
+ * Levels of the check for motion left after correction: coarse (subsampling 4 and 2), as a screen;
+ * residual motion below a quarter of a voxel is not what it is for.
+ */
+export const RESIDUAL_MOTION_LEVELS = [4, 2];
+
+/**
+ * Mean, largest and count above 0.5 mm (common practice; Power et al. 2012) of a run's framewise
+ * displacement from its first six motion parameters per volume.
+ * @param parameters - per volume, shifts (mm) then rotations (degrees), possibly followed by affine terms
+ * @returns the summary
+ * @example fdSummary([[0, 0, 0, 0, 0, 0], [1, 0, 0, 0, 0, 0]]) // { meanMm: 0.5, maxMm: 1, above05: 1 }
+ */
+export function fdSummary(parameters: readonly (readonly number[])[]): FdSummary {
+  const fd = framewiseDisplacement(parameters.map((q) => ({ shiftXMm: q[0], shiftYMm: q[1], shiftZMm: q[2], rotXDeg: q[3], rotYDeg: q[4], rotZDeg: q[5] })));
+  let sum = 0, max = 0, above = 0;
+  for (const v of fd) { sum += v; if (v > max) max = v; if (v > 0.5) above++; }
+  return { meanMm: fd.length ? sum / fd.length : 0, maxMm: max, above05: above };
+}
+
+function motionParameters(motion: { rows: readonly unknown[]; transforms: readonly unknown[] }, np: number): number[][] {
+  return motion.transforms.map((_, t) => {
+    const r = motion.rows[t] as Record<string, number>;
+    return ['shiftXMm', 'shiftYMm', 'shiftZMm', 'rotXDeg', 'rotYDeg', 'rotZDeg', 'scaleX', 'scaleY', 'scaleZ', 'shearXY', 'shearXZ', 'shearYZ'].slice(0, np).map((c) => r[c]);
+  });
+}
+
+/** The run resampled into volume 0's pose by the estimated poses (what the step's apply does). */
+async function correctedRun(volume: Volume, parameters: readonly (readonly number[])[], centreMm: Vec3, kernel: InterpolationKernel, mode: BoundaryMode): Promise<Volume> {
+  const poses = parameters.map((q) => motionParametersAffine([...q], centreMm));
+  const back = invertAffine(poses[0]);
+  return resampleRun(volume, { kernel, mode, perVolume: poses.map((pose) => composeAffine(pose, back)) });
 }
 
 const COST_TEXT: Record<RegistrationCost, string> = {
@@ -90,13 +135,24 @@ export async function motionCorrectEstimate(volume: Volume, params: MotionCorrec
   if (p.withinMask && !context.mask) fail('INVALID_ARGUMENT', 'motion-correct: withinMask needs a brain mask in the step context (set the sweep\'s mask, or withinMask: false)');
   const motion = await estimateRunMotion(volume, { model: p.model, cost: p.cost, reference: p.reference, levels: p.levels, mask: p.withinMask ? context.mask : null });
   const np = p.model === 'rigid' ? 6 : 12;
+  const parameters = motionParameters(motion as unknown as { rows: unknown[]; transforms: unknown[] }, np);
+  // the motion left after correction: the corrected run registered again (rigid least squares,
+  // coarse levels) to the same reference; a check, so a failure to converge is reported, not thrown
+  const corrected = await correctedRun(volume, parameters, motion.centreMm, p.kernel, p.mode);
+  let after: FdSummary | null = null;
+  let afterNote = `registered again after correction: rigid, least squares, levels ${RESIDUAL_MOTION_LEVELS.join(', ')}`;
+  try {
+    const residual = await estimateRunMotion(corrected, { model: 'rigid', cost: 'least-squares', reference: motion.referenceIndex ?? 'mean', levels: RESIDUAL_MOTION_LEVELS, mask: p.withinMask ? context.mask : null });
+    after = fdSummary(motionParameters(residual as unknown as { rows: unknown[]; transforms: unknown[] }, 6));
+  } catch (e) {
+    if (!isBoldsweepError(e, 'REGISTRATION_NOT_CONVERGED')) throw e;
+    afterNote = `not measured: the check after correction did not converge (${e.message})`;
+  }
   return {
     model: p.model, cost: p.cost, referenceIndex: motion.referenceIndex, centreMm: motion.centreMm,
-    parameters: motion.transforms.map((_, t) => {
-      const r = motion.rows[t] as unknown as Record<string, number>;
-      return ['shiftXMm', 'shiftYMm', 'shiftZMm', 'rotXDeg', 'rotYDeg', 'rotZDeg', 'scaleX', 'scaleY', 'scaleZ', 'shearXY', 'shearXZ', 'shearYZ'].slice(0, np).map((c) => r[c]);
-    }),
+    parameters,
     costs: Array.from(motion.costs),
+    framewiseDisplacement: { before: fdSummary(parameters), after, afterNote },
   };
 }
 
@@ -131,10 +187,7 @@ export const motionCorrectStep: StepFunction<MotionCorrectParams, MotionEstimate
   const est = estimate ?? await motionCorrectEstimate(volume, p, context);
   const nt = volume.dims[3];
   if (est.parameters.length !== nt) fail('MOTION_TABLE_LENGTH', `motion-correct: the estimate has ${est.parameters.length} volumes, the run ${nt}`);
-  const poses = est.parameters.map((q) => motionParametersAffine(q, est.centreMm));
-  const back = invertAffine(poses[0]);
-  const perVolume = poses.map((pose) => composeAffine(pose, back));
-  const out = await resampleRun(volume, { kernel: p.kernel, mode: p.mode, perVolume });
+  const out = await correctedRun(volume, est.parameters, est.centreMm, p.kernel, p.mode);
   const inputFrame: Frame = context.frame ?? { kind: 'raw' };
   const frame = motionCorrectOutputFrame(p, inputFrame);
   let maxShift = 0, maxRot = 0;
@@ -143,6 +196,8 @@ export const motionCorrectStep: StepFunction<MotionCorrectParams, MotionEstimate
     for (let i = 3; i < 6; i++) maxRot = Math.max(maxRot, Math.abs(q[i]));
   }
   const ref = est.referenceIndex === null ? 'the mean image' : `volume ${est.referenceIndex}`;
+  const fd = est.framewiseDisplacement;
+  const fdText = fd ? `; framewise displacement mean ${fd.before.meanMm.toFixed(3)} mm, largest ${fd.before.maxMm.toFixed(2)} mm before, ${fd.after ? `mean ${fd.after.meanMm.toFixed(3)} mm, largest ${fd.after.maxMm.toFixed(2)} mm after (${fd.afterNote})` : fd.afterNote}` : '';
   const levels = p.levels.join(', ');
   const rest: StepContext = { ...context };
   delete rest.outputBuffer;
@@ -153,8 +208,9 @@ export const motionCorrectStep: StepFunction<MotionCorrectParams, MotionEstimate
     note: {
       step: 'motion-correct',
       params: { model: p.model, cost: p.cost, reference: p.reference, kernel: p.kernel, mode: p.mode, levels: p.levels, withinMask: p.withinMask },
-      summary: `Motion corrected: ${p.model} to ${ref}, ${p.cost}, ${p.kernel}; largest shift ${maxShift.toFixed(2)} mm, rotation ${maxRot.toFixed(2)} deg`,
-      diagnostics: { referenceIndex: est.referenceIndex ?? -1, maxAbsShiftMm: maxShift, maxAbsRotationDeg: maxRot, meanCost: est.costs.reduce((a, b) => a + b, 0) / Math.max(1, est.costs.length) },
+      summary: `Motion corrected: ${p.model} to ${ref}, ${p.cost}, ${p.kernel}; largest shift ${maxShift.toFixed(2)} mm, rotation ${maxRot.toFixed(2)} deg${fdText}`,
+      diagnostics: { referenceIndex: est.referenceIndex ?? -1, maxAbsShiftMm: maxShift, maxAbsRotationDeg: maxRot, meanCost: est.costs.reduce((a, b) => a + b, 0) / Math.max(1, est.costs.length),
+        ...(fd ? { fdMeanBeforeMm: fd.before.meanMm, fdMaxBeforeMm: fd.before.maxMm, fdAbove05Before: fd.before.above05, ...(fd.after ? { fdMeanAfterMm: fd.after.meanMm, fdMaxAfterMm: fd.after.maxMm, fdAbove05After: fd.after.above05 } : {}), fdAfterNote: fd.afterNote } : {}) },
       methodsText: `Head motion was estimated by registering every volume to ${ref} with a ${p.model === 'rigid' ? 'rigid (6-parameter)' : 'affine (12-parameter)'} transform minimising ${COST_TEXT[p.cost]} over ${p.levels.length} resolution levels (subsampling ${levels}, Gaussian pre-smoothing)${p.withinMask ? ' within the brain mask' : ''}, and each volume was resampled once into the first volume's position by ${KERNEL_TEXT[p.kernel]} interpolation.`,
       citations: COST_CITATIONS[p.cost],
     },
