@@ -4,13 +4,14 @@ import { fileURLToPath } from 'node:url';
 import type { Command } from 'commander';
 import { findExecutable } from '../cluster/find-executable.js';
 import { slurmScripts } from '../cluster/slurm-scripts.js';
-import { taskMemory } from '../cluster/slurm-task-memory.js';
+import { taskMemory, type StudyMemoryInput } from '../cluster/slurm-task-memory.js';
 import { submitSlurmJobs } from '../cluster/submit-slurm-jobs.js';
 import { fail } from '../core/fail.js';
 import { writeFileAtomic } from '../io/atomic-write.js';
 import { readNiftiHeaderFacts } from '../io/read-nifti-header-facts.js';
 import { planSweep } from '../sweep/plan.js';
 import { readSweepSpec } from '../sweep/read-sweep-spec.js';
+import { studyRunPaths } from '../sweep/study-run-paths.js';
 import { positiveInt, withExitCodes } from './cli-common.js';
 
 interface SlurmCliOptions {
@@ -80,7 +81,21 @@ Example:
       if (o.shards > plan.groups.length) {
         fail('TOO_MANY_SHARDS', `--shards ${o.shards} is more than the ${plan.groups.length} planting groups of this spec (${plan.cells.length} cells; a shard runs whole groups); use --shards ${plan.groups.length} or fewer`);
       }
-      const mem = taskMemory({ voxels4d: nx * ny * nz * nt, voxels3d: nx * ny * nz, fileBytesPerVoxel: header.datatype.bytes, fileBytes, compressed, workers: o.workers });
+      // a study's further runs are opened by every task: their headers give their sizes
+      let study: StudyMemoryInput | undefined;
+      if (spec.study) {
+        const others = [];
+        for (const p of studyRunPaths(spec.study.runs, o.spec, runPath)) others.push((await readNiftiHeaderFacts(p)).header.dims4);
+        const cellsPerGroup = new Map<number, number>();
+        for (const c of plan.cells) cellsPerGroup.set(c.group, (cellsPerGroup.get(c.group) ?? 0) + 1);
+        study = {
+          otherRunsVoxels4d: others.map(([a, b, c, d]) => a * b * c * d),
+          largestVoxels3d: Math.max(nx * ny * nz, ...others.map(([a, b, c]) => a * b * c)),
+          subjects: spec.study.subjects,
+          settingsPerTask: Math.max(1, ...cellsPerGroup.values()),
+        };
+      }
+      const mem = taskMemory({ voxels4d: nx * ny * nz * nt, voxels3d: nx * ny * nz, fileBytesPerVoxel: header.datatype.bytes, fileBytes, compressed, workers: o.workers, ...(study ? { study } : {}) });
       const sweepArgs: string[] = [];
       const fileOpt = (flag: string, v?: string) => { if (v !== undefined) sweepArgs.push(flag, resolve(v)); };
       const textOpt = (flag: string, v?: string) => { if (v !== undefined) sweepArgs.push(flag, v); };
