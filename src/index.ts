@@ -67,7 +67,7 @@ export {
 // model
 export { hrfValues, buildDesign, fitGlm, fitGlmAr1, contrastMaps, estimateSmoothness, oneSampleT } from './model/index.js';
 export {
-  framewiseDisplacement, FD_SPHERE_RADIUS_MM, FD_CENSOR_THRESHOLD_MM, fdCensorVolumes, motionExpansion, motionRegressors, type MotionRegressorCount,
+  framewiseDisplacement, FD_SPHERE_RADIUS_MM, FD_CENSOR_THRESHOLD_MM, fdCensorVolumes, type FdCensorReach, motionExpansion, motionRegressors, type MotionRegressorCount,
 } from './model/index.js';
 export { thresholdUncorrected, thresholdBonferroni, thresholdFdr, thresholdRft, thresholdClusterExtent } from './model/index.js';
 

@@ -40,4 +40,4 @@ export { type SliceTimingGuidance, type AliasedRhythm, LONG_TR_SEC, PHYSIOLOGICA
 export { framewiseDisplacement, FD_SPHERE_RADIUS_MM, FD_CENSOR_THRESHOLD_MM, type MotionParameters } from './framewise-displacement.js';
 export { motionExpansion, MOTION_REGRESSOR_COUNTS, type MotionRegressorCount, type MotionColumns } from './motion-expansion.js';
 export { motionRegressors } from './motion-regressors.js';
-export { fdCensorVolumes } from './fd-censor-volumes.js';
+export { fdCensorVolumes, type FdCensorReach } from './fd-censor-volumes.js';

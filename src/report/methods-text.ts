@@ -38,7 +38,7 @@ export const METHOD_REFERENCES = {
 /** The model's motion terms as chosen (or fixed in the spec), as a clause starting with ', ', or ''. */
 function motionModelText(r: DecisionRecord, cite: (ref: string) => string): string {
   // a varied option's chosen value (null too: no censoring) overrides the spec's fixed one
-  const chosen = (key: 'motionRegressors' | 'censorFdMm') => (`model.${key}` in r.choice.setting ? r.choice.setting[`model.${key}`] : r.sweepSpec.model[key]) ?? null;
+  const chosen = (key: 'motionRegressors' | 'censorFdMm' | 'censorFdBefore' | 'censorFdAfter') => (`model.${key}` in r.choice.setting ? r.choice.setting[`model.${key}`] : r.sweepSpec.model[key]) ?? null;
   const count = Number(chosen('motionRegressors') ?? 0);
   const fd = chosen('censorFdMm');
   // cited only when used (cite() adds to the reference list)
@@ -49,7 +49,11 @@ function motionModelText(r: DecisionRecord, cite: (ref: string) => string): stri
   };
   const parts: string[] = [];
   if (what[count]) parts.push(`${count} mean-centred motion regressors: ${what[count]()}`);
-  if (typeof fd === 'number') parts.push(`one indicator regressor for each volume whose framewise displacement (${cite(METHOD_REFERENCES.framewiseDisplacement)}; rotations as arc length on a 50 mm sphere) exceeded ${fd} mm`);
+  const before = Number(chosen('censorFdBefore') ?? 0);
+  const after = Number(chosen('censorFdAfter') ?? 0);
+  const volumes = (n: number) => `${n} volume${n === 1 ? '' : 's'}`;
+  const reach = before || after ? ` and for the ${[before ? `${volumes(before)} before` : '', after ? `${volumes(after)} after` : ''].filter(Boolean).join(' and ')} each of them` : '';
+  if (typeof fd === 'number') parts.push(`one indicator regressor for each volume whose framewise displacement (${cite(METHOD_REFERENCES.framewiseDisplacement)}; rotations as arc length on a 50 mm sphere) exceeded ${fd} mm${reach}`);
   return parts.map((p) => `, ${p}`).join('');
 }
 

@@ -4,7 +4,7 @@ import { fail } from '../core/fail.js';
 import { getStep, parseStepParams } from '../steps/registry.js';
 import { parseSweepSpecShape, sweepSpecSchema, type SweepSpec, type SweepSpecInput } from './spec.js';
 
-const MODEL_OPTIONS = ['ar1', 'ar1SmoothFwhmMm', 'highpassCutoffSec', 'trialType', 'censorVolumes', 'motionRegressors', 'censorFdMm'] as const;
+const MODEL_OPTIONS = ['ar1', 'ar1SmoothFwhmMm', 'highpassCutoffSec', 'trialType', 'censorVolumes', 'motionRegressors', 'censorFdMm', 'censorFdBefore', 'censorFdAfter'] as const;
 
 /** Rethrow a step's parameter error as SPEC_INVALID naming the spec field (unknown names keep their codes). */
 function asSpecError(e: unknown, field: string): never {

@@ -42,6 +42,8 @@ const MODEL_LABELS: Record<string, ParameterLabel> = {
   'model.highpassCutoffSec': { name: 'model drift cutoff', unit: 's' },
   'model.motionRegressors': { name: 'motion regressors', unit: '' },
   'model.censorFdMm': { name: 'censoring above framewise displacement', unit: 'mm' },
+  'model.censorFdBefore': { name: 'volumes censored before each movement', unit: '' },
+  'model.censorFdAfter': { name: 'volumes censored after each movement', unit: '' },
   'study.misregistrationMm': { name: 'misregistration SD', unit: 'mm' },
 };
 

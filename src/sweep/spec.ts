@@ -129,6 +129,17 @@ export interface ModelOptions {
    * __Default value:__ null
    */
   censorFdMm?: number | null;
+  /**
+   * With `censorFdMm`: also censor this many volumes before each volume above it (Power et al. 2014
+   * censored one). Absent = 0: caches and scorecards of sweeps that do not name it keep their keys.
+   * __Default value:__ 0
+   */
+  censorFdBefore?: number;
+  /**
+   * With `censorFdMm`: also censor this many volumes after each volume above it (Power et al. 2014
+   * censored two). Absent = 0. __Default value:__ 0
+   */
+  censorFdAfter?: number;
 }
 
 /**
@@ -228,6 +239,8 @@ export const sweepSpecSchema = z.object({
     censorVolumes: z.array(z.number().int().nonnegative()).default([]),
     motionRegressors: z.union([z.literal(0), z.literal(6), z.literal(12), z.literal(24)]).optional(),
     censorFdMm: z.number().positive().max(100).nullable().optional(),
+    censorFdBefore: z.number().int().min(0).max(10).optional(),
+    censorFdAfter: z.number().int().min(0).max(10).optional(),
   }).strict().default({}),
   acquisition: z.object({
     sliceTiming: z.enum(['sidecar', 'none']).default('sidecar'),

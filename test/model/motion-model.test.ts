@@ -49,6 +49,17 @@ describe('framewiseDisplacement: Power et al. (2012, NeuroImage 59:2142-2154), R
     expect(fdCensorVolumes(Float64Array.from([0, 0.2, 0.5, 0.51, 3]), 0.5)).toEqual([3, 4]);
     expect(() => fdCensorVolumes([0, 1], -1)).toThrow(expect.objectContaining({ code: 'INVALID_ARGUMENT' }));
   });
+
+  it('censoring can reach neighbours: one before and two after each flagged volume (Power et al. 2014, NeuroImage 84:320-341 [memory]), clipped to the run', () => {
+    // flagged by hand: volumes 1 (0.6 mm) and 6 (0.9 mm) of 8; 1 -> 0..3, 6 -> 5..7 (8 is past the end)
+    const fd = Float64Array.from([0, 0.6, 0.1, 0.2, 0.1, 0.3, 0.9, 0.1]);
+    expect(fdCensorVolumes(fd, 0.5, { before: 1, after: 2 })).toEqual([0, 1, 2, 3, 5, 6, 7]);
+    // overlapping reaches give each volume once
+    expect(fdCensorVolumes(Float64Array.from([0, 1, 1, 0, 0]), 0.5, { after: 1 })).toEqual([1, 2, 3]);
+    expect(fdCensorVolumes(fd, 0.5, {})).toEqual([1, 6]);
+    expect(() => fdCensorVolumes(fd, 0.5, { before: 1.5 })).toThrow(expect.objectContaining({ code: 'INVALID_ARGUMENT' }));
+    expect(() => fdCensorVolumes(fd, 0.5, { after: -1 })).toThrow(expect.objectContaining({ code: 'INVALID_ARGUMENT' }));
+  });
 });
 
 describe('motionExpansion: the 24 regressors of Friston et al. (1996, Magn Reson Med 35:346-355), REFERENCES.md §16', () => {

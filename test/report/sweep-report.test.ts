@@ -89,6 +89,9 @@ describe('report files', () => {
     const model6 = methodsText(chosen).paragraphs[1]; // the model's paragraph
     expect(model6).toContain('6 mean-centred motion regressors: the six rigid-body motion parameters,');
     expect(model6).not.toContain('framewise displacement');
+    // censoring that reaches neighbours says how far
+    const reach = { ...fixed, choice: { ...fixed.choice, setting: { ...fixed.choice.setting, 'model.censorFdAfter': 2 } }, sweepSpec: { ...fixed.sweepSpec, model: { ...fixed.sweepSpec.model, censorFdBefore: 1 } } };
+    expect(methodsText(reach).paragraphs.join(' ')).toMatch(/exceeded 0\.5 mm and for the 1 volume before and 2 volumes after each of them/);
   });
 
   it('methods text gives numbers with units and cites what it uses', () => {

@@ -47,6 +47,16 @@ describe('motion regressors and censoring by framewise displacement in a sweep',
     expect(dof(24, 0.5)).toBe(base - 26);
   });
 
+  it('censoring one volume before and two after each movement takes the neighbours out of the model too', async () => {
+    const reach = await runSweep(run, { ...spec(), vary: {}, model: { censorFdMm: 0.5, censorFdBefore: 1, censorFdAfter: 2 } }, { inThisThread: true, placementMask: run.greyMatter, brainMask: run.brain, motionTable: run.motionTable, rotationCentreMm: run.rotationCentreMm });
+    // flagged 40 and 41 -> 39..43: five volumes, each its own indicator column
+    expect(fdCensorVolumes(framewiseDisplacement(run.motionTable), 0.5, { before: 1, after: 2 })).toEqual([39, 40, 41, 42, 43]);
+    const base = swept.scorecard.rows.find((r) => r['model.motionRegressors'] === 0 && r['model.censorFdMm'] === null)!.dof as number;
+    expect(reach.scorecard.rows[0].dof).toBe(base - 5);
+    expect(() => parseSweepSpec({ ...spec(), vary: { 'model.censorFdAfter': [0, 2.5] } })).toThrow(expect.objectContaining({ code: 'SPEC_INVALID' }));
+    expect(planSweep(parseSweepSpec({ ...spec(), vary: { 'model.censorFdMm': [0.5], 'model.censorFdAfter': [0, 2] } }), { runHash: 'r', contextHash: 'c' }).cells.length).toBe(2);
+  }, 120_000);
+
   it('names the new model options in words and keeps every cell distinct', () => {
     const keys = new Set(planSweep(parseSweepSpec(spec()), { runHash: 'r', contextHash: 'c' }).cells.map((c) => c.key));
     expect(keys.size).toBe(6);
@@ -81,5 +91,6 @@ describe('the motion options in words', () => {
     const { settingText } = await import('../../src/sweep/settings-grid.js');
     expect(settingText({ 'model.motionRegressors': 24, 'model.censorFdMm': 0.5 })).toBe('motion regressors 24, censoring above framewise displacement 0.5 mm');
     expect(settingText({ 'model.censorFdMm': null })).toBe('censoring above framewise displacement none');
+    expect(settingText({ 'model.censorFdBefore': 1, 'model.censorFdAfter': 2 })).toBe('volumes censored before each movement 1, volumes censored after each movement 2');
   });
 });
