@@ -14,7 +14,7 @@ import { randomBlockEvents } from './random-block-events.js';
 import { collectGarbage } from './collect-garbage.js';
 import { FIRST_LEVEL_METRICS, SCORECARD_METRICS } from './cell-metrics.js';
 import { DEFAULT_FPR_GRID, type CurveTable } from '../score/curve-table.js';
-import { planSweep, type CellPlan, type SweepPlan } from './plan.js';
+import { CACHE_FORMAT, planSweep, type CellPlan, type SweepPlan } from './plan.js';
 import type { SweepProgress } from './progress.js';
 import type { Scorecard, ScorecardRow } from './scorecard.js';
 import { parseShard, shardCells, type Shard } from './shard.js';
@@ -27,7 +27,7 @@ import type { Vec3 } from '../core/affine.js';
 import { parseSweepSpec } from './parse-sweep-spec.js';
 import type { SweepSpec, SweepSpecInput } from './spec.js';
 import { stableHash } from './stable-hash.js';
-import { readCachedCell, readCachedEstimate, readCachedTsnr, removeGroupStage } from './stage-cache.js';
+import { readCachedCell, readCachedEstimate, readCachedNull, readCachedTsnr, removeGroupStage, writeCachedNull } from './stage-cache.js';
 import { releaseWorkBuffer } from './work-buffer.js';
 import { releaseVoxelSumsKernels } from '../look/voxel-sums-wasm.js';
 import { studyDesignCorrelation, type StudyDesignCorrelation } from './study-design-correlation.js';
@@ -407,11 +407,7 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
   // cells run in worker threads even for one worker: there, steps run in their calling thread and the
   // memory of one cell is released before the next (see cell-pipeline.ts)
   const useThreads = !options.inThisThread && taskCells.length + tsnrTodo.size > 0;
-  // null designs per setting of this shard (see nullDesignCount), run before the cells that may need them
-  const mySettingCount = new Set(mine.map((i) => plan.cells[i].settingIndex)).size;
-  const nullJobs = nullDesignCount(spec.threshold) > 0 ? mySettingCount : 0;
   const progress = new Int32Array(useThreads ? new SharedArrayBuffer(4 * Math.max(1, taskCells.length)) : new ArrayBuffer(4 * Math.max(1, taskCells.length)));
-  const jobCount = taskCells.length + tsnrTodo.size + nullJobs;
   const reuse = options.reuseStages ?? true;
   const ctxPlain = baseContext(reuse ? 'memory' : 'none', progress);
   const ctxDisk: SweepContext = { ...ctxPlain, stageMode: 'disk' };
@@ -420,15 +416,31 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
   const designSeeds = Array.from({ length: designCount }, (_, k) => childSeed(spec.seed, 'null-design', k));
   const nullDesign = spec.events.kind === 'random-blocks' ? { onSec: spec.events.onSec, offMinSec: spec.events.offMinSec, offMaxSec: spec.events.offMaxSec, trialType: spec.events.trialType } : { ...NULL_DESIGN };
   const needsNull = designCount > 0;
-  const nullTasks: NullTask[] = needsNull ? [...mySettings].sort((a, b) => a - b).map((settingIndex, i) => {
-    const model = { ...spec.model };
-    for (const [k, v] of Object.entries(plan.settings[settingIndex])) if (k.startsWith('model.')) (model as Record<string, unknown>)[k.slice(6)] = v;
-    const t = plan.tsnr[settingIndex];
-    return { kind: 'null', index: taskCells.length + tsnrTasks.length + i, settingIndex, steps: t.steps, estimates: t.estimates, model, designSeeds, design: nullDesign, context: ctxPlain };
-  }) : [];
+  // null designs per setting of this shard (see nullDesignCount), run before the cells that may need
+  // them, unless the cache has them
   const nullResults: NullResult[] = [];
+  const nullKeys = new Map<number, string>();
+  const nullTasks: NullTask[] = [];
+  if (needsNull) {
+    for (const settingIndex of [...mySettings].sort((a, b) => a - b)) {
+      const model = { ...spec.model };
+      for (const [k, v] of Object.entries(plan.settings[settingIndex])) if (k.startsWith('model.')) (model as Record<string, unknown>)[k.slice(6)] = v;
+      const t = plan.tsnr[settingIndex];
+      // the tSNR key names the setting's whole recipe on this run and context; the rest is what the null designs add
+      const key = stableHash({ format: CACHE_FORMAT, stage: 'null', recipe: t.key, model, designSeeds, design: nullDesign, threshold: spec.threshold });
+      nullKeys.set(settingIndex, key);
+      const cached = cacheDir ? readCachedNull(cacheDir, key) : null;
+      if (cached) nullResults.push(cached);
+      else nullTasks.push({ kind: 'null', index: taskCells.length + tsnrTasks.length + nullTasks.length, settingIndex, steps: t.steps, estimates: t.estimates, model, designSeeds, design: nullDesign, context: ctxPlain });
+    }
+  }
+  const jobCount = taskCells.length + tsnrTodo.size + nullTasks.length;
+  const keepNull = async (r: NullResult): Promise<void> => {
+    nullResults.push(r);
+    if (cacheDir) await writeCachedNull(cacheDir, nullKeys.get(r.settingIndex)!, r);
+  };
   const useNull = (): void => {
-    if (!nullTasks.length) return;
+    if (!nullResults.length) return;
     const maxima: Record<number, number[]> = {};
     for (const r of nullResults) maxima[r.settingIndex] = r.maxima;
     ctxPlain.nullMaxima = maxima;
@@ -469,7 +481,7 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
     const { runNullTask, runSweepTask, runTsnrTask } = await cellPipeline();
     try {
       for (const t of tsnrTasks) tsnrByKey.set(t.key, await runTsnrTask(t));
-      for (const t of nullTasks) nullResults.push(await runNullTask(t));
+      for (const t of nullTasks) await keepNull(await runNullTask(t));
       useNull();
       for (const t of tasks) {
         keep(await runSweepTask(t, () => report()), t);
@@ -490,7 +502,7 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
     try {
       // the null designs first (a calibrated threshold needs them before any cell), with the tSNR jobs
       const tsnrDone = tsnrTasks.map((t) => pool.run(t).then((out) => { tsnrByKey.set(t.key, out as TsnrResult); }));
-      await Promise.all(nullTasks.map((t) => pool.run(t).then((out) => { nullResults.push(out as NullResult); })));
+      await Promise.all(nullTasks.map((t) => pool.run(t).then((out) => keepNull(out as NullResult))));
       useNull();
       await Promise.all([
         ...tsnrDone,

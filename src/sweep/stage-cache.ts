@@ -5,7 +5,7 @@ import type { Volume } from '../core/volume.js';
 import type { StepContext, StepNote } from '../steps/step-types.js';
 import type { PlantTruth } from '../plant/plant-activations.js';
 import type { NuisanceRegressor } from '../model/design.js';
-import type { CellResult, EstimateResult, TsnrResult } from './sweep-task.js';
+import type { CellResult, EstimateResult, NullResult, TsnrResult } from './sweep-task.js';
 
 /**
  * The stage cache on disk. Every file is written atomically (temp file + rename), so an interrupted
@@ -17,6 +17,7 @@ import type { CellResult, EstimateResult, TsnrResult } from './sweep-task.js';
  *                             a sweep cannot keep it as a small patch (see cell-pipeline.ts)
  *   <dir>/groups/<key>.json   its geometry, step context, notes and planted truth (written last)
  *   <dir>/estimates/<key>.json what a step estimated from the unplanted run for one setting
+ *   <dir>/null/<key>.json     one setting's null designs (their maximum t each), for calibrated thresholds
  */
 
 /** A group stage: the planted run after the steps shared by every setting. */
@@ -211,6 +212,40 @@ export function readCachedTsnr(dir: string, key: string): TsnrResult | null {
 export async function writeCachedTsnr(dir: string, result: TsnrResult): Promise<void> {
   mkdirSync(join(dir, 'tsnr'), { recursive: true });
   await writeFileAtomic(join(dir, 'tsnr', `${result.key}.json`), JSON.stringify(result));
+}
+
+/** A setting's null designs as cached: the result and the key that names them. */
+interface CachedNull { key: string; result: NullResult }
+
+/**
+ * Read a setting's null designs (the whole recipe on the unplanted run, K random designs).
+ * @param dir - cache folder
+ * @param key - null key (nullDesignsKey)
+ * @returns the result, or null when absent or unreadable (then the designs are fitted again)
+ * @example readCachedNull(dir, key)
+ */
+export function readCachedNull(dir: string, key: string): NullResult | null {
+  const path = join(dir, 'null', `${key}.json`);
+  if (!existsSync(path)) return null;
+  try {
+    const r = JSON.parse(readFileSync(path, 'utf8')) as CachedNull;
+    return r.key === key ? r.result : null;
+  } catch {
+    return null;
+  }
+}
+
+/**
+ * Store a setting's null designs under their key.
+ * @param dir - cache folder
+ * @param key - null key (nullDesignsKey)
+ * @param result - what the null task produced
+ * @returns when the file is in place
+ * @example await writeCachedNull(dir, key, result)
+ */
+export async function writeCachedNull(dir: string, key: string, result: NullResult): Promise<void> {
+  mkdirSync(join(dir, 'null'), { recursive: true });
+  await writeFileAtomic(join(dir, 'null', `${key}.json`), JSON.stringify({ key, result } satisfies CachedNull));
 }
 
 /**

@@ -1,4 +1,6 @@
-import { readFileSync } from 'node:fs';
+import { mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { diagonalAffine } from '../../src/core/affine.js';
 import { createRng } from '../../src/core/random.js';
@@ -100,6 +102,33 @@ describe('fwe-calibrated on smooth non-Gaussian null runs', () => {
     }
     expect(tsv[1]).toBe(tsv[0]);
     expect(tsv[2]).toBe(tsv[0]);
+  }, 300_000);
+
+  it('keeps each setting\'s null designs in the stage cache: a resumed sweep fits none again and gives the same bytes', async () => {
+    const run = cubedNullRun(78);
+    const planted: SweepSpecInput = { ...spec(6, 19), vary: { 'smooth.fwhmMm': [0, 6] }, plant: { sizesFwhmMm: [8], amplitudesPct: [3], count: 2 }, repeats: 1 };
+    const cacheDir = mkdtempSync(join(tmpdir(), 'boldsweep-null-cache-'));
+    try {
+      const input = { volume: run.volume, events: null, sidecar: null };
+      const first = await runSweep(input, planted, { inThisThread: true, brainMask: run.mask, cacheDir });
+      expect(readdirSync(join(cacheDir, 'null')).length).toBe(2);
+      // every cell and both settings' null designs come from the cache
+      const again = await runSweep(input, planted, { inThisThread: true, brainMask: run.mask, cacheDir });
+      expect(again.stats.tasks).toBe(0);
+      expect(again.nullCalibration).toEqual(first.nullCalibration);
+      expect(scorecardToTsv(again.scorecard)).toBe(scorecardToTsv(first.scorecard));
+      // a new cell (another width) needs the null designs of its own setting only
+      const wider = await runSweep(input, { ...planted, vary: { 'smooth.fwhmMm': [0, 6, 9] } }, { inThisThread: true, brainMask: run.mask, cacheDir });
+      expect(wider.stats.tasks).toBe(1 + 1 + 1); // the new width's cells (one task), its tSNR, its null designs
+      expect(readdirSync(join(cacheDir, 'null')).length).toBe(3);
+      expect(wider.nullCalibration!.slice(0, 2)).toEqual(first.nullCalibration);
+      // another alpha is another threshold: the designs are fitted again
+      const other = await runSweep(input, { ...planted, threshold: { kind: 'fwe-calibrated', alpha: 0.1, nullDesigns: 19 } }, { inThisThread: true, brainMask: run.mask, cacheDir });
+      expect(readdirSync(join(cacheDir, 'null')).length).toBe(5);
+      expect(other.nullCalibration!.map((c) => c.settingIndex)).toEqual([0, 1]);
+    } finally {
+      rmSync(cacheDir, { recursive: true, force: true });
+    }
   }, 300_000);
 
   it('refuses a spec asking for 0 null designs, or too few for the level, with a typed error', async () => {
