@@ -1,18 +1,18 @@
-import { mkdirSync, mkdtempSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
-import { chromium, type BrowserContext } from 'playwright-core';
+import type { BrowserContext } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { openRun } from '../../src/io/open-run.js';
 import { lookAtRun } from '../../src/look/look-at-run.js';
 import { writeLookFolder } from '../../src/report/write-look-folder.js';
 import { findTool } from '../find-tool.js';
+import { launchHeadlessChromium } from './headless-chromium.js';
 
 // look.html of the demo run in a real browser: Debian's headless Chromium driven by playwright-core.
 const outDir = join(process.cwd(), 'test', 'output');
 let browser: BrowserContext;
-let userDataDir: string;
+let closeBrowser: (() => Promise<void>) | undefined;
 let pagePath: string;
 let findingCount: number;
 const CHROMIUM = findTool('chromium');
@@ -26,18 +26,11 @@ beforeAll(async () => {
   mkdirSync(outDir, { recursive: true });
   await writeLookFolder(run.volume, look, dir, { source: 'data-demo/sub-phantom01_task-flicker_bold.nii.gz' });
   pagePath = join(dir, 'look.html');
-  userDataDir = mkdtempSync(join(tmpdir(), 'boldsweep-chromium-'));
-  browser = await chromium.launchPersistentContext(userDataDir, {
-    executablePath: CHROMIUM.path ?? undefined,
-    headless: true,
-    viewport: { width: 1200, height: 900 },
-    args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
-  });
+  ({ browser, close: closeBrowser } = await launchHeadlessChromium(CHROMIUM.path!));
 }, 120000);
 
 afterAll(async () => {
-  await browser?.close();
-  if (userDataDir) rmSync(userDataDir, { recursive: true, force: true });
+  await closeBrowser?.();
 });
 
   it('shows the recommendation, every finding with its consequence and advice, the numbers and every figure, fetching nothing', async () => {

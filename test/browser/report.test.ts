@@ -1,21 +1,21 @@
-import { mkdirSync, mkdtempSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { mkdirSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
-import { chromium, type BrowserContext } from 'playwright-core';
+import type { BrowserContext } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { runFacts } from '../../src/report/run-facts.js';
 import { writeSweepFolder } from '../../src/report/sweep-folder.js';
 import { writeReport } from '../../src/report/write-report.js';
 import { runSweep } from '../../src/sweep/runner.js';
 import { findTool } from '../find-tool.js';
+import { launchHeadlessChromium } from './headless-chromium.js';
 import { smallPhantom } from '../sweep/sweep-test-runs.js';
 
 // The HTML report in a real browser: Debian's headless Chromium driven by playwright-core.
 const CHROMIUM = findTool('chromium');
 const outDir = join(process.cwd(), 'test', 'output');
 let browser: BrowserContext;
-let userDataDir: string;
+let closeBrowser: (() => Promise<void>) | undefined;
 let reportPath: string;
 
 describe.skipIf(!CHROMIUM.path)('HTML report in headless Chromium', () => {
@@ -34,19 +34,11 @@ describe.skipIf(!CHROMIUM.path)('HTML report in headless Chromium', () => {
     const folder = { result, run: runFacts({ volume: run.volume, sidecar: run.sidecar }), masks: { brain: { kind: 'otsu-mean' as const }, placement: { kind: 'brain' as const }, exclude: null } };
     await writeSweepFolder(dir, folder);
     reportPath = (await writeReport(dir, folder)).files.report;
-    userDataDir = mkdtempSync(join(tmpdir(), 'boldsweep-chromium-'));
-    // a fresh profile per run (playwright takes the user-data dir as an argument, not a flag)
-    browser = await chromium.launchPersistentContext(userDataDir, {
-      executablePath: CHROMIUM.path ?? undefined,
-      headless: true,
-      viewport: { width: 1200, height: 900 },
-      args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
-    });
+    ({ browser, close: closeBrowser } = await launchHeadlessChromium(CHROMIUM.path!));
   });
 
   afterAll(async () => {
-    await browser?.close();
-    if (userDataDir) rmSync(userDataDir, { recursive: true, force: true });
+    await closeBrowser?.();
   });
 
   it('draws every chart, shows the recommendation and the caution, and is saved as a screenshot', async () => {
