@@ -87,7 +87,9 @@ function measure(dataDir: string, cacheDir: string, repeats: number, study: bool
 }
 
 const median = (xs: number[]) => { const s = [...xs].sort((a, b) => a - b); return s[(s.length - 1) >> 1]; };
-const mmText = (o: { value: number; low: number; high: number }) => `${o.value.toFixed(2)} mm (95 % interval ${o.low.toFixed(2)} to ${o.high.toFixed(2)})`;
+// the child's JSON turns NaN (an optimum or interval the repeats leave undefined) into null
+const mmNumber = (x: number | null) => (x === null || !Number.isFinite(x) ? 'NaN' : x.toFixed(2));
+const mmText = (o: { value: number | null; low: number | null; high: number | null }) => `${mmNumber(o.value)} mm (95 % interval ${mmNumber(o.low)} to ${mmNumber(o.high)}${o.value === null || o.low === null || o.high === null ? '; undefined where the repeats detect nothing at any width' : ''})`;
 
 /**
  * Run the benchmark and print its lines.
