@@ -22,26 +22,43 @@ export interface EdgeSides {
  */
 export function edgeSides(mask: ArrayLike<number>, dims: readonly [number, number, number] | readonly number[]): EdgeSides {
   const [nx, ny, nz] = dims;
-  const strides = [1, nx, nx * ny];
-  const edge: number[] = [];
-  const sides: number[] = [];
-  const plus: number[][] = [[], [], []];
-  const minus: number[][] = [[], [], []];
-  for (let k = 0, v = 0; k < nz; k++) for (let j = 0; j < ny; j++) for (let i = 0; i < nx; i++, v++) {
-    if (!mask[v]) continue;
-    const at = [i, j, k];
-    const e = edge.length;
-    let code = 0;
-    for (let a = 0; a < 3; a++) {
-      const size = dims[a], s = strides[a];
-      const openPlus = at[a] === size - 1 || !mask[v + s];
-      const openMinus = at[a] === 0 || !mask[v - s];
-      if (openPlus === openMinus) continue; // closed on both sides, or open on both (thin)
-      (openPlus ? plus : minus)[a].push(e);
-      code |= 1 << (2 * a + (openPlus ? 0 : 1));
-    }
-    if (code) { edge.push(v); sides.push(code); }
+  const codes = new Uint8Array(nx * ny * nz);
+  let edges = 0;
+  for (let k = 0; k < nz; k++) for (let j = 0; j < ny; j++) edges += rowSides(mask, codes, nx, ny, nz, j, k);
+  const edge = new Int32Array(edges);
+  const sides = new Uint8Array(edges);
+  const sizes = new Int32Array(6);
+  for (let v = 0, e = 0; e < edges; v++) {
+    const c = codes[v];
+    if (c === 0) continue;
+    edge[e] = v;
+    sides[e++] = c;
+    for (let s = 0; s < 6; s++) if (c & (1 << s)) sizes[s]++;
   }
-  const typed = (l: number[][]) => [Int32Array.from(l[0]), Int32Array.from(l[1]), Int32Array.from(l[2])] as [Int32Array, Int32Array, Int32Array];
-  return { edge: Int32Array.from(edge), plus: typed(plus), minus: typed(minus), sides: Uint8Array.from(sides) };
+  const lists = Array.from(sizes, (size) => new Int32Array(size));
+  const filled = new Int32Array(6);
+  for (let e = 0; e < edges; e++) for (let s = 0; s < 6; s++) if (sides[e] & (1 << s)) lists[s][filled[s]++] = e;
+  return { edge, plus: [lists[0], lists[2], lists[4]], minus: [lists[1], lists[3], lists[5]], sides };
+}
+
+/** Side codes (see EdgeSides.sides) of row (j, k) into codes; returns how many of its voxels face some side. */
+function rowSides(mask: ArrayLike<number>, codes: Uint8Array, nx: number, ny: number, nz: number, j: number, k: number): number {
+  const nxy = nx * ny;
+  const base = nx * (j + ny * k);
+  let count = 0;
+  for (let i = 0; i < nx; i++) {
+    const v = base + i;
+    if (!mask[v]) continue;
+    let code = 0;
+    // per axis: open on + and on - (a neighbour outside the mask or the grid); one side only counts
+    let p = i === nx - 1 || !mask[v + 1], m = i === 0 || !mask[v - 1];
+    if (p !== m) code |= p ? 1 : 2;
+    p = j === ny - 1 || !mask[v + nx]; m = j === 0 || !mask[v - nx];
+    if (p !== m) code |= p ? 4 : 8;
+    p = k === nz - 1 || !mask[v + nxy]; m = k === 0 || !mask[v - nxy];
+    if (p !== m) code |= p ? 16 : 32;
+    codes[v] = code;
+    if (code) count++;
+  }
+  return count;
 }
