@@ -177,13 +177,15 @@ export interface LookResult {
  *   1. whole-run sums per voxel [1 streamed pass]: mean image, sums of squares, lag-1 products, drift
  *      projections, a drift fit from volume ~10 and its residual extremes -> brain mask (Otsu +
  *      morphology) or user mask
- *   2. global mean, DVARS, slice means in the mask [mask voxels only]
+ *   2. global mean, DVARS, slice means in the mask, and the motion edge signature's changes at the
+ *      mask's edge voxels (mask voxels too) [mask voxels only]
  *   3. steady-state onset from the global mean     -> volumes to drop [first volumes]
  *   4. volume and slice outliers (traces only)     -> volumes to censor
  *   5. mean, detrended SD, tSNR, lag-1 per voxel over kept, uncensored volumes: the sums of phase 1 minus
  *      the dropped and censored volumes' terms [those volumes only]; standardised DVARS; spike screen from
  *      the residual extremes, exact for the few undecided voxels, spikes scored on the candidates [few voxels]
- *   6. head motion: the motion edge signature [mask edge voxels only] and, with a motion table,
+ *   6. head motion: the motion edge signature [summed in phase 2; read again only when a change needs a
+ *      voxel's exact floor] and, with a motion table,
  *      framewise displacement and the volumes above its threshold
  *   7. findings, verdicts, recommendation
  * @param input - a Run (sidecar gives FlipAngle) or a 4D Volume
@@ -342,7 +344,7 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
   const explainedVolume = new Set(sl.wholeVolumeEvents);
   const unexplained = spikes.filter((s) => !explainedVolume.has(s.volume));
   findings.push(...spikeFindings(unexplained, { cutoffZ: spikeCutoffZ, voxelsForCensor: SPIKE_VOXELS_FOR_CENSOR, maxIsolated: maxSpikeFindings }));
-  // head motion: the edge signature always (a read of the mask's edge voxels), FD when a table is known
+  // head motion: the edge signature always (from the mask-series pass), FD when a table is known
   const fdThresholdMm = options.fdThresholdMm ?? FD_CENSOR_THRESHOLD_MM;
   const motionOptions = { table: options.motionTable ?? null, source: options.motionTable ? 'given' as const : null, method: options.motionTableMethod ?? 'given by the caller', fdThresholdMm, firstVolume: drop };
   const { motion, finding: motionFinding } = edges && pass.sideSums

@@ -32,7 +32,9 @@ export interface MotionEdgeSignature {
  *   dominate.
  * Sign: a move of the head towards +i makes the i signature positive (brighter tissue enters the +i
  * edge, darker background the -i edge). Axes are the run's voxel axes, not world axes.
- * Cost: one read of the edge voxels of every volume (a few percent of the run).
+ * Cost: two reads of the edge voxels of every volume, one cache line each: on a 64 x 64 x 36 grid about
+ * as slow as a plain pass over the whole run. The look takes the same numbers from its mask-series
+ * pass instead (maskSeriesPass, edgeSignatureFromSums), where the edge voxels are already in cache.
  * @param run - 4D run (not modified)
  * @param mask - brain mask on the run's grid (nonzero = in)
  * @returns the signature per axis and volume, its RMS, and the voxel counts
