@@ -7,7 +7,9 @@ import type { Finding } from './finding-types.js';
 import { FINDING_ADVICE, describeVolumes, signed } from './finding-text.js';
 import { summariseInMask, type MapSummary } from './map-summary.js';
 import { keptVolumeStats } from './kept-volume-stats.js';
-import { maskSeries } from './mask-series.js';
+import { maskSeriesPass, type EdgePlan } from './mask-series-pass.js';
+import { edgeSides } from './edge-sides.js';
+import { edgeSignatureFromSums } from './edge-signature-from-sums.js';
 import { otsuThreshold } from './otsu-threshold.js';
 import { runTimeSums, type RunTimeSums } from './run-time-sums.js';
 import { sliceOutliers, type SliceOutliers } from './slice-outliers.js';
@@ -24,6 +26,7 @@ import { rankFindings } from './rank-findings.js';
 import { sliceFindings } from './slice-findings.js';
 import { spikeFindings } from './spike-findings.js';
 import { lookMotion, type LookMotion } from './look-motion.js';
+import { lookMotionWithSignature } from './look-motion-with-signature.js';
 import type { MotionRow } from '../acquire/rigid-motion-affine.js';
 import { FD_CENSOR_THRESHOLD_MM } from '../model/framewise-displacement.js';
 
@@ -174,13 +177,15 @@ export interface LookResult {
  *   1. whole-run sums per voxel [1 streamed pass]: mean image, sums of squares, lag-1 products, drift
  *      projections, a drift fit from volume ~10 and its residual extremes -> brain mask (Otsu +
  *      morphology) or user mask
- *   2. global mean, DVARS, slice means in the mask [mask voxels only]
+ *   2. global mean, DVARS, slice means in the mask, and the motion edge signature's changes at the
+ *      mask's edge voxels (mask voxels too) [mask voxels only]
  *   3. steady-state onset from the global mean     -> volumes to drop [first volumes]
  *   4. volume and slice outliers (traces only)     -> volumes to censor
  *   5. mean, detrended SD, tSNR, lag-1 per voxel over kept, uncensored volumes: the sums of phase 1 minus
  *      the dropped and censored volumes' terms [those volumes only]; standardised DVARS; spike screen from
  *      the residual extremes, exact for the few undecided voxels, spikes scored on the candidates [few voxels]
- *   6. head motion: the motion edge signature [mask edge voxels only] and, with a motion table,
+ *   6. head motion: the motion edge signature [summed in phase 2; read again only when a change needs a
+ *      voxel's exact floor] and, with a motion table,
  *      framewise displacement and the volumes above its threshold
  *   7. findings, verdicts, recommendation
  * @param input - a Run (sidecar gives FlipAngle) or a 4D Volume
@@ -226,8 +231,10 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
   }
   const emptySlices = zeroSlices(meanAll, [nx, ny, nz]);
 
-  // 2. traces in the mask
-  const traces = maskSeries(run, mask.mask);
+  // 2. traces in the mask, and the motion edge signature's changes from the same reads
+  const edges = edgePlan(mask.mask, [nx, ny, nz], sums);
+  const pass = maskSeriesPass(run, mask.mask, 10, edges);
+  const traces = pass.series;
 
   // 3. steady state
   const onset = steadyStateOnset(traces.globalMean, { cutoffZ: steadyCutoffZ });
@@ -337,9 +344,12 @@ export function lookAtRun(input: Run | Volume, options: LookOptions = {}): LookR
   const explainedVolume = new Set(sl.wholeVolumeEvents);
   const unexplained = spikes.filter((s) => !explainedVolume.has(s.volume));
   findings.push(...spikeFindings(unexplained, { cutoffZ: spikeCutoffZ, voxelsForCensor: SPIKE_VOXELS_FOR_CENSOR, maxIsolated: maxSpikeFindings }));
-  // head motion: the edge signature always (a read of the mask's edge voxels), FD when a table is known
+  // head motion: the edge signature always (from the mask-series pass), FD when a table is known
   const fdThresholdMm = options.fdThresholdMm ?? FD_CENSOR_THRESHOLD_MM;
-  const { motion, finding: motionFinding } = lookMotion(run, mask.mask, { table: options.motionTable ?? null, source: options.motionTable ? 'given' : null, method: options.motionTableMethod ?? 'given by the caller', fdThresholdMm, firstVolume: drop });
+  const motionOptions = { table: options.motionTable ?? null, source: options.motionTable ? 'given' as const : null, method: options.motionTableMethod ?? 'given by the caller', fdThresholdMm, firstVolume: drop };
+  const { motion, finding: motionFinding } = edges && pass.sideSums
+    ? lookMotionWithSignature(edgeSignatureFromSums(pass.sideSums, edges.sides, nt), nt, motionOptions)
+    : lookMotion(run, mask.mask, motionOptions);
   if (motionFinding) findings.push(motionFinding);
   const skipped: SkippedCheck[] = [];
   const b0Look = options.b0 ? signalLossLook(options.b0, [nx, ny, nz], sidecar, mask.mask) : null;
@@ -425,6 +435,27 @@ function backgroundLevel(run: Volume, t: number): number {
   } catch {
     return -Infinity; // one value or none finite: nothing to skip
   }
+}
+
+/**
+ * The edge voxels of the mask for the motion edge signature, with a bound on each one's floor (a tenth
+ * of its mean over the run) from the whole-run sums: the mean as motionEdgeSignature sums it differs
+ * from shift + S / nt by rounding, of order 1e-16 x (number of volumes) x its terms, far inside the
+ * 1e-9 x (|mean| + |shift| + RMS deviation) allowed. Null when some side has no edge voxel (then
+ * lookMotion finds no signature either).
+ */
+function edgePlan(mask: Uint8Array, dims: [number, number, number], sums: RunTimeSums): EdgePlan | null {
+  const sides = edgeSides(mask, dims);
+  for (let a = 0; a < 3; a++) if (sides.plus[a].length === 0 || sides.minus[a].length === 0) return null;
+  const { edge } = sides;
+  const floorAbove = new Float64Array(edge.length);
+  for (let e = 0; e < edge.length; e++) {
+    const v = edge[e];
+    const m = sums.meanAll[v], sh = sums.shift[v], rms = Math.sqrt(sums.sumSquares[v] / sums.nt);
+    const bound = (Math.abs(m) + 1e-9 * (Math.abs(m) + Math.abs(sh) + rms)) / 10;
+    floorAbove[e] = Number.isFinite(bound) && bound > 0 ? bound : Infinity;
+  }
+  return { sides, floorAbove };
 }
 
 /** Sets flags[v] = 1 where values[v] is not finite; returns how many. */

@@ -1,7 +1,7 @@
 import type { MotionRow } from '../acquire/rigid-motion-affine.js';
 import type { Volume } from '../core/volume.js';
 import type { LookResult } from './look-at-run.js';
-import { lookMotion } from './look-motion.js';
+import { lookMotionWithSignature } from './look-motion-with-signature.js';
 import { rankFindings } from './rank-findings.js';
 
 /**
@@ -18,9 +18,8 @@ import { rankFindings } from './rank-findings.js';
  * @example const moved = withLookMotion(look, run.volume, table, 'estimated', 'rigid, least squares')
  */
 export function withLookMotion(look: LookResult, run: Volume, table: readonly MotionRow[], source: 'given' | 'estimated', method: string): LookResult {
-  const { motion, finding } = lookMotion(run, look.mask.mask, { table, source, method, fdThresholdMm: look.settings.fdThresholdMm, firstVolume: look.recommendation.dropInitialVolumes });
   // the edge signature does not depend on the table: keep the one the look computed
-  motion.edgeSignature = look.motion.edgeSignature;
+  const { motion, finding } = lookMotionWithSignature(look.motion.edgeSignature, run.dims[3], { table, source, method, fdThresholdMm: look.settings.fdThresholdMm, firstVolume: look.recommendation.dropInitialVolumes });
   const findings = rankFindings([...look.findings.filter((f) => f.kind !== 'head-motion'), ...(finding ? [finding] : [])]);
   return { ...look, motion, findings, verdicts: findings.map((f) => f.verdict) };
 }

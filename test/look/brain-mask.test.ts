@@ -34,4 +34,36 @@ describe('brain mask from the EPI', () => {
     expect(f[2 + 5 * 2 + 25]).toBe(1);
     expect(f[0 + 5 * 2 + 25]).toBe(0);
   });
+
+  it('fills exactly the background not connected to the grid border (random masks, 3D and one slice), against a plain fixed-point relaxation', () => {
+    // the definition itself, computed the slow way: background reached from the border grows by face
+    // neighbours until nothing changes; everything else is in the filled mask
+    const reference = (m: Uint8Array, [nx, ny, nz]: number[]): Uint8Array => {
+      const reached = new Uint8Array(m.length);
+      const at = (i: number, j: number, k: number) => i + nx * (j + ny * k);
+      for (let k = 0; k < nz; k++) for (let j = 0; j < ny; j++) for (let i = 0; i < nx; i++) {
+        const border = i === 0 || j === 0 || i === nx - 1 || j === ny - 1 || (nz > 1 && (k === 0 || k === nz - 1));
+        if (border && !m[at(i, j, k)]) reached[at(i, j, k)] = 1;
+      }
+      for (let changed = true; changed;) {
+        changed = false;
+        for (let k = 0; k < nz; k++) for (let j = 0; j < ny; j++) for (let i = 0; i < nx; i++) {
+          const v = at(i, j, k);
+          if (m[v] || reached[v]) continue;
+          const near = (i > 0 && reached[v - 1]) || (i < nx - 1 && reached[v + 1]) || (j > 0 && reached[v - nx]) || (j < ny - 1 && reached[v + nx])
+            || (k > 0 && reached[v - nx * ny]) || (k < nz - 1 && reached[v + nx * ny]);
+          if (near) { reached[v] = 1; changed = true; }
+        }
+      }
+      return Uint8Array.from(reached, (r) => 1 - r);
+    };
+    let seed = 7;
+    const next = () => { seed = (seed * 1103515245 + 12345) % 2147483648; return seed / 2147483648; };
+    for (const dims of [[13, 11, 9], [17, 12, 1], [40, 3, 5]]) {
+      for (const density of [0.3, 0.55, 0.7]) {
+        const m = Uint8Array.from({ length: dims[0] * dims[1] * dims[2] }, () => (next() < density ? 1 : 0));
+        expect(Array.from(fillHoles(m, dims))).toEqual(Array.from(reference(m, dims)));
+      }
+    }
+  });
 });

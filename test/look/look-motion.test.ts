@@ -6,6 +6,8 @@ import { lookAtRun } from '../../src/look/look-at-run.js';
 import { framewiseDisplacement } from '../../src/model/framewise-displacement.js';
 import { writeLookFolder } from '../../src/report/write-look-folder.js';
 import { withLookMotion } from '../../src/look/with-look-motion.js';
+import { motionEdgeSignature } from '../../src/look/motion-edge-signature.js';
+import { edgeSides } from '../../src/look/edge-sides.js';
 import { estimateLookMotion } from '../../src/look/estimate-look-motion.js';
 import { closeSharedWorkerPools } from '../../src/core/worker-pool.js';
 import { movingPhantom } from '../sweep/sweep-test-runs.js';
@@ -44,6 +46,24 @@ describe('the look and head motion', () => {
     expect(look.motion.edgeSignature).not.toBeNull();
     expect(look.findings.some((x) => x.kind === 'head-motion')).toBe(false);
     expect(() => lookAtRun(run.volume, { motionTable: run.motionTable.slice(1) })).toThrow(expect.objectContaining({ code: 'MOTION_TABLE_LENGTH' }));
+  });
+
+  it('the edge signature the look takes from its mask-series pass is motionEdgeSignature\'s, to the bit; a voxel near zero in two volumes in a row falls back to it', () => {
+    const look = lookAtRun(run.volume);
+    expect(look.motion.edgeSignature).toEqual(motionEdgeSignature(run.volume, look.mask.mask));
+    // an edge voxel at 0 in volumes 30 and 31: its level there is below its floor, which the pass
+    // knows only approximately, so the look computes the signature from the run instead
+    const [nx, ny, nz] = run.volume.dims;
+    const n = nx * ny * nz;
+    const edge = edgeSides(look.mask.mask, [nx, ny, nz]).edge[100];
+    const data = Float32Array.from(run.volume.data);
+    data[30 * n + edge] = 0;
+    data[31 * n + edge] = 0;
+    const dropped = { ...run.volume, data };
+    const lookDropped = lookAtRun(dropped);
+    const direct = motionEdgeSignature(dropped, lookDropped.mask.mask);
+    expect(lookDropped.motion.edgeSignature).toEqual(direct);
+    expect(direct.axes.some((a) => a[31] !== 0)).toBe(true);
   });
 
   it('writes the motion figures, the FD and edge-signature columns and the motion summary', async () => {
