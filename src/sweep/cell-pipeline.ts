@@ -618,6 +618,8 @@ async function runPackedTask(task: SweepTask, trialType: string, onCell?: (done:
     const packed = workBuffer(index.length * nt);
     const estimates = cell.suffixEstimates.map((k) => estimateOf(ctx, k));
     const done = await packVolumewise(patchedVolumes(stage.geometry, base, patch), cell.suffix, estimates, stage.context, index, packed);
+    // volume-wise steps stay on the grid: the model's brain mask is the one the voxels were kept for
+    if (masksInFrame(ctx, done.context.frame ?? { kind: 'raw' }).brain !== brain) fail('INVALID_ARGUMENT', `the volume-wise steps of cell ${cell.key.slice(0, 12)} moved the run to another frame; a volume-wise step must keep its input's frame`);
     const geometryOnly: Volume = { ...stage.geometry, data: new Float32Array(0) };
     const holder: CellRun = { volume: geometryOnly, packed };
     const { metrics, tpr } = modelAndScore(holder, done.context, stage.truth, ctx, cell, trialType, [...stage.regressors]);
