@@ -49,6 +49,7 @@ export function fitGlmBySliceTime(run: Volume, designs: readonly DesignMatrix[],
     if (d.p !== d0.p || d.columns.some((c, j) => c !== d0.columns[j])) fail('INVALID_ARGUMENT', `every slice's design must have the same columns (${d0.columns.join(', ')}), got (${d.columns.join(', ')})`);
   }
   for (let k = 0; k < nz; k++) if (!(Number.isInteger(designOfSlice[k]) && designOfSlice[k] >= 0 && designOfSlice[k] < designs.length)) fail('INVALID_ARGUMENT', `slice ${k} names design ${designOfSlice[k]}; there are ${designs.length}`);
+  if (options.packed) fail('INVALID_ARGUMENT', 'fitGlmBySliceTime reads the run on its grid: a packed run is not accepted');
   const ar1 = options.ar1 ?? false;
   let dof = 0;
   for (const d of designs) dof = checkRunAndDesign(run, d, ar1 ? 1 : 0);

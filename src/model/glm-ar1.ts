@@ -2,7 +2,7 @@ import { fail } from '../core/fail.js';
 import { volumeLike, voxelsPerVolume, type Volume } from '../core/volume.js';
 import { ar1BiasTraces, correctAr1 } from './ar1.js';
 import { designPseudoInverse, type DesignMatrix } from './design-matrix.js';
-import { checkRunAndDesign, fittedVoxels, gridOf, residualsArray, type GlmFit, type GlmOptions } from './glm-fit.js';
+import { checkRunAndDesign, fitInput, fittedVoxels, gridOf, residualsArray, type GlmFit, type GlmOptions } from './glm-fit.js';
 import { sweepVoxels, transposeToTimeMajor } from './glm-kernel.js';
 import { smoothWithinMask } from './smooth-within-mask.js';
 
@@ -74,7 +74,8 @@ export function fitGlmAr1(run: Volume, design: DesignMatrix, options: GlmAr1Opti
   const a0 = new Float64Array(n);
   const a1 = new Float64Array(n);
   const mean = new Float64Array(n);
-  sweepVoxels({ data: run.data, nvox, nt, p, idx, x, proj: proj0, group: null, rhoOfGroup: null, betas, rss: a0, mean, lag1: a1, residuals: null });
+  const input = fitInput(run, options, idx);
+  sweepVoxels({ data: input.data, nvox: input.stride, nt, p, idx: input.at, x, proj: proj0, group: null, rhoOfGroup: null, betas, rss: a0, mean, lag1: a1, residuals: null });
 
   // 2. corrected rho, clipped, smoothed within the fitted voxels (a weighted mean of clipped
   // values stays within the clip), then binned
@@ -128,7 +129,7 @@ export function fitGlmAr1(run: Volume, design: DesignMatrix, options: GlmAr1Opti
   });
   const rss = new Float64Array(n);
   const residuals = residualsArray(options, nvox, nt, idx);
-  sweepVoxels({ data: run.data, nvox, nt, p, idx, x, proj, group, rhoOfGroup, betas, rss, mean: null, lag1: null, residuals });
+  sweepVoxels({ data: input.data, nvox: input.stride, nt, p, idx: input.at, x, proj, group, rhoOfGroup, betas, rss, mean: null, lag1: null, residuals });
   const sigma2 = new Float64Array(n);
   for (let i = 0; i < n; i++) sigma2[i] = rss[i] / dof;
   return {
@@ -143,6 +144,7 @@ export function fitGlmAr1(run: Volume, design: DesignMatrix, options: GlmAr1Opti
     covUnscaled: cov,
     group,
     rho,
-    residuals: residuals ? volumeLike(run, nt, residuals) : null,
+    residuals: residuals && !options.packed ? volumeLike(run, nt, residuals) : null,
+    ...(options.packed ? { packedResiduals: residuals } : {}),
   };
 }

@@ -40,6 +40,11 @@ export interface GlmFit {
   rho: Float32Array | null;
   /** Residuals as a run (zero outside the fitted voxels), when asked for; whitened for AR(1). */
   residuals: Volume | null;
+  /**
+   * With `GlmOptions.packed`: the kept residuals in the same packed layout (fitted voxel i of volume t
+   * at t * voxels.length + i), and `residuals` is null. Absent otherwise.
+   */
+  packedResiduals?: Float32Array | null;
 }
 
 /** Options shared by the GLM fits. */
@@ -58,6 +63,36 @@ export interface GlmOptions {
    * __Default value:__ none (a new array when `keepResiduals`)
    */
   residualsOut?: Float32Array;
+  /**
+   * The run's values at the fitted voxels only, volume by volume (fitted voxel i of volume t at
+   * t * count + i, the fitted voxels in storage order): read instead of `run.data`, which is then not
+   * read at all (the run gives the grid, the TR and the number of volumes). A sweep worker keeps a
+   * preprocessed run so, at the brain mask's size instead of the grid's. Residuals are then kept in the
+   * same layout (`residualsOut`, if given, has count * nt values and may be this array itself) and
+   * returned as `packedResiduals`. __Default value:__ none (read `run.data`)
+   */
+  packed?: Float32Array;
+}
+
+/**
+ * Where a fit reads the voxels' series: `run.data` with the fitted voxels' own indices, or the packed
+ * array of `options.packed` (checked) with indices 0..count-1.
+ * @param run - the run
+ * @param options - the fit's options
+ * @param idx - fitted voxels, ascending
+ * @returns data, voxels per volume in data, and the index of each fitted voxel within a volume of data
+ * @throws BoldsweepError INVALID_ARGUMENT when the packed array has the wrong length
+ * @example const { data, stride, at } = fitInput(run, options, idx)
+ */
+export function fitInput(run: Volume, options: GlmOptions, idx: Int32Array): { data: Float32Array; stride: number; at: Int32Array } {
+  const packed = options.packed;
+  if (!packed) return { data: run.data, stride: voxelsPerVolume(run), at: idx };
+  const n = idx.length;
+  const nt = run.dims[3];
+  if (packed.length !== n * nt) fail('INVALID_ARGUMENT', `the packed run has ${packed.length} values; ${n} fitted voxels x ${nt} volumes need ${n * nt}`);
+  const at = new Int32Array(n);
+  for (let i = 0; i < n; i++) at[i] = i;
+  return { data: packed, stride: n, at };
 }
 
 /**
@@ -73,6 +108,12 @@ export interface GlmOptions {
  */
 export function residualsArray(options: GlmOptions, nvox: number, nt: number, idx: Int32Array): Float32Array | null {
   const out = options.residualsOut;
+  if (options.packed) {
+    // every value of a packed array belongs to a fitted voxel: nothing to clear
+    if (!out) return options.keepResiduals ? new Float32Array(idx.length * nt) : null;
+    if (out.length !== idx.length * nt) fail('INVALID_ARGUMENT', `residualsOut has ${out.length} values; ${idx.length} packed voxels x ${nt} volumes need ${idx.length * nt}`);
+    return out;
+  }
   if (!out) return options.keepResiduals ? new Float32Array(nvox * nt) : null;
   if (out.length !== nvox * nt) fail('INVALID_ARGUMENT', `residualsOut has ${out.length} values; the run needs ${nvox} x ${nt} = ${nvox * nt}`);
   if (idx.length < nvox) {

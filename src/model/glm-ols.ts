@@ -1,7 +1,7 @@
 import { volumeLike, voxelsPerVolume, type Volume } from '../core/volume.js';
 import { designPseudoInverse } from './design-matrix.js';
 import type { DesignMatrix } from './design-matrix.js';
-import { checkRunAndDesign, fittedVoxels, gridOf, residualsArray, type GlmFit, type GlmOptions } from './glm-fit.js';
+import { checkRunAndDesign, fitInput, fittedVoxels, gridOf, residualsArray, type GlmFit, type GlmOptions } from './glm-fit.js';
 import { sweepVoxels, transposeToTimeMajor } from './glm-kernel.js';
 
 /**
@@ -34,7 +34,8 @@ export function fitGlm(run: Volume, design: DesignMatrix, options: GlmOptions = 
   const rss = new Float64Array(n);
   const mean = new Float64Array(n);
   const residuals = residualsArray(options, nvox, nt, idx);
-  sweepVoxels({ data: run.data, nvox, nt, p, idx, x, proj, group: null, rhoOfGroup: null, betas, rss, mean, lag1: null, residuals });
+  const input = fitInput(run, options, idx);
+  sweepVoxels({ data: input.data, nvox: input.stride, nt, p, idx: input.at, x, proj, group: null, rhoOfGroup: null, betas, rss, mean, lag1: null, residuals });
   const sigma2 = new Float64Array(n);
   for (let i = 0; i < n; i++) sigma2[i] = rss[i] / dof;
   return {
@@ -49,6 +50,7 @@ export function fitGlm(run: Volume, design: DesignMatrix, options: GlmOptions = 
     covUnscaled: xtxInv,
     group: null,
     rho: null,
-    residuals: residuals ? volumeLike(run, nt, residuals) : null,
+    residuals: residuals && !options.packed ? volumeLike(run, nt, residuals) : null,
+    ...(options.packed ? { packedResiduals: residuals } : {}),
   };
 }

@@ -20,6 +20,12 @@ export interface SmoothnessOptions {
   dof?: number;
   /** Which FWHM formula fills `fwhmMm`. __Default value:__ `'derivative-variance'`. */
   method?: SmoothnessMethod;
+  /**
+   * The residuals hold the mask's voxels only, volume by volume (the j-th mask voxel, in storage
+   * order, of volume t at t * count + j), as a GLM fit with `packed` keeps them.
+   * __Default value:__ false (residuals on the whole grid)
+   */
+  packed?: boolean;
 }
 
 /** Result of {@link estimateSmoothness}. */
@@ -66,11 +72,11 @@ export interface SmoothnessEstimate {
  * Residuals are assumed to have mean zero over time (true for GLM residuals when the design has a
  * constant); fMRI noise is not exactly Gaussian-autocorrelated (Eklund A, Nichols TE & Knutsson H 2016,
  * PNAS 113:7900-7905), so the estimate is the FWHM of the best-matching Gaussian at lag one voxel.
- * @param residuals - residual time series, NIfTI order (x fastest, then y, z, t), length nx*ny*nz*nt; not modified
+ * @param residuals - residual time series, NIfTI order (x fastest, then y, z, t), length nx*ny*nz*nt (or count*nt when packed); not modified
  * @param dims - [nx, ny, nz, nt]
  * @param mask - nonzero = in the search region, length nx*ny*nz
  * @param spacingMm - voxel size in mm along x, y, z
- * @param options - dof and method
+ * @param options - dof, method, packed
  * @returns FWHM per axis and the numbers behind it
  * @throws BoldsweepError INVALID_ARGUMENT (bad dims, spacing, dof, or no neighbour pairs along an axis),
  *   GRID_MISMATCH (mask size), TOO_FEW_VOLUMES (nt < 3), NON_FINITE_VOXELS (NaN/infinite residuals in the mask)
@@ -86,7 +92,8 @@ export function estimateSmoothness(
   if (dims.length !== 4 || dims.some((d) => !Number.isInteger(d) || d < 1)) fail('INVALID_ARGUMENT', `dims must be four positive integers [nx, ny, nz, nt], got [${dims.join(', ')}]`);
   const [nx, ny, nz, nt] = dims;
   const n = nx * ny * nz;
-  if (residuals.length !== n * nt) fail('INVALID_ARGUMENT', `residuals have ${residuals.length} values, dims ${dims.join('x')} need ${n * nt}`);
+  const packed = options.packed ?? false;
+  if (!packed && residuals.length !== n * nt) fail('INVALID_ARGUMENT', `residuals have ${residuals.length} values, dims ${dims.join('x')} need ${n * nt}`);
   if (mask.length !== n) fail('GRID_MISMATCH', `mask has ${mask.length} voxels but the residual grid ${nx}x${ny}x${nz} has ${n}`);
   if (spacingMm.length !== 3 || spacingMm.some((s) => !(s > 0) || !Number.isFinite(s))) fail('INVALID_ARGUMENT', `spacingMm must be three positive numbers, got [${spacingMm.join(', ')}]`);
   if (nt < 3) fail('TOO_FEW_VOLUMES', `smoothness needs at least 3 residual volumes, got ${nt}`);
@@ -100,10 +107,14 @@ export function estimateSmoothness(
   for (let v = 0; v < n; v++) if (mask[v]) count++;
   const inMask = new Int32Array(count);
   for (let v = 0, j = 0; v < n; v++) if (mask[v]) inMask[j++] = v;
+  if (packed && residuals.length !== count * nt) fail('INVALID_ARGUMENT', `packed residuals have ${residuals.length} values; ${count} mask voxels x ${nt} volumes need ${count * nt}`);
+  // where voxel j of volume t is read: t * stride + at[j]
+  const stride = packed ? count : n;
+  const at = packed ? Int32Array.from({ length: count }, (_, j) => j) : inMask;
   const sumSq = new Float64Array(count);
   for (let t = 0; t < nt; t++) {
-    const base = t * n;
-    for (let j = 0; j < count; j++) { const r = residuals[base + inMask[j]]; sumSq[j] += r * r; }
+    const base = t * stride;
+    for (let j = 0; j < count; j++) { const r = residuals[base + at[j]]; sumSq[j] += r * r; }
   }
   const invNorm = new Float64Array(count);
   let bad = 0, constantVoxels = 0;
@@ -140,10 +151,10 @@ export function estimateSmoothness(
   const sums = [0, 0, 0];
   const u = new Float64Array(count);
   for (let t = 0; t < nt; t++) {
-    const base = t * n;
+    const base = t * stride;
     let ax = 0, ay = 0, az = 0;
     for (let j = 0; j < count; j++) {
-      const uj = residuals[base + inMask[j]] * invNorm[j];
+      const uj = residuals[base + at[j]] * invNorm[j];
       u[j] = uj;
       const kx = bx[j], ky = by[j], kz = bz[j];
       if (kx >= 0) { const d = uj - u[kx]; ax += d * d; }

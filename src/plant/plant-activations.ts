@@ -63,6 +63,21 @@ export interface PlantOptions {
    * number; the placement mask, margin and separation are then not used. __Default value:__ drawn
    */
   centresVoxel?: readonly Vec3[] | null;
+  /**
+   * Return only the planted voxels' series instead of a planted copy of the run: the result's
+   * `volume` is then the input run itself (not copied, not modified) and `plantedSeries` holds every
+   * voxel planting can change, with its whole planted series (the same values the copy would hold).
+   * A sweep worker so keeps a planting at the size of its blobs. __Default value:__ false
+   */
+  seriesOnly?: boolean;
+}
+
+/** The voxels a planting can change, with their planted series (from {@link PlantOptions.seriesOnly}). */
+export interface PlantedSeries {
+  /** Voxel indices within one volume, ascending. */
+  voxels: Int32Array;
+  /** Planted values, volume by volume: volume t, voxel q at t * voxels.length + q. */
+  values: Float32Array;
 }
 
 /** One planted activation. */
@@ -146,7 +161,7 @@ export interface PlantTruth {
  * @param volume - the raw 4D run (not modified)
  * @param options - blob shape, size, count, amplitude, time course (and per-slice courses), mask, seed,
  *   acquisition model
- * @returns the new run and its ground truth (reference frame, run's grid)
+ * @returns the new run and its ground truth (reference frame, run's grid); with seriesOnly the input run itself and the planted voxels' series (`plantedSeries`)
  * @throws BoldsweepError INVALID_ARGUMENT for bad sizes or time courses (or slice time courses
  *   missing when the acquisition has slice times), NOT_4D for a 3D image, GRID_MISMATCH for a mask
  *   or an acquisition model on another grid, PLANTING_DOES_NOT_FIT when the blobs do not fit
@@ -156,7 +171,7 @@ export interface PlantTruth {
  * // following the acquisition: acquisitionModel(run, { motionTable }), courses from plantTimeCourses
  * plantActivations(run.volume, { ...options, timeCourse, sliceTimeCourses, acquisition: model })
  */
-export function plantActivations(volume: Volume, options: PlantOptions): { volume: Volume; truth: PlantTruth } {
+export function plantActivations(volume: Volume, options: PlantOptions): { volume: Volume; truth: PlantTruth; plantedSeries?: PlantedSeries } {
   const [nx, ny, nz, nt] = volume.dims;
   const n = voxelsPerVolume(volume);
   if (nt < 2) fail('NOT_4D', `planting needs a run with several volumes, got ${nt}`);
@@ -190,7 +205,8 @@ export function plantActivations(volume: Volume, options: PlantOptions): { volum
   const centresMm = blobs.map((b) => b.centreMm);
 
   // 3. add amplitude * baseline * weight_t * course (baseline = temporal mean of the input)
-  const data = new Float32Array(volume.data);
+  const seriesOnly = options.seriesOnly ?? false;
+  const data = seriesOnly ? null : new Float32Array(volume.data);
   const poses = acquisition?.poses?.map((p) => (isIdentity(p) ? null : p)) ?? null;
   const moved = poses ? poses.filter((p) => p !== null).length : 0;
   const b0 = acquisition?.b0 ?? null;
@@ -206,18 +222,24 @@ export function plantActivations(volume: Volume, options: PlantOptions): { volum
   }
   for (let q = 0; q < voxels.length; q++) baseline[q] /= nt;
   const scale = options.amplitudePct / 100;
+  // series only: the voxels' own values, volume by volume, planted in place of the copy's
+  const m = voxels.length;
+  const values = seriesOnly ? new Float32Array(m * nt) : null;
   for (let t = 0; t < nt; t++) {
     const w = weights ? weights.at(t) : profile;
     const offset = n * t;
-    for (let q = 0; q < voxels.length; q++) {
+    if (values) for (let q = 0; q < m; q++) values[t * m + q] = volume.data[voxels[q] + offset];
+    for (let q = 0; q < m; q++) {
       const v = voxels[q];
       if (w[v] === 0) continue;
       const course = sliceTimeCourses ? sliceTimeCourses[slices[q]] : timeCourse;
-      data[v + offset] += scale * baseline[q] * w[v] * course[t];
+      const add = scale * baseline[q] * w[v] * course[t];
+      if (values) values[t * m + q] += add;
+      else data![v + offset] += add;
     }
   }
 
-  const out = makeVolume({ dims: [nx, ny, nz, nt], spacingMm: [...volume.spacingMm], trSec: volume.trSec, affine: new Float64Array(volume.affine), data });
+  const out = data ? makeVolume({ dims: [nx, ny, nz, nt], spacingMm: [...volume.spacingMm], trSec: volume.trSec, affine: new Float64Array(volume.affine), data }) : volume;
   const truth: PlantTruth = {
     dims: [nx, ny, nz], affine: new Float64Array(volume.affine), shape: spec, sizeMm,
     amplitudePct: options.amplitudePct, truthFraction, seed: options.seed,
@@ -226,7 +248,7 @@ export function plantActivations(volume: Volume, options: PlantOptions): { volum
   };
   if (sliceTimeCourses) truth.sliceTimeCourses = sliceTimeCourses;
   if (acquisition) truth.acquired = { movedVolumes: moved, fieldMap: b0 !== null, sliceTimed: sliceTimeCourses !== null };
-  return { volume: out, truth };
+  return values ? { volume: out, truth, plantedSeries: { voxels: Int32Array.from(voxels), values } } : { volume: out, truth };
 }
 
 /**

@@ -29,6 +29,8 @@ const smooth: StepDefinition<SmoothStepParams> = {
   }).strict(),
   version: 1,
   kind: 'spatial-filter',
+  // each volume smoothed on its own (smoothRun), the note from the parameters and the mask alone
+  volumewise: true,
   apply: smoothStep,
   labels: { fwhmMm: { name: 'smoothing FWHM', unit: 'mm' }, mode: { name: 'smoothing boundary mode', unit: '' }, withinMask: { name: 'smoothing within the mask', unit: '' } },
   simplicity: (p) => p.fwhmMm,

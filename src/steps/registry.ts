@@ -25,6 +25,16 @@ export interface StepDefinition<P = Record<string, unknown>, E = unknown> {
   /** What the step does to a run (see {@link StepKind}). */
   kind: StepKind;
   /**
+   * Volume by volume: each output volume depends only on the same input volume (and the parameters,
+   * context and estimate), so the step applied to a run gives, volume for volume, the bytes it gives
+   * applied to each volume alone as a one-volume run, with the same note and output context and no
+   * regressors; the output stays on the input's grid. A sweep worker then runs the step one volume
+   * at a time and keeps only the brain mask's voxels of its output (a few volumes of scratch instead
+   * of a run-sized array). Only for kind 'spatial-filter' (a grand-mean scaling, say, is not one: it
+   * divides every volume by a mean over all of them). __Default value:__ false
+   */
+  volumewise?: boolean;
+  /**
    * Frame of the output for an input in `input` (geometric steps that move the run to the reference
    * frame or onto another grid). __Default value:__ the input's frame
    */
@@ -79,6 +89,8 @@ function checkDefinition(name: string, d: StepDefinition<unknown>): void {
   if (!d.schema || typeof (d.schema as { safeParse?: unknown }).safeParse !== 'function') bad('schema must be a zod schema');
   if (!Number.isInteger(d.version) || d.version < 1) bad(`version must be a positive integer (bump it whenever the step's numerics change), got ${String(d.version)}`);
   if (!STEP_KINDS.includes(d.kind)) bad(`kind must be one of ${STEP_KINDS.join(', ')}, got ${String(d.kind)}`);
+  if (d.volumewise !== undefined && typeof d.volumewise !== 'boolean') bad('volumewise must be true or false when given');
+  if (d.volumewise && d.kind !== 'spatial-filter') bad(`volumewise is only for kind 'spatial-filter' (each volume changed on its own grid), got kind '${d.kind}'`);
   if (typeof d.apply !== 'function') bad('apply must be a function');
   if (typeof d.describe !== 'function') bad('describe must be a function');
   if (d.estimate !== undefined && typeof d.estimate !== 'function') bad('estimate must be a function when given');

@@ -6,7 +6,9 @@ import type { PhaseEncodePair } from '../acquire/phase-encode-pair.js';
 
 /**
  * What a step does to a run, as the sweep and the report need to know it:
- * - `select-volumes`: keeps some volumes as they are (no voxel value changes);
+ * - `select-volumes`: keeps some volumes as they are (no voxel value changes), chosen from its
+ *   parameters and context, not from the voxel values (a sweep applies the choice made on the
+ *   unplanted run to a planting);
  * - `temporal`: changes each voxel's time series (filters, slice-timing shifts, scaling over time);
  * - `spatial-filter`: changes each volume in place on its grid (smoothing, masking, intensity scaling);
  * - `geometric`: moves signal in space (resampling, motion correction, unwarping, alignment); its

@@ -8,7 +8,7 @@ import { fitGlm } from '../model/glm-ols.js';
 import { fitGlmBySliceTime } from '../model/fit-glm-by-slice-time.js';
 import type { GlmFit, GlmOptions } from '../model/glm-fit.js';
 import { estimateSmoothness } from '../model/smoothness.js';
-import { plantActivations, type PlantTruth } from '../plant/plant-activations.js';
+import { plantActivations, type PlantedSeries, type PlantTruth } from '../plant/plant-activations.js';
 import { plantTimeCourses } from '../plant/plant-time-courses.js';
 import { acquisitionModel, type AcquisitionModel } from '../acquire/acquisition-model.js';
 import type { StepContext, StepNote } from '../steps/step-types.js';
@@ -40,6 +40,7 @@ import { shiftEvents } from '../steps/drop-initial-volumes.js';
 import { thresholdRftBonferroni } from '../model/threshold-rft-bonferroni.js';
 import type { BoldEvent } from '../io/run-types.js';
 import { randomBlockEvents } from './random-block-events.js';
+import { packVolumewise, type VolumeSource } from './pack-volumewise.js';
 import { motionNuisance } from './motion-nuisance.js';
 import { studySubjects } from './study-subjects.js';
 import { FIRST_LEVEL_METRICS, firstLevelSource } from './cell-metrics.js';
@@ -55,6 +56,13 @@ import { blobTruth } from '../plant/blob-truth.js';
  *   per setting: the run as it is -> the whole recipe -> tSNR in the brain mask   (a tsnr task)
  *
  * Memory (per thread; the run itself lives once in shared memory for all workers):
+ *   - the packed path (a worker thread, when the shared steps only select volumes and each cell's own
+ *     steps are volume-wise, as in the default smoothing sweep; also a tSNR task of such a recipe):
+ *     no run-sized array at all. The planting is kept as its voxels' series (plantActivations'
+ *     seriesOnly), each volume is rebuilt and filtered in a volume-sized scratch (packVolumewise),
+ *     and only the brain mask's voxels go into the work buffer, which the model reads and writes its
+ *     residuals over (GlmOptions.packed); residual smoothness is read from them (packed as well);
+ *   - otherwise (the general path):
  *   - one reusable run-sized work buffer (work-buffer.ts): each cell's input is rebuilt in it, and the
  *     varied step writes its output over it (smoothing in place) and the model its residuals, so a
  *     cell allocates no run of its own; at the start of a group the planted run takes its place;
@@ -166,6 +174,27 @@ interface SubjectPlant {
 }
 
 /**
+ * A group's planting in the raw run: a planted copy of the run, or with `seriesOnly` the run itself
+ * and the planted voxels' series (nothing planted: the run and no series).
+ */
+function plantGroup(ctx: SweepContext, group: CellGroup, trialType: string, events: BoldEvent[], subject: SubjectPlant | undefined, seriesOnly: boolean): { volume: Volume; truth: PlantTruth; plantedSeries?: PlantedSeries } {
+  const raw = sharedRunVolume(ctx);
+  const nt = raw.dims[3];
+  if (group.plant.count === 0) return { volume: raw, truth: emptyTruth(raw, group.plantSeed, nt), ...(seriesOnly ? { plantedSeries: { voxels: new Int32Array(0), values: new Float32Array(0) } } : {}) };
+  const acquisition = sweepAcquisitionModel(ctx, raw);
+  const { timeCourse, sliceTimeCourses } = plantTimeCourses(events, nt, raw.trSec, { condition: trialType, sliceTimesSec: acquisition?.sliceTimesSec ?? null });
+  const size = group.plant.shape === 'gaussian' ? { fwhmMm: group.plant.sizeMm } : { radiusMm: group.plant.sizeMm / 2 };
+  return plantActivations(raw, {
+    count: group.plant.count, shape: group.plant.shape, ...size, amplitudePct: subject?.amplitudePct ?? group.plant.amplitudePct,
+    ...(subject ? { centresVoxel: subject.centresVoxel } : {}),
+    timeCourse, placementMask: ctx.placementMask, seed: group.plantSeed, separation: group.plant.separation,
+    ...(group.plant.marginMm === null ? {} : { marginMm: group.plant.marginMm }),
+    ...(acquisition ? { acquisition, sliceTimeCourses } : {}),
+    seriesOnly,
+  });
+}
+
+/**
  * Plant into the raw run and run the recipe steps shared by every setting.
  * @param ctx - sweep context (shared run, masks, events)
  * @param group - which planting
@@ -174,26 +203,10 @@ interface SubjectPlant {
  * @returns the group stage
  */
 async function computeGroupStage(ctx: SweepContext, group: CellGroup, trialType: string, subject?: SubjectPlant): Promise<GroupStage> {
-  const raw = sharedRunVolume(ctx);
-  const nt = raw.dims[3];
   const events = groupEvents(ctx, group);
-  let volume: Volume;
-  let truth: PlantTruth;
-  if (group.plant.count > 0) {
-    const acquisition = sweepAcquisitionModel(ctx, raw);
-    const { timeCourse, sliceTimeCourses } = plantTimeCourses(events, nt, raw.trSec, { condition: trialType, sliceTimesSec: acquisition?.sliceTimesSec ?? null });
-    const size = group.plant.shape === 'gaussian' ? { fwhmMm: group.plant.sizeMm } : { radiusMm: group.plant.sizeMm / 2 };
-    ({ volume, truth } = plantActivations(raw, {
-      count: group.plant.count, shape: group.plant.shape, ...size, amplitudePct: subject?.amplitudePct ?? group.plant.amplitudePct,
-      ...(subject ? { centresVoxel: subject.centresVoxel } : {}),
-      timeCourse, placementMask: ctx.placementMask, seed: group.plantSeed, separation: group.plant.separation,
-      ...(group.plant.marginMm === null ? {} : { marginMm: group.plant.marginMm }),
-      ...(acquisition ? { acquisition, sliceTimeCourses } : {}),
-    }));
-  } else {
-    volume = raw;
-    truth = emptyTruth(raw, group.plantSeed, nt);
-  }
+  const planted = plantGroup(ctx, group, trialType, events, subject, false);
+  let volume = planted.volume;
+  const truth = planted.truth;
   let context = initialContext(ctx, events);
   const notes: StepNote[] = [];
   const regressors: NuisanceRegressor[] = [];
@@ -385,12 +398,23 @@ function cellFit(events: readonly BoldEvent[], volume: Volume, ctx: SweepContext
 }
 
 /**
+ * A cell's preprocessed run on its way to the model: the run (let go once fitted), and, on the packed
+ * path, the brain mask's voxels only (`packed`, see packVolumewise), `volume` then giving the grid and
+ * the number of volumes with no data of its own.
+ */
+interface CellRun {
+  volume: Volume | null;
+  packed?: Float32Array | null;
+}
+
+/**
  * The first-level model of one preprocessed run: its frame's masks, the design, the GLM (residuals
  * written over the work buffer when the run is that buffer) and the contrast maps of the tested
  * condition. The preprocessed run is let go (holder.volume = null) once the fit has read it.
  */
-function fitCellModel(holder: { volume: Volume | null }, context: StepContext, ctx: SweepContext, cell: CellPlan, trialType: string, regressors: readonly NuisanceRegressor[], keepResiduals: boolean): { fit: ReturnType<typeof fitGlm>; maps: ReturnType<typeof contrastMaps>; brain: Uint8Array; scoreMask: Uint8Array; frame: Frame; grid: { dims: number[]; spacingMm: number[] }; residualsInWork: boolean } {
+function fitCellModel(holder: CellRun, context: StepContext, ctx: SweepContext, cell: CellPlan, trialType: string, regressors: readonly NuisanceRegressor[], keepResiduals: boolean): { fit: ReturnType<typeof fitGlm>; maps: ReturnType<typeof contrastMaps>; brain: Uint8Array; scoreMask: Uint8Array; frame: Frame; grid: { dims: number[]; spacingMm: number[] }; residualsInWork: boolean } {
   let volume = holder.volume!;
+  const packed = holder.packed ?? null;
   // the cell's frame: on a target grid the masks and the truth are carried onto it
   const frame: Frame = context.frame ?? { kind: 'raw' };
   if (frame.kind === 'target') {
@@ -403,14 +427,18 @@ function fitCellModel(holder: { volume: Volume | null }, context: StepContext, c
   const events = context.events!;
   // when the preprocessed run is this thread's work buffer (rebuilt by the next cell anyway), the
   // residuals overwrite it: no run-sized array of the cell's own
+  // a packed run (the brain mask's voxels only) takes its residuals in place the same way
   const work = currentWorkBuffer();
-  const residualsInWork = keepResiduals && work !== null && sharesMemory(work, volume.data) && work.length === volume.data.length;
-  const glmOptions = { mask: brain, keepResiduals, residualsOut: residualsInWork ? volume.data : undefined };
+  const residualsInWork = keepResiduals && (packed !== null || (work !== null && sharesMemory(work, volume.data) && work.length === volume.data.length));
+  const glmOptions: GlmOptions = packed
+    ? { mask: brain, keepResiduals, packed, residualsOut: keepResiduals ? packed : undefined }
+    : { mask: brain, keepResiduals, residualsOut: residualsInWork ? volume.data : undefined };
   const fit = cellFit(events, volume, ctx, cell.model, regressors, context, glmOptions);
   // the preprocessed run is not needed any more: let it go before the residuals are used
   // voxel sizes of a target grid come from its affine (the step's spacingMm should agree)
   const grid = { dims: [volume.dims[0], volume.dims[1], volume.dims[2]], spacingMm: frame.kind === 'target' ? affineSpacing(frame.grid.affine) : volume.spacingMm };
   holder.volume = null;
+  holder.packed = null;
   volume = null as unknown as Volume;
   const maps = contrastMaps(fit, { [trialType]: 1 }, { name: trialType });
   return { fit, maps, brain, scoreMask, frame, grid, residualsInWork };
@@ -438,11 +466,15 @@ function cellMetrics(score: ReturnType<typeof scoreDetection>, threshold: number
  * Model, threshold and score one preprocessed run.
  * @returns metrics, ROC samples
  */
-function modelAndScore(holder: { volume: Volume | null }, context: StepContext, plantedTruth: PlantTruth, ctx: SweepContext, cell: CellPlan, trialType: string, regressors: readonly NuisanceRegressor[]): { metrics: Record<string, number | null>; tpr: number[]; residualsInWork: boolean; effectPct: Float32Array; frame: Frame; grid: { dims: number[]; spacingMm: number[] } } {
+function modelAndScore(holder: CellRun, context: StepContext, plantedTruth: PlantTruth, ctx: SweepContext, cell: CellPlan, trialType: string, regressors: readonly NuisanceRegressor[]): { metrics: Record<string, number | null>; tpr: number[]; residualsInWork: boolean; effectPct: Float32Array; frame: Frame; grid: { dims: number[]; spacingMm: number[] } } {
   const { fit, maps, brain, scoreMask, frame, grid, residualsInWork } = fitCellModel(holder, context, ctx, cell, trialType, regressors, true);
   const truth = truthInFrame(plantedTruth, frame);
-  const smooth = estimateSmoothness(fit.residuals!.data, fit.residuals!.dims, brain, grid.spacingMm, { dof: fit.dof });
+  const packedResiduals = fit.packedResiduals ?? null;
+  const smooth = packedResiduals
+    ? estimateSmoothness(packedResiduals, [grid.dims[0], grid.dims[1], grid.dims[2], fit.design.nt], brain, grid.spacingMm, { dof: fit.dof, packed: true })
+    : estimateSmoothness(fit.residuals!.data, fit.residuals!.dims, brain, grid.spacingMm, { dof: fit.dof });
   fit.residuals = null;
+  fit.packedResiduals = null;
   const thr = applyThresholdRule(maps.t.data, brain, grid.dims, ctx.threshold, { kind: 't', dof: maps.dof }, smooth.fwhmMm, grid.spacingMm, ctx.nullMaxima?.[cell.settingIndex]);
   // one ROC curve for both the scorecard's area and the curve table (it sorts every scored voxel)
   const curve = hasBothClasses(truth.mask, scoreMask) ? rocCurve(maps.t.data, truth.mask, scoreMask) : undefined;
@@ -465,6 +497,144 @@ function stepRegressor(r: NuisanceRegressor, nt: number): NuisanceRegressor {
 }
 
 /**
+ * Whether a task's cells can take the packed path (in a worker thread): the shared steps only select
+ * volumes, every cell's own steps are volume-wise, and the model fits one design for the whole run.
+ * Such a cell never needs a run-sized array: the unplanted run is shared, the planting is kept as its
+ * voxels' series, each volume is rebuilt and filtered in a volume-sized scratch, and the model reads
+ * the brain mask's voxels alone.
+ */
+function packable(task: SweepTask): boolean {
+  if (isMainThread) return false;
+  if (!task.group.prefix.every((s) => getStep(s.step).kind === 'select-volumes')) return false;
+  return task.cells.every((c) => c.suffix.every((s) => getStep(s.step).volumewise === true));
+}
+
+/** Brain-mask indices per mask array (a thread meets one or two masks). */
+const maskIndices = new WeakMap<Uint8Array, Int32Array>();
+
+/** Ascending indices of a mask's nonzero voxels (kept per mask). */
+function maskIndex(mask: Uint8Array): Int32Array {
+  let idx = maskIndices.get(mask);
+  if (!idx) {
+    let count = 0;
+    for (let v = 0; v < mask.length; v++) if (mask[v]) count++;
+    idx = new Int32Array(count);
+    for (let v = 0, j = 0; v < mask.length; v++) if (mask[v]) idx[j++] = v;
+    maskIndices.set(mask, idx);
+  }
+  return idx;
+}
+
+/**
+ * Steps that only select volumes, run on the shared run: their output, when it is a whole-volume
+ * view of the shared run (its first volume and count), else null.
+ */
+async function selectedVolumes(ctx: SweepContext, steps: readonly RecipeStep[], estimates: readonly (string | null)[], context: StepContext): Promise<{ volume: Volume; first: number; context: StepContext; notes: StepNote[]; regressors: NuisanceRegressor[] } | null> {
+  let volume = sharedRunVolume(ctx);
+  let c = context;
+  const notes: StepNote[] = [];
+  const regressors: NuisanceRegressor[] = [];
+  for (let i = 0; i < steps.length; i++) {
+    const r = await runRecipeStep(steps[i], volume, c, estimateOf(ctx, estimates[i]));
+    volume = r.volume;
+    c = r.context;
+    notes.push(r.note);
+    if (r.regressors) regressors.push(...r.regressors);
+  }
+  const run = ctx.run.data;
+  const n = ctx.run.dims[0] * ctx.run.dims[1] * ctx.run.dims[2];
+  const d = volume.data;
+  const sameGrid = volume.dims[0] === ctx.run.dims[0] && volume.dims[1] === ctx.run.dims[1] && volume.dims[2] === ctx.run.dims[2];
+  const offset = d.byteOffset - run.byteOffset;
+  if (!sameGrid || d.buffer !== run.buffer || offset < 0 || offset % (4 * n) !== 0 || d.length % n !== 0) return null;
+  return { volume, first: offset / (4 * n), context: c, notes, regressors };
+}
+
+/**
+ * A task's group stage as the packed path keeps it: the shared steps' selection of the unplanted run
+ * (a view of the shared run) and the planted voxels' series over the selected volumes. By the
+ * contract of 'select-volumes' steps, the same steps select the same volumes of the planted run.
+ * null when the selection is not a view of the shared run.
+ */
+async function packedStage(task: SweepTask, trialType: string): Promise<HeldStage | null> {
+  const ctx = task.context;
+  const group = task.group;
+  const events = groupEvents(ctx, group);
+  const selected = await selectedVolumes(ctx, group.prefix, group.prefixEstimates, initialContext(ctx, events));
+  if (!selected) return null;
+  const { truth, plantedSeries } = plantGroup(ctx, group, trialType, events, undefined, true);
+  const { voxels, values } = plantedSeries!;
+  const m = voxels.length;
+  const nt = selected.volume.dims[3];
+  const own = values.subarray(selected.first * m, (selected.first + nt) * m);
+  const patch: StagePatch = { voxels, bits: new Int32Array(own.buffer, own.byteOffset, own.length) };
+  const { data: _data, ...geometry } = selected.volume;
+  return { geometry, voxels: { base: selected.volume.data, patch }, truth, context: selected.context, notes: selected.notes, regressors: selected.regressors };
+}
+
+/** Volume t of a base run with a patch's series written over it, as {@link packVolumewise} reads it. */
+function patchedVolumes(geometry: Omit<Volume, 'data'>, base: Float32Array, patch: StagePatch | null): VolumeSource {
+  const n = geometry.dims[0] * geometry.dims[1] * geometry.dims[2];
+  return {
+    geometry,
+    volumeAt: (t, into) => {
+      into.set(base.subarray(t * n, (t + 1) * n));
+      if (!patch) return;
+      // 32-bit patterns, as applyStagePatch writes them
+      const bits = new Int32Array(into.buffer, into.byteOffset, n);
+      const m = patch.voxels.length;
+      for (let j = 0, k = t * m; j < m; j++, k++) bits[patch.voxels[j]] = patch.bits[k];
+    },
+  };
+}
+
+/**
+ * The cells of a packable task (see packable): the stage once (again per cell when stages are not
+ * reused), then per cell its volume-wise steps volume by volume into the thread's work buffer, which
+ * holds the brain mask's voxels only, the model on those voxels (residuals written over them) and the
+ * scoring, as runSweepTask does. null when the stage cannot be kept so (then the general path runs).
+ */
+async function runPackedTask(task: SweepTask, trialType: string, onCell?: (done: number) => void): Promise<CellResult[] | null> {
+  const ctx = task.context;
+  // a run-sized work buffer from an earlier task is not needed here
+  if (currentWorkBuffer() !== null) {
+    releaseWorkBuffer();
+    release();
+  }
+  let stage = await packedStage(task, trialType);
+  if (!stage) return null;
+  let how: CellResult['groupStage'] = 'computed';
+  const out: CellResult[] = [];
+  for (const cell of task.cells) {
+    const t0 = performance.now();
+    if (!stage) {
+      stage = (await packedStage(task, trialType))!;
+      how = 'computed';
+    }
+    const { base, patch } = stage.voxels as { base: Float32Array; patch: StagePatch };
+    const { brain } = masksInFrame(ctx, stage.context.frame ?? { kind: 'raw' });
+    const index = maskIndex(brain);
+    const nt = stage.geometry.dims[3];
+    const packed = workBuffer(index.length * nt);
+    const estimates = cell.suffixEstimates.map((k) => estimateOf(ctx, k));
+    const done = await packVolumewise(patchedVolumes(stage.geometry, base, patch), cell.suffix, estimates, stage.context, index, packed);
+    // volume-wise steps stay on the grid: the model's brain mask is the one the voxels were kept for
+    if (masksInFrame(ctx, done.context.frame ?? { kind: 'raw' }).brain !== brain) fail('INVALID_ARGUMENT', `the volume-wise steps of cell ${cell.key.slice(0, 12)} moved the run to another frame; a volume-wise step must keep its input's frame`);
+    const geometryOnly: Volume = { ...stage.geometry, data: new Float32Array(0) };
+    const holder: CellRun = { volume: geometryOnly, packed };
+    const { metrics, tpr } = modelAndScore(holder, done.context, stage.truth, ctx, cell, trialType, [...stage.regressors]);
+    const result: CellResult = { key: cell.key, metrics, tpr, notes: [...stage.notes, ...done.notes], seconds: (performance.now() - t0) / 1000, groupStage: how };
+    if (ctx.cacheDir) await writeCachedCell(ctx.cacheDir, result);
+    out.push(result);
+    how = 'memory';
+    if (ctx.stageMode === 'none') stage = null;
+    if (ctx.progress) Atomics.add(ctx.progress, task.index, 1);
+    onCell?.(out.length);
+  }
+  return out;
+}
+
+/**
  * Run one task: the group stage once (or from the cache), then every cell of the task. Each finished
  * cell is written to the cache before the next starts, so an interrupted sweep loses at most the
  * cells in progress.
@@ -477,6 +647,10 @@ export async function runSweepTask(task: SweepTask, onCell?: (done: number) => v
   if (task.group.study) return runStudyTask(task, onCell);
   const ctx = task.context;
   const trialType = conditionOf(groupEvents(ctx, task.group), task.group, task.cells[0]?.model.trialType ?? null);
+  if (packable(task)) {
+    const packedOut = await runPackedTask(task, trialType, onCell);
+    if (packedOut) return packedOut;
+  }
   const out: CellResult[] = [];
   const holding: { held: HeldStage | null } = { held: null };
   for (const cell of task.cells) {
@@ -633,6 +807,8 @@ function groupTruth(group: CellGroup, grid: { dims: number[]; affine: Float64Arr
 export async function runTsnrTask(task: TsnrTask): Promise<TsnrResult> {
   const t0 = performance.now();
   const ctx = task.context;
+  const packedMedian = await packedTsnrMedian(task);
+  if (packedMedian !== undefined) return finishTsnrTask(task, packedMedian, t0);
   let volume: Volume | null = sharedRunVolume(ctx);
   let context = initialContext(ctx, ctx.events);
   for (let i = 0; i < task.steps.length; i++) {
@@ -647,7 +823,47 @@ export async function runTsnrTask(task: TsnrTask): Promise<TsnrResult> {
   const { brain } = masksInFrame(ctx, context.frame ?? { kind: 'raw' });
   const inMask: number[] = [];
   for (let v = 0; v < brain.length; v++) if (brain[v] && Number.isFinite(stats.tsnr[v])) inMask.push(stats.tsnr[v]);
-  const result: TsnrResult = { key: task.key, tsnrMedian: inMask.length ? medianOf(inMask) : null, seconds: (performance.now() - t0) / 1000 };
+  return finishTsnrTask(task, inMask.length ? medianOf(inMask) : null, t0);
+}
+
+/**
+ * The median tSNR on the packed path (in a worker thread, when the setting's steps are some that
+ * only select volumes followed by volume-wise ones): the selection stays a view of the shared run,
+ * the volume-wise steps run volume by volume and only the brain mask's voxels are kept, so no
+ * run-sized array is made. voxelTimeStats treats each voxel's series on its own, so the mask's
+ * voxels laid side by side give the values they have on the grid. undefined when the path does not apply.
+ */
+async function packedTsnrMedian(task: TsnrTask): Promise<number | null | undefined> {
+  if (isMainThread) return undefined;
+  const ctx = task.context;
+  const steps = task.steps;
+  let k = 0;
+  while (k < steps.length && getStep(steps[k].step).kind === 'select-volumes') k++;
+  if (!steps.slice(k).every((s) => getStep(s.step).volumewise === true)) return undefined;
+  const selected = await selectedVolumes(ctx, steps.slice(0, k), task.estimates.slice(0, k), initialContext(ctx, ctx.events));
+  if (!selected) return undefined;
+  if (currentWorkBuffer() !== null) {
+    releaseWorkBuffer();
+    release();
+  }
+  const { brain } = masksInFrame(ctx, selected.context.frame ?? { kind: 'raw' });
+  const index = maskIndex(brain);
+  const nt = selected.volume.dims[3];
+  const packed = workBuffer(index.length * nt);
+  const { data: _data, ...geometry } = selected.volume;
+  const estimates = task.estimates.slice(k).map((e) => estimateOf(ctx, e));
+  await packVolumewise(patchedVolumes(geometry, selected.volume.data, null), steps.slice(k), estimates, selected.context, index, packed);
+  const side = makeVolume({ dims: [index.length, 1, 1, nt], spacingMm: [...geometry.spacingMm], trSec: geometry.trSec, affine: Float64Array.from(geometry.affine), data: packed });
+  const stats = voxelTimeStats(side, { detrendOrder: 2 });
+  const inMask: number[] = [];
+  for (let j = 0; j < index.length; j++) if (Number.isFinite(stats.tsnr[j])) inMask.push(stats.tsnr[j]);
+  return inMask.length ? medianOf(inMask) : null;
+}
+
+/** A tSNR task's result, cached, and the memory its sums and maps held let go. */
+async function finishTsnrTask(task: TsnrTask, tsnrMedian: number | null, t0: number): Promise<TsnrResult> {
+  const ctx = task.context;
+  const result: TsnrResult = { key: task.key, tsnrMedian, seconds: (performance.now() - t0) / 1000 };
   if (ctx.cacheDir) await writeCachedTsnr(ctx.cacheDir, result);
   // the cells never sum over time: let the sums' block memory (about 4 MB) go, and collect it with this
   // task's maps now (left to V8, they stayed through the next tasks: 7 such memories at a demo sweep's peak)

@@ -171,3 +171,34 @@ describe('plantActivations', () => {
     expect(codeOf(() => plantActivations(single, base({ timeCourse: [1] })))).toBe('NOT_4D');
   });
 });
+
+/** Values whose 32-bit patterns differ between two arrays of the same length. */
+function differing(a: Float32Array, b: Float32Array): number {
+  const x = new Int32Array(a.buffer, a.byteOffset, a.length);
+  const y = new Int32Array(b.buffer, b.byteOffset, b.length);
+  let k = 0;
+  for (let i = 0; i < x.length; i++) if (x[i] !== y[i]) k++;
+  return k + Math.abs(a.length - b.length);
+}
+
+describe('plantActivations with seriesOnly', () => {
+  it('returns the run itself and the planted voxels\' series: the planted copy\'s bytes there, the run\'s elsewhere', () => {
+    const run = syntheticRun();
+    const before = Float32Array.from(run.data);
+    const slices = Array.from({ length: NZ }, (_, k) => timeCourse.map((c, t) => (t + k / NZ) % 10 < 5 ? c : -0.5));
+    for (const over of [{}, { sliceTimeCourses: slices }, { shape: 'sphere' as const, radiusMm: 5, fwhmMm: undefined }]) {
+      const copy = plantActivations(run, base(over));
+      const only = plantActivations(run, base({ ...over, seriesOnly: true }));
+      expect(only.volume).toBe(run);
+      expect(differing(run.data, before)).toBe(0);
+      expect(only.truth).toEqual(copy.truth);
+      const { voxels, values } = only.plantedSeries!;
+      const m = voxels.length;
+      expect(values.length).toBe(m * NT);
+      const rebuilt = Float32Array.from(run.data);
+      for (let t = 0; t < NT; t++) for (let q = 0; q < m; q++) rebuilt[voxels[q] + N * t] = values[t * m + q];
+      expect(differing(rebuilt, copy.volume.data)).toBe(0);
+      expect(m).toBeGreaterThan(0);
+    }
+  });
+});

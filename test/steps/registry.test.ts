@@ -42,6 +42,13 @@ describe('step registry', () => {
     expect(caught(() => registerStep('smooth', getStep('smooth'))).code).toBe('INVALID_ARGUMENT');
     expect(caught(() => registerStep('Bad Name', getStep('smooth'))).code).toBe('INVALID_ARGUMENT');
   });
+  it('takes volumewise only for spatial filters', () => {
+    // a step over all volumes (a temporal filter) cannot be run one volume at a time
+    expect(caught(() => registerStep('smooth-over-time', { ...getStep('highpass'), volumewise: true })).code).toBe('INVALID_ARGUMENT');
+    expect(caught(() => registerStep('smooth-maybe', { ...getStep('smooth'), volumewise: 'yes' as unknown as boolean })).code).toBe('INVALID_ARGUMENT');
+    expect(getStep('smooth').volumewise).toBe(true);
+    expect(getStep('grand-mean-scale').volumewise).toBeFalsy();
+  });
   it('applies a registered step with validated parameters (same result as calling smoothRun)', async () => {
     const data = new Float32Array(8 * 7 * 6 * 3);
     createRng(5).fillNormal(data, 100, 10);

@@ -7,6 +7,7 @@ import { closeSharedWorkerPools } from '../../src/core/worker-pool.js';
 import { smoothVolume3d } from '../../src/filter/gaussian-smooth.js';
 import { maxFwhmMm, smoothStep } from '../../src/steps/smooth-step.js';
 import type { StepContext } from '../../src/steps/step-types.js';
+import { getStep } from '../../src/steps/registry.js';
 
 afterAll(async () => { await closeSharedWorkerPools(); });
 
@@ -64,5 +65,20 @@ describe('smooth step', () => {
     const b = await smoothStep(own, { fwhmMm: 6 }, { ...ctx, outputBuffer: () => own.data });
     expect(b.volume.data).toBe(own.data);
     expect(Array.from(own.data)).toEqual(Array.from(ref.volume.data));
+  });
+  it('is volume-wise, as its definition declares: each volume alone gives the whole run\'s bytes and note', async () => {
+    expect(getStep('smooth').volumewise).toBe(true);
+    const mask = new Uint8Array(720);
+    for (let v = 0; v < 720; v++) mask[v] = v % 7 < 5 ? 1 : 0;
+    for (const params of [{ fwhmMm: 6 }, { fwhmMm: 0 }, { fwhmMm: 8, mode: 'constant' as const }, { fwhmMm: 6, withinMask: true }]) {
+      const c = { ...ctx, mask };
+      const whole = await smoothStep(run, params, c);
+      for (let t = 0; t < 2; t++) {
+        const one = makeVolume({ ...run, dims: [10, 9, 8, 1], data: run.data.slice(t * 720, (t + 1) * 720) });
+        const alone = await smoothStep(one, params, c);
+        expect(Array.from(alone.volume.data)).toEqual(Array.from(whole.volume.data.subarray(t * 720, (t + 1) * 720)));
+        expect(alone.note).toEqual(whole.note);
+      }
+    }
   });
 });
