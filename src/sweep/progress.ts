@@ -10,18 +10,35 @@ export interface SweepProgress {
   elapsedSec: number;
   /** Estimated seconds left (NaN until something was computed). */
   etaSec: number;
+  /**
+   * When the threshold rule fits null designs: settings whose designs are fitted, of those that need
+   * them (they come before any cell, so the cell count stands still meanwhile). Absent otherwise.
+   */
+  nullDesigns?: { done: number; total: number };
 }
 
 /**
  * One line describing progress, for a notebook or a log.
  * @param p - progress
- * @returns e.g. "sweep 48/160 cells (30 %), 8 from cache, 21 s elapsed, about 49 s left"
+ * @returns e.g. "sweep 48/160 cells (30 %), 8 from cache, 21 s elapsed, about 49 s left", or while null
+ *   designs are fitted "sweep 0/160 cells (0 %), null designs for 3/8 settings first, 12 s elapsed"
  * @example progressLine({ done: 1, total: 4, fromCache: 0, elapsedSec: 2, etaSec: 6 })
  */
 export function progressLine(p: SweepProgress): string {
   const pct = p.total ? Math.floor((100 * p.done) / p.total) : 100;
   const eta = Number.isFinite(p.etaSec) && p.done < p.total ? `, about ${Math.ceil(p.etaSec)} s left` : '';
-  return `sweep ${p.done}/${p.total} cells (${pct} %)${p.fromCache ? `, ${p.fromCache} from cache` : ''}, ${p.elapsedSec.toFixed(0)} s elapsed${eta}`;
+  return `sweep ${p.done}/${p.total} cells (${pct} %)${p.fromCache ? `, ${p.fromCache} from cache` : ''}${nullDesignsText(p)}, ${p.elapsedSec.toFixed(0)} s elapsed${eta}`;
+}
+
+/**
+ * The null-design phase in words while it lasts, else ''.
+ * @param p - progress
+ * @returns e.g. ", null designs for 3/8 settings first"
+ * @example nullDesignsText({ done: 0, total: 4, fromCache: 0, elapsedSec: 2, etaSec: NaN, nullDesigns: { done: 1, total: 2 } })
+ */
+export function nullDesignsText(p: SweepProgress): string {
+  const n = p.nullDesigns;
+  return n && n.done < n.total ? `, null designs for ${n.done}/${n.total} settings first` : '';
 }
 
 /**

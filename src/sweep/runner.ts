@@ -435,11 +435,14 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
     }
   }
   const jobCount = taskCells.length + tsnrTodo.size + nullTasks.length;
+  const nullResultsCached = nullResults.length;
   const keepNull = async (r: NullResult): Promise<void> => {
     nullResults.push(r);
+    report();
     if (cacheDir) await writeCachedNull(cacheDir, nullKeys.get(r.settingIndex)!, r);
   };
   const useNull = (): void => {
+    cellsFromSec = (performance.now() - t0) / 1000;
     if (!nullResults.length) return;
     const maxima: Record<number, number[]> = {};
     for (const r of nullResults) maxima[r.settingIndex] = r.maxima;
@@ -456,14 +459,20 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
   // 6. run
   const total = mine.length;
   let computed = 0;
+  // the cells' pace is measured from when they could start: after the null designs, which come first
+  let cellsFromSec = 0;
   const report = () => {
     if (!options.onProgress) return;
     let done = 0;
     for (let i = 0; i < progress.length; i++) done += Atomics.load(progress, i);
     done = Math.min(done, total - fromCache);
     const elapsedSec = (performance.now() - t0) / 1000;
-    const rate = done > 0 ? elapsedSec / done : NaN;
-    options.onProgress({ done: done + fromCache, total, fromCache, elapsedSec, etaSec: rate * (total - fromCache - done) });
+    const rate = done > 0 ? (elapsedSec - cellsFromSec) / done : NaN;
+    const nullTotal = nullTasks.length;
+    options.onProgress({
+      done: done + fromCache, total, fromCache, elapsedSec, etaSec: rate * (total - fromCache - done),
+      ...(nullTotal ? { nullDesigns: { done: Math.min(nullTotal, nullResults.length - (nullResultsCached)), total: nullTotal } } : {}),
+    });
   };
   report();
   const keep = (out: CellResult[], task: SweepTask) => {

@@ -1,5 +1,5 @@
 import cliProgress from 'cli-progress';
-import type { SweepProgress } from './progress.js';
+import { nullDesignsText, type SweepProgress } from './progress.js';
 import { plainProgressLines } from './plain-progress-lines.js';
 
 /**
@@ -13,7 +13,7 @@ import { plainProgressLines } from './plain-progress-lines.js';
 export function terminalProgress(stream: NodeJS.WriteStream = process.stderr): { update: (p: SweepProgress) => void; stop: () => void } {
   if (!stream.isTTY) return plainProgressLines((line) => stream.write(line + '\n'));
   const bar = new cliProgress.SingleBar({
-    format: 'sweep [{bar}] {percentage}% | {value}/{total} cells | {cached} from cache | {duration}s elapsed | ETA {eta}s',
+    format: 'sweep [{bar}] {percentage}% | {value}/{total} cells | {cached} from cache{phase} | {duration}s elapsed | ETA {eta}s',
     stream,
     hideCursor: true,
     noTTYOutput: false,
@@ -22,8 +22,9 @@ export function terminalProgress(stream: NodeJS.WriteStream = process.stderr): {
   let started = false;
   return {
     update(p) {
-      if (!started) { bar.start(p.total, p.done, { cached: p.fromCache }); started = true; }
-      bar.update(p.done, { cached: p.fromCache });
+      const phase = nullDesignsText(p).replace(',', ' |');
+      if (!started) { bar.start(p.total, p.done, { cached: p.fromCache, phase }); started = true; }
+      bar.update(p.done, { cached: p.fromCache, phase });
     },
     stop() { if (started) bar.stop(); },
   };

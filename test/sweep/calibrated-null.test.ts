@@ -7,6 +7,7 @@ import { createRng } from '../../src/core/random.js';
 import { makeVolume, type Volume } from '../../src/core/volume.js';
 import { runSweep } from '../../src/sweep/runner.js';
 import type { SweepSpecInput } from '../../src/sweep/spec.js';
+import type { SweepProgress } from '../../src/sweep/progress.js';
 import { smoothGaussianField } from '../../src/simulate/smooth-gaussian-field.js';
 import { isBoldsweepError } from '../../src/core/errors.js';
 import { scorecardToTsv } from '../../src/sweep/scorecard-tsv.js';
@@ -110,11 +111,19 @@ describe('fwe-calibrated on smooth non-Gaussian null runs', () => {
     const cacheDir = mkdtempSync(join(tmpdir(), 'boldsweep-null-cache-'));
     try {
       const input = { volume: run.volume, events: null, sidecar: null };
-      const first = await runSweep(input, planted, { inThisThread: true, brainMask: run.mask, cacheDir });
+      const seen: SweepProgress[] = [];
+      const first = await runSweep(input, planted, { inThisThread: true, brainMask: run.mask, cacheDir, onProgress: (p) => seen.push(p) });
       expect(readdirSync(join(cacheDir, 'null')).length).toBe(2);
+      // progress says how far the null designs are while no cell is done, then counts the cells
+      expect(seen[0].nullDesigns).toEqual({ done: 0, total: 2 });
+      expect(seen.some((p) => p.nullDesigns?.done === 1 && p.done === 0)).toBe(true);
+      expect(seen.at(-1)!.nullDesigns).toEqual({ done: 2, total: 2 });
+      expect(seen.at(-1)!.done).toBe(seen.at(-1)!.total);
       // every cell and both settings' null designs come from the cache
-      const again = await runSweep(input, planted, { inThisThread: true, brainMask: run.mask, cacheDir });
+      const againSeen: SweepProgress[] = [];
+      const again = await runSweep(input, planted, { inThisThread: true, brainMask: run.mask, cacheDir, onProgress: (p) => againSeen.push(p) });
       expect(again.stats.tasks).toBe(0);
+      expect(againSeen.every((p) => p.nullDesigns === undefined)).toBe(true);
       expect(again.nullCalibration).toEqual(first.nullCalibration);
       expect(scorecardToTsv(again.scorecard)).toBe(scorecardToTsv(first.scorecard));
       // a new cell (another width) needs the null designs of its own setting only

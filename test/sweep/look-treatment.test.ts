@@ -66,4 +66,10 @@ describe('plainProgressLines', () => {
     at(40, 17); // nothing after the end
     expect(lines.map((l) => l.split(' cells')[0])).toEqual(['sweep 0/40', 'sweep 4/40', 'sweep 5/40', 'sweep 40/40']);
   });
+
+  it('says while the null designs are fitted, before any cell, and drops it once they are', async () => {
+    const { progressLine } = await import('../../src/sweep/progress.js');
+    expect(progressLine({ done: 0, total: 160, fromCache: 0, elapsedSec: 12.2, etaSec: NaN, nullDesigns: { done: 3, total: 8 } })).toBe('sweep 0/160 cells (0 %), null designs for 3/8 settings first, 12 s elapsed');
+    expect(progressLine({ done: 16, total: 160, fromCache: 0, elapsedSec: 40, etaSec: 36, nullDesigns: { done: 8, total: 8 } })).toBe('sweep 16/160 cells (10 %), 40 s elapsed, about 36 s left');
+  });
 });
