@@ -2,6 +2,7 @@ import { invertAffine, type Affine } from '../core/affine.js';
 import { fail } from '../core/fail.js';
 import type { Grid } from '../core/grid-frame.js';
 import type { Volume } from '../core/volume.js';
+import { meanImage } from '../look/mean-image.js';
 import { estimateRunMotion } from '../register/estimate-run-motion.js';
 import { registerImagePair } from '../register/register-image-pair.js';
 import type { ImageOnGrid, RegistrationCost } from '../register/registration-types.js';
@@ -26,18 +27,6 @@ export interface AlignmentOptions {
   mask?: Uint8Array | null;
   /** Worker threads for motion estimation and resampling. __Default value:__ their defaults */
   workers?: number;
-}
-
-/** Mean over volumes, Float64 sums. */
-function meanOfRun(run: Volume): Float32Array {
-  const n = run.dims[0] * run.dims[1] * run.dims[2];
-  const nt = run.dims[3];
-  const sum = new Float64Array(n);
-  for (let t = 0; t < nt; t++) {
-    const off = t * n;
-    for (let v = 0; v < n; v++) sum[v] += run.data[off + v];
-  }
-  return Float32Array.from(sum, (s) => s / nt);
 }
 
 /**
@@ -66,10 +55,10 @@ export async function estimateAlignment(run: Volume, structural: ImageOnGrid, te
     const motion = await estimateRunMotion(run, { model: 'rigid', cost: 'least-squares', reference: 'first', ...(options.mask ? { mask: options.mask } : {}), ...workers });
     poses = motion.transforms;
     const corrected = await resampleRun(run, { kernel: 'linear', grid: runGrid, perVolume: poses, ...workers });
-    mean = meanOfRun(corrected);
+    mean = Float32Array.from(meanImage(corrected));
     diagnostics.motionReference = 'volume 0';
   } else {
-    mean = meanOfRun(run);
+    mean = Float32Array.from(meanImage(run));
   }
   const toStructural = registerImagePair({ data: mean, grid: runGrid }, structural, { model: 'rigid', cost: options.structuralCost ?? 'normalised-mutual-information', mask: options.mask ?? null, label: 'the run mean (to the structural image)' });
   // fixed = template, moving = structural: the result maps template world -> structural world

@@ -1,5 +1,5 @@
 import type { EdgeSides } from './edge-sides.js';
-import type { MotionEdgeSignature } from './motion-edge-signature.js';
+import { signatureFromAxes, type MotionEdgeSignature } from './motion-edge-signature.js';
 
 /**
  * The motion edge signature from the per-volume sums of the edge voxels' % changes on each side (what
@@ -17,13 +17,5 @@ export function edgeSignatureFromSums(sideSums: Float64Array, sides: EdgeSides, 
   for (let t = 1; t < nt; t++) {
     for (let a = 0; a < 3; a++) axes[a][t] = sideSums[6 * t + 2 * a] / plus[a].length - sideSums[6 * t + 2 * a + 1] / minus[a].length;
   }
-  const rms = (x: Float64Array) => {
-    let s = 0;
-    for (let t = 1; t < nt; t++) s += x[t] * x[t];
-    return Math.sqrt(s / (nt - 1));
-  };
-  return {
-    axes, rmsPct: [rms(axes[0]), rms(axes[1]), rms(axes[2])],
-    voxels: { plus: [plus[0].length, plus[1].length, plus[2].length], minus: [minus[0].length, minus[1].length, minus[2].length] },
-  };
+  return signatureFromAxes(axes, sides);
 }

@@ -1,6 +1,6 @@
 import { fail } from '../core/fail.js';
 import { voxelsPerVolume, type Volume } from '../core/volume.js';
-import { edgeSides } from './edge-sides.js';
+import { edgeSides, type EdgeSides } from './edge-sides.js';
 
 /** The per-volume motion edge signature of a run: see {@link motionEdgeSignature}. */
 export interface MotionEdgeSignature {
@@ -74,6 +74,19 @@ export function motionEdgeSignature(run: Volume, mask: ArrayLike<number>): Motio
     for (let a = 0; a < 3; a++) axes[a][t] = meanAt(change, plus[a]) - meanAt(change, minus[a]);
     [before, now] = [now, before];
   }
+  return signatureFromAxes(axes, { plus, minus });
+}
+
+/**
+ * A signature from its per-axis values: their RMS over volumes 1..nt-1 and the sides' voxel counts.
+ * @param axes - per axis, one value per volume (0 at the first)
+ * @param sides - the edge voxels facing + and - along each axis
+ * @returns the signature
+ * @example signatureFromAxes(axes, edgeSides(mask, dims))
+ */
+export function signatureFromAxes(axes: MotionEdgeSignature['axes'], sides: Pick<EdgeSides, 'plus' | 'minus'>): MotionEdgeSignature {
+  const { plus, minus } = sides;
+  const nt = axes[0].length;
   const rms = (x: Float64Array) => {
     let s = 0;
     for (let t = 1; t < nt; t++) s += x[t] * x[t];

@@ -1,6 +1,7 @@
 import { fail } from '../core/fail.js';
 import { volumeLike, voxelsPerVolume, type Volume } from '../core/volume.js';
 import { ar1BiasTraces, correctAr1 } from './ar1.js';
+import { ar1WhitenedProjector } from './ar1-whitened-projector.js';
 import { designPseudoInverse, type DesignMatrix } from './design-matrix.js';
 import { DEFAULT_AR1_SMOOTH_FWHM_MM, type GlmAr1Options } from './glm-ar1.js';
 import { checkRunAndDesign, fittedVoxels, gridOf, residualsArray, type GlmFit } from './glm-fit.js';
@@ -149,19 +150,7 @@ export function fitGlmBySliceTime(run: Volume, designs: readonly DesignMatrix[],
     keys.forEach((b, g) => {
       const r = Math.max(-maxAbsRho, Math.min(maxAbsRho, b * binWidth));
       rhoOfGroup[g] = r;
-      const c0 = Math.sqrt(1 - r * r);
-      for (let j = 0; j < p; j++) {
-        xw[j] = c0 * d.x[j];
-        for (let t = 1; t < nt; t++) xw[t * p + j] = d.x[t * p + j] - r * d.x[(t - 1) * p + j];
-      }
-      const solved = designPseudoInverse({ columns: d.columns, x: xw, nt, p });
-      covParts.push(Float64Array.from(solved.xtxInv));
-      const pw = solved.pinv;
-      const o = g * size;
-      for (let t = 0; t < nt; t++) {
-        const ct = t === 0 ? c0 : 1;
-        for (let j = 0; j < p; j++) proj[o + t * p + j] = pw[j * nt + t] * ct - (t + 1 < nt ? r * pw[j * nt + t + 1] : 0);
-      }
+      covParts.push(Float64Array.from(ar1WhitenedProjector(d.x, d.columns, nt, p, r, xw, proj, g * size)));
     });
     const g = new Uint16Array(nc);
     for (let i = 0; i < nc; i++) {

@@ -1,6 +1,7 @@
 import { fail } from '../core/fail.js';
 import { volumeLike, voxelsPerVolume, type Volume } from '../core/volume.js';
 import { ar1BiasTraces, correctAr1 } from './ar1.js';
+import { ar1WhitenedProjector } from './ar1-whitened-projector.js';
 import { designPseudoInverse, type DesignMatrix } from './design-matrix.js';
 import { checkRunAndDesign, fitInput, fittedVoxels, gridOf, residualsArray, type GlmFit, type GlmOptions } from './glm-fit.js';
 import { sweepVoxels, transposeToTimeMajor } from './glm-kernel.js';
@@ -112,20 +113,7 @@ export function fitGlmAr1(run: Volume, design: DesignMatrix, options: GlmAr1Opti
   keys.forEach((b, g) => {
     const r = Math.max(-maxAbsRho, Math.min(maxAbsRho, b * binWidth));
     rhoOfGroup[g] = r;
-    const c0 = Math.sqrt(1 - r * r);
-    for (let j = 0; j < p; j++) {
-      xw[j] = c0 * x[j];
-      for (let t = 1; t < nt; t++) xw[t * p + j] = x[t * p + j] - r * x[(t - 1) * p + j];
-    }
-    const solved = designPseudoInverse({ columns: design.columns, x: xw, nt, p });
-    cov.set(solved.xtxInv, g * p * p);
-    // beta_j = sum_s P[j,s] (W y)_s  =>  coefficient of y_t is P[j,t] c_t - rho P[j,t+1]
-    const pw = solved.pinv;
-    const o = g * size;
-    for (let t = 0; t < nt; t++) {
-      const ct = t === 0 ? c0 : 1;
-      for (let j = 0; j < p; j++) proj[o + t * p + j] = pw[j * nt + t] * ct - (t + 1 < nt ? r * pw[j * nt + t + 1] : 0);
-    }
+    cov.set(ar1WhitenedProjector(x, design.columns, nt, p, r, xw, proj, g * size), g * p * p);
   });
   const rss = new Float64Array(n);
   const residuals = residualsArray(options, nvox, nt, idx);

@@ -7,6 +7,7 @@ import { defaultWorkerCount, sharedWorkerPool } from '../core/worker-pool.js';
 import { gridCentreMm } from '../acquire/grid-centre-mm.js';
 import type { MotionRow } from '../acquire/rigid-motion-affine.js';
 import { AFFINE_MOTION_COLUMNS, type AffineMotionRow } from '../io/motion-table-tsv.js';
+import { meanImage } from '../look/mean-image.js';
 import { scanNonFinite } from '../io/non-finite.js';
 import { leastMovingVolume } from './least-moving-volume.js';
 import { motionParametersAffine } from './motion-parameters-affine.js';
@@ -56,18 +57,6 @@ export interface RunMotion {
 /** Below this many voxel-volumes the run is registered in the calling thread (thread start-up would dominate). */
 export const RUN_MOTION_IN_THREAD_BELOW = 1_000_000;
 
-function meanImage(run: Volume): Float32Array {
-  const n = run.dims[0] * run.dims[1] * run.dims[2];
-  const nt = run.dims[3];
-  const sum = new Float64Array(n);
-  for (let t = 0; t < nt; t++) {
-    const off = t * n;
-    for (let p = 0; p < n; p++) sum[p] += run.data[off + p];
-  }
-  const out = new Float32Array(n);
-  for (let p = 0; p < n; p++) out[p] = sum[p] / nt;
-  return out;
-}
 
 /** Volumes in the order each is registered: outwards from the reference, in chunks. */
 function chunksFrom(ref: number | null, nt: number, chunks: number): number[][] {
@@ -169,11 +158,11 @@ export async function estimateRunMotion(run: Volume, options: RunMotionOptions =
 
   let result: { params: Float64Array; costs: Float64Array; iterations: number[][] };
   if (reference === 'least-moving') {
-    const first = await pass(null, meanImage(run));
+    const first = await pass(null, Float32Array.from(meanImage(run)));
     refIndex = leastMovingVolume(first.params, np);
     result = await pass(refIndex, run.data.slice(refIndex * n, (refIndex + 1) * n));
   } else {
-    result = await pass(refIndex, refIndex === null ? meanImage(run) : run.data.slice(refIndex * n, (refIndex + 1) * n));
+    result = await pass(refIndex, refIndex === null ? Float32Array.from(meanImage(run)) : run.data.slice(refIndex * n, (refIndex + 1) * n));
   }
   const rows = Array.from({ length: nt }, (_, t) => {
     const p = result.params.subarray(t * np, (t + 1) * np);

@@ -471,7 +471,7 @@ export async function runSweep(run: SweepRunInput, specInput: SweepSpecInput | S
     const nullTotal = nullTasks.length;
     options.onProgress({
       done: done + fromCache, total, fromCache, elapsedSec, etaSec: rate * (total - fromCache - done),
-      ...(nullTotal ? { nullDesigns: { done: Math.min(nullTotal, nullResults.length - (nullResultsCached)), total: nullTotal } } : {}),
+      ...(nullTotal ? { nullDesigns: { done: Math.min(nullTotal, nullResults.length - nullResultsCached), total: nullTotal } } : {}),
     });
   };
   report();
